@@ -1,0 +1,144 @@
+#include "artwork.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* Grow an array held as (pointer, count, capacity) by one element. */
+static bool grow(void **items, size_t *capacity, size_t count, size_t size)
+{
+	if (count < *capacity)
+		return true;
+	size_t wanted = *capacity ? *capacity * 2 : 16;
+	void *grown = realloc(*items, wanted * size);
+	if (!grown)
+		return false;
+	*items = grown;
+	*capacity = wanted;
+	return true;
+}
+
+void gp_artwork_init(struct gp_artwork *art)
+{
+	memset(art, 0, sizeof(*art));
+}
+
+void gp_artwork_finish(struct gp_artwork *art)
+{
+	for (size_t i = 0; i < art->shape_count; i++)
+		gp_polygon_finish(&art->shapes[i].poly);
+	for (size_t i = 0; i < art->pixel_count; i++)
+		gp_polygon_finish(&art->pixels[i].shape);
+	free(art->shapes);
+	free(art->pixels);
+	free(art->nets);
+	gp_artwork_init(art);
+}
+
+int gp_artwork_add_net(struct gp_artwork *art, enum gp_net_kind kind,
+		       enum gp_plate plate)
+{
+	if (!grow((void **)&art->nets, &art->net_capacity, art->net_count,
+		  sizeof(*art->nets)))
+		return -1;
+	int number = 1;
+	for (size_t i = 0; i < art->net_count; i++)
+		if (art->nets[i].kind == kind)
+			number++;
+	struct gp_net *net = &art->nets[art->net_count];
+	memset(net, 0, sizeof(*net));
+	net->kind = kind;
+	net->number = number;
+	net->plate = plate;
+	snprintf(net->name, sizeof(net->name), "%s%d",
+		 kind == GP_NET_COMMON ? "COM" : "SEG", number);
+	return (int)art->net_count++;
+}
+
+struct gp_shape *gp_artwork_add_shape(struct gp_artwork *art,
+				      enum gp_layer layer, enum gp_role role,
+				      int net, struct gp_polygon *poly)
+{
+	if (!grow((void **)&art->shapes, &art->shape_capacity,
+		  art->shape_count, sizeof(*art->shapes)))
+		return NULL;
+	struct gp_shape *shape = &art->shapes[art->shape_count++];
+	memset(shape, 0, sizeof(*shape));
+	shape->layer = layer;
+	shape->role = role;
+	shape->net = net;
+	shape->poly = *poly;
+	gp_polygon_init(poly);
+	return shape;
+}
+
+struct gp_shape *gp_artwork_add_box(struct gp_artwork *art,
+				    enum gp_layer layer, enum gp_role role,
+				    int net, struct gp_box box)
+{
+	struct gp_polygon poly;
+	gp_polygon_init(&poly);
+	if (!gp_polygon_set_box(&poly, box))
+		return NULL;
+	struct gp_shape *shape = gp_artwork_add_shape(art, layer, role, net,
+						      &poly);
+	gp_polygon_finish(&poly);
+	return shape;
+}
+
+struct gp_pixel *gp_artwork_add_pixel(struct gp_artwork *art, int common,
+				      int segment, struct gp_box box)
+{
+	if (!grow((void **)&art->pixels, &art->pixel_capacity,
+		  art->pixel_count, sizeof(*art->pixels)))
+		return NULL;
+	struct gp_pixel *pixel = &art->pixels[art->pixel_count++];
+	memset(pixel, 0, sizeof(*pixel));
+	pixel->common = common;
+	pixel->segment = segment;
+	pixel->box = box;
+	return pixel;
+}
+
+static const char *const layer_names[GP_LAYER_COUNT] = {
+	[GP_LAYER_FRONT_ITO] = "front-ito",
+	[GP_LAYER_BACK_ITO] = "back-ito",
+	[GP_LAYER_SEAL] = "seal",
+	[GP_LAYER_TRANSFER] = "transfer",
+	[GP_LAYER_FRONT_OUTLINE] = "front-outline",
+	[GP_LAYER_BACK_OUTLINE] = "back-outline",
+};
+
+static const char *const layer_titles[GP_LAYER_COUNT] = {
+	[GP_LAYER_FRONT_ITO] = "Front plate ITO",
+	[GP_LAYER_BACK_ITO] = "Back plate ITO",
+	[GP_LAYER_SEAL] = "Seal print",
+	[GP_LAYER_TRANSFER] = "Common transfers",
+	[GP_LAYER_FRONT_OUTLINE] = "Front plate outline",
+	[GP_LAYER_BACK_OUTLINE] = "Back plate outline",
+};
+
+const char *gp_layer_name(enum gp_layer layer)
+{
+	return layer < GP_LAYER_COUNT ? layer_names[layer] : "?";
+}
+
+const char *gp_layer_title(enum gp_layer layer)
+{
+	return layer < GP_LAYER_COUNT ? layer_titles[layer] : "?";
+}
+
+const char *gp_role_name(enum gp_role role)
+{
+	static const char *const names[] = {
+		"electrode", "lead", "bridge", "patch", "pad",
+		"transfer", "seal", "outline", "mark", "text",
+	};
+	return (size_t)role < sizeof(names) / sizeof(names[0]) ? names[role]
+								: "?";
+}
+
+enum gp_layer gp_plate_ito_layer(enum gp_plate plate)
+{
+	return plate == GP_PLATE_FRONT ? GP_LAYER_FRONT_ITO : GP_LAYER_BACK_ITO;
+}

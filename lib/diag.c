@@ -1,0 +1,136 @@
+#include "diag.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+void gp_diag_init(struct gp_diag *diag)
+{
+	memset(diag, 0, sizeof(*diag));
+}
+
+void gp_diag_finish(struct gp_diag *diag)
+{
+	for (size_t i = 0; i < diag->count; i++)
+		free(diag->entries[i].message);
+	free(diag->entries);
+	gp_diag_init(diag);
+}
+
+static char *format_message(const struct gp_where *where, const char *format,
+			    va_list args)
+{
+	char prefix[512] = "";
+	if (where && where->file && where->line > 0)
+		snprintf(prefix, sizeof(prefix), "%s:%d:%d: ", where->file,
+			 where->line, where->col);
+	else if (where && where->file)
+		snprintf(prefix, sizeof(prefix), "%s: ", where->file);
+	va_list copy;
+	va_copy(copy, args);
+	int n = vsnprintf(NULL, 0, format, copy);
+	va_end(copy);
+	if (n < 0)
+		return NULL;
+	size_t length = strlen(prefix) + (size_t)n;
+	char *message = malloc(length + 1);
+	if (!message)
+		return NULL;
+	strcpy(message, prefix);
+	vsnprintf(message + strlen(prefix), (size_t)n + 1, format, args);
+	/* one message, one line */
+	for (char *p = message; *p; p++)
+		if (*p == '\n' || *p == '\r')
+			*p = ' ';
+	return message;
+}
+
+void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
+		 const struct gp_where *where, const char *format, va_list args)
+{
+	if (severity == GP_SEVERITY_ERROR)
+		diag->errors++;
+	if (diag->count == diag->capacity) {
+		size_t capacity = diag->capacity ? diag->capacity * 2 : 8;
+		struct gp_diag_entry *entries =
+			realloc(diag->entries, capacity * sizeof(*entries));
+		if (!entries) {
+			diag->lost = true;
+			return;
+		}
+		diag->entries = entries;
+		diag->capacity = capacity;
+	}
+	char *message = format_message(where, format, args);
+	if (!message) {
+		diag->lost = true;
+		return;
+	}
+	diag->entries[diag->count++] =
+		(struct gp_diag_entry){ severity, message };
+}
+
+bool gp_diag_error(struct gp_diag *diag, const struct gp_where *where,
+		   const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, GP_SEVERITY_ERROR, where, format, args);
+	va_end(args);
+	return false;
+}
+
+void gp_diag_warning(struct gp_diag *diag, const struct gp_where *where,
+		     const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, GP_SEVERITY_WARNING, where, format, args);
+	va_end(args);
+}
+
+void gp_diag_note(struct gp_diag *diag, const struct gp_where *where,
+		  const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, GP_SEVERITY_NOTE, where, format, args);
+	va_end(args);
+}
+
+GP_EXPORT struct gp_diag *gp_diag_create(void)
+{
+	struct gp_diag *diag = malloc(sizeof(*diag));
+	if (diag)
+		gp_diag_init(diag);
+	return diag;
+}
+
+GP_EXPORT void gp_diag_destroy(struct gp_diag *diag)
+{
+	if (!diag)
+		return;
+	gp_diag_finish(diag);
+	free(diag);
+}
+
+GP_EXPORT size_t gp_diag_count(const struct gp_diag *diag)
+{
+	return diag->count;
+}
+
+GP_EXPORT size_t gp_diag_error_count(const struct gp_diag *diag)
+{
+	return diag->errors;
+}
+
+GP_EXPORT const char *gp_diag_message(const struct gp_diag *diag, size_t i)
+{
+	return i < diag->count ? diag->entries[i].message : NULL;
+}
+
+GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
+					    size_t i)
+{
+	return i < diag->count ? diag->entries[i].severity : GP_SEVERITY_NOTE;
+}

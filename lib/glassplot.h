@@ -1,0 +1,79 @@
+/* glassplot: electrode artwork for custom passive LCD glass.
+ *
+ * The one public header.  Lengths are int64_t nanometres in the glass frame
+ * (x right, y up); descriptions write them as decimal millimetres.  The
+ * library never prints and never exits: errors are recorded in a
+ * struct gp_diag the caller owns. */
+#ifndef GLASSPLOT_H
+#define GLASSPLOT_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#if defined(GP_BUILDING_LIBRARY)
+#define GP_EXPORT __attribute__((visibility("default")))
+#else
+#define GP_EXPORT
+#endif
+
+enum gp_severity {
+	GP_SEVERITY_NOTE,
+	GP_SEVERITY_WARNING,
+	GP_SEVERITY_ERROR,
+};
+
+struct gp_diag;
+struct gp_design;
+struct gp_build;
+
+/* Version string of the library, "MAJOR.MINOR.PATCH". */
+GP_EXPORT const char *gp_version(void);
+
+/* --- diagnostics ------------------------------------------------------- */
+GP_EXPORT struct gp_diag *gp_diag_create(void);
+GP_EXPORT void gp_diag_destroy(struct gp_diag *diag);
+GP_EXPORT size_t gp_diag_count(const struct gp_diag *diag);
+GP_EXPORT size_t gp_diag_error_count(const struct gp_diag *diag);
+/* The i-th message, one line, "FILE:LINE:COL: text" when it has a place. */
+GP_EXPORT const char *gp_diag_message(const struct gp_diag *diag, size_t i);
+GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
+					    size_t i);
+
+/* --- loading a description --------------------------------------------- */
+/* Reads a description file and applies overrides ("key.path=value", in
+ * order).  Returns NULL when anything is wrong; diag says where and why. */
+GP_EXPORT struct gp_design *gp_design_load(const char *path,
+					   const char *const *overrides,
+					   size_t override_count,
+					   struct gp_diag *diag);
+/* The same from memory; name is used in messages. */
+GP_EXPORT struct gp_design *gp_design_load_buffer(const char *name,
+						  const char *data,
+						  size_t size,
+						  const char *const *overrides,
+						  size_t override_count,
+						  struct gp_diag *diag);
+GP_EXPORT void gp_design_destroy(struct gp_design *design);
+
+/* --- building ------------------------------------------------------------ */
+/* Lays out and routes the design.  Returns NULL on failure. */
+GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
+					   struct gp_diag *diag);
+GP_EXPORT void gp_build_destroy(struct gp_build *build);
+/* Writes every output into folder, all or nothing. */
+GP_EXPORT bool gp_build_write(const struct gp_build *build,
+			      const char *folder, struct gp_diag *diag);
+/* A short human summary (plates, blocks, nets, pixels, files), owned by
+ * the build, valid until it is destroyed. */
+GP_EXPORT const char *gp_build_summary(const struct gp_build *build);
+
+#ifdef __cplusplus
+}
+#endif
+
+#endif

@@ -1,0 +1,86 @@
+/* The resolved design: every section of the description read, checked and
+ * cross-referenced.  Names and strings are borrowed from the spec, which
+ * the design owns. */
+#ifndef GP_MODEL_H
+#define GP_MODEL_H
+
+#include "artwork.h"
+#include "diag.h"
+#include "geom.h"
+#include "spec.h"
+
+#include <stdbool.h>
+#include <stdint.h>
+
+/* Design rules; defaults are common practice, no published source. */
+struct gp_rules {
+	int64_t min_line;         /* narrowest ITO line */
+	int64_t min_space;        /* closest approach of two nets on a plate */
+	int64_t registration;     /* plate-to-plate misalignment to survive */
+	int64_t edge_clearance;   /* ITO to the plate's cut edge */
+	int64_t chord_tolerance;  /* curve flattening */
+	struct gp_where where;
+};
+
+struct gp_plate_spec {
+	struct gp_box box;        /* in the glass frame */
+	struct gp_where where;
+};
+
+/* Limits against hostile descriptions. */
+#define GP_MAX_BLOCKS 64
+#define GP_MAX_CELLS 100000       /* cells in one block */
+#define GP_MAX_DOTS_PER_CELL 4096
+#define GP_MAX_NETS 20000
+#define GP_MAX_PIXELS 4000000
+
+/* A dot-matrix block.  origin is the top-left corner of the top-left dot
+ * of cell (line 0, cell 0); cells go right (+x), lines go down (-y), dots
+ * inside a cell likewise. */
+struct gp_block {
+	const char *name;
+	struct gp_where where;
+	struct gp_point origin;
+	long cells;               /* across */
+	long lines;               /* down */
+	long dots_across;
+	long dots_down;
+	int64_t dot_width, dot_height;
+	int64_t dot_pitch_x, dot_pitch_y;
+	int64_t cell_pitch;       /* across */
+	int64_t line_pitch;       /* down */
+	bool share_segments;      /* lines share segment columns */
+	int commons_from;         /* block index whose commons are reused, -1 */
+	/* filled by the layout */
+	int first_common;         /* net index of this block's first common */
+	int first_segment;
+};
+
+struct gp_design {
+	struct gp_spec *spec;
+	const char *part;
+	const char *revision;
+	const char *title;
+	struct gp_plate_spec front, back;
+	struct gp_box viewing;
+	struct gp_where viewing_where;
+	enum gp_plate segment_plate;  /* plate carrying segments (front) */
+	struct gp_rules rules;
+	struct gp_block *blocks;
+	size_t block_count;
+};
+
+/* Reads every section of spec; takes ownership of spec (also on failure). */
+struct gp_design *gp_design_from_spec(struct gp_spec *spec,
+				      struct gp_diag *diag);
+
+enum gp_plate gp_common_plate(const struct gp_design *design);
+
+/* Section readers, one per module. */
+bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
+		    struct gp_diag *diag);
+/* Lays out every block: nets, electrode strips, intended pixels. */
+bool gp_blocks_layout(const struct gp_design *design, struct gp_block *blocks,
+		      struct gp_artwork *art, struct gp_diag *diag);
+
+#endif
