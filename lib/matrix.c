@@ -120,7 +120,7 @@ static bool read_block(struct gp_block *b, const char *name,
 	ok &= gp_read_size_pair(&r, "dot_size", true, dot_size);
 	b->dot_width = dot_size[0];
 	b->dot_height = dot_size[1];
-	ok = ok && read_dot_pitch(&r, b);
+	ok = read_dot_pitch(&r, b) && ok;
 	b->cell_pitch = b->line_pitch = 0;
 	ok &= gp_read_size(&r, "cell_pitch", b->cells > 1, &b->cell_pitch);
 	ok &= gp_read_size(&r, "line_pitch", b->lines > 1, &b->line_pitch);
@@ -260,7 +260,8 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 	for (size_t i = 0; i < node->count; i++) {
 		struct gp_block *b = &design->blocks[i];
 		if (!read_block(b, node->keys[i]->text, node->items[i], diag) ||
-		    !check_block(b, diag) || !check_fits(design, b, diag)) {
+		    !check_block(b, diag) ||
+		    (design->plates_ok && !check_fits(design, b, diag))) {
 			ok = false;
 			continue;
 		}

@@ -106,15 +106,15 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_plate(&design->front, "'front'", node, diag);
 	if ((node = gp_read_node(&r, "back", true)))
 		r.ok &= read_plate(&design->back, "'back'", node, diag);
+	design->plates_ok = r.ok && check_plates(design, diag);
+	r.ok &= design->plates_ok;
 	if ((node = gp_read_node(&r, "viewing_area", true)))
 		r.ok &= read_viewing(design, node, diag);
 	if ((node = gp_read_node(&r, "rules", false)))
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
-	if (!gp_reader_end(&r))
-		return false;
-	return check_plates(design, diag);
+	return gp_reader_end(&r);
 }
 
 struct gp_design *gp_design_from_spec(struct gp_spec *spec,

@@ -60,6 +60,7 @@ struct gp_design {
 	const char *revision;
 	const char *title;
 	struct gp_plate_spec front, back;
+	bool plates_ok;               /* both plates read without error */
 	struct gp_box viewing;
 	struct gp_where viewing_where;
 	enum gp_plate segment_plate;  /* plate carrying segments (front) */

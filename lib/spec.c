@@ -537,6 +537,15 @@ static const struct gp_node *find_key(const struct gp_reader *reader,
 	return NULL;
 }
 
+/* Is some key of the map a near miss of key? */
+static bool misspelt(const struct gp_reader *reader, const char *key)
+{
+	for (size_t i = 0; i < reader->map->count; i++)
+		if (gp_nearest_word(reader->map->keys[i]->text, &key, 1))
+			return true;
+	return false;
+}
+
 const struct gp_node *gp_read_node(struct gp_reader *reader, const char *key,
 				   bool required)
 {
@@ -554,9 +563,12 @@ const struct gp_node *gp_read_node(struct gp_reader *reader, const char *key,
 	     strcmp(node->text, "null") == 0))
 		node = NULL; /* "key:" with nothing after it */
 	if (!node && required && reader->map) {
-		reader->ok = gp_diag_error(reader->diag, &reader->map->where,
-					   "missing required key '%s' in %s",
-					   key, reader->what);
+		reader->ok = false;
+		/* a misspelt key is reported once, as unknown, at the end */
+		if (!misspelt(reader, key))
+			gp_diag_error(reader->diag, &reader->map->where,
+				      "missing required key '%s' in %s", key,
+				      reader->what);
 	}
 	return node;
 }

@@ -59,7 +59,7 @@ int tool_parse(int argc, char **argv, struct tool_options *options,
 	opterr = 0;
 	optind = 1;
 	int c;
-	while ((c = getopt_long(argc, argv, "+o:qvh", longs, NULL)) != -1) {
+	while ((c = getopt_long(argc, argv, "o:qvh", longs, NULL)) != -1) {
 		switch (c) {
 		case 'o': options->output = optarg; break;
 		case 's':
