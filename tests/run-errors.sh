@@ -3,7 +3,7 @@
 # line(s) on stderr, exit status 2, and write nothing.
 # usage: run-errors.sh GLASSPLOT ERRORS_DIR
 set -u
-tool=$1
+tool=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
 dir=$2
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
