@@ -2,6 +2,8 @@
  * into rings.  See font.h. */
 #include "font.h"
 
+#include "geos.h"
+
 #include <ft2build.h>
 #include FT_FREETYPE_H
 #include FT_OUTLINE_H
@@ -187,9 +189,12 @@ static bool open_face(struct gp_font *font, const char *name,
 				     ft_error_text(error));
 	if (!FT_IS_SCALABLE(font->face))
 		return gp_diag_error(diag, where,
-				     "font '%s' ('%s') has only bitmaps; glass "
+				     "font '%s'%s%s%s has only bitmaps; glass "
 				     "artwork needs an outline font (TrueType "
-				     "or OpenType)", name, font->file);
+				     "or OpenType)", name,
+				     strcmp(name, font->file) ? " ('" : "",
+				     strcmp(name, font->file) ? font->file : "",
+				     strcmp(name, font->file) ? "')" : "");
 	/* One pixel per font unit: outlines and HarfBuzz positions come out
 	 * in 26.6 font units with nothing lost to scaling. */
 	FT_UShort upem = font->face->units_per_EM;
@@ -272,11 +277,6 @@ int gp_font_units_per_em(const struct gp_font *font)
 int gp_font_cap_height_units(const struct gp_font *font)
 {
 	return font->cap_units;
-}
-
-struct FT_FaceRec_ *gp_font_ft_face(const struct gp_font *font)
-{
-	return font->face;
 }
 
 void gp_text_style_init(struct gp_text_style *style)
@@ -739,4 +739,32 @@ bool gp_font_set_text(struct gp_font *font, const char *utf8,
 fail:
 	gp_text_finish(out);
 	return false;
+}
+
+/* --- normalising through GEOS ---------------------------------------------- */
+
+bool gp_glyph_polygons(struct gp_geos *geos, const struct gp_glyph *glyph,
+		       struct gp_polyset *out)
+{
+	if (glyph->ring_count == 0)
+		return true;
+	return gp_geos_make_valid(geos, glyph->rings, glyph->ring_count,
+				  glyph->even_odd ? GP_FILL_EVEN_ODD :
+						    GP_FILL_NONZERO,
+				  out);
+}
+
+bool gp_text_polygons(struct gp_geos *geos, const struct gp_text *text,
+		      struct gp_polyset *out)
+{
+	struct gp_polyset all;
+	gp_polyset_init(&all);
+	bool ok = true;
+	for (size_t i = 0; ok && i < text->count; i++)
+		ok = gp_glyph_polygons(geos, &text->glyphs[i], &all);
+	/* letters may touch or overlap (tight kerning, joined scripts) */
+	if (ok)
+		ok = gp_geos_union_set(geos, &all, out);
+	gp_polyset_finish(&all);
+	return ok;
 }

@@ -18,7 +18,6 @@
 #include <stdint.h>
 
 struct gp_font;
-struct FT_FaceRec_;
 
 /* Default chord tolerance for curve flattening: 1 um. */
 #define GP_FONT_DEFAULT_TOLERANCE INT64_C(1000)
@@ -47,11 +46,6 @@ int gp_font_units_per_em(const struct gp_font *font);
 /* Cap height in font units: the OS/2 table's value when the font gives
  * one, otherwise the height of the letter H. */
 int gp_font_cap_height_units(const struct gp_font *font);
-/* The FreeType face, for tests that compare against FreeType itself.  Its
- * size is set so that one pixel is one font unit (26.6 values are 1/64 of
- * a font unit). */
-struct FT_FaceRec_ *gp_font_ft_face(const struct gp_font *font);
-
 enum gp_text_align {
 	GP_TEXT_LEFT,
 	GP_TEXT_CENTRE,
@@ -114,6 +108,17 @@ bool gp_font_set_text(struct gp_font *font, const char *utf8,
 		      const struct gp_text_style *style,
 		      struct gp_point anchor, struct gp_text *out,
 		      const struct gp_where *where, struct gp_diag *diag);
+
+struct gp_geos;
+
+/* The glyphs of text as valid polygons with holes (through GEOS), each
+ * glyph filled with its outline's own rule, all glyphs united; appended
+ * to out (initialised by the caller).  False on a GEOS error. */
+bool gp_text_polygons(struct gp_geos *geos, const struct gp_text *text,
+		      struct gp_polyset *out);
+/* The same for one glyph. */
+bool gp_glyph_polygons(struct gp_geos *geos, const struct gp_glyph *glyph,
+		       struct gp_polyset *out);
 
 /* Decodes the UTF-8 character at s into *code; returns its length in
  * bytes, or 0 when s does not start with a valid character. */
