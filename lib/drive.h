@@ -1,0 +1,176 @@
+/* Multiplex drive of a passive LCD: RMS voltages, selection ratio, the
+ * operating-voltage window, temperature, timing, and the ordering spec.
+ *
+ * Conventions, stated once here and repeated in every report:
+ * - Vop is the full drive amplitude, the span of the bias ladder from its
+ *   top level V0 to its bottom level (0 V).  It is NOT a peak-to-peak value:
+ *   a line-inverted pixel sees up to +Vop and -Vop, 2 Vop peak-to-peak.
+ * - Duty 1/N: N commons scanned once per frame, one row time each.  N = 1
+ *   is static drive (no bias ladder, segments in or out of phase with the
+ *   one common).
+ * - Bias 1/a: a non-selected pixel sees +-Vop/a.  a is a real number >= 2
+ *   (drivers usually offer whole numbers; the Alt-Pleshko best is
+ *   a = sqrt(N) + 1, whole only when N is a square).
+ * - Fluid voltages are RMS volts at the reference temperature: threshold
+ *   Vth at 10% contrast, saturation Vsat at 90%.
+ * - Temperature coefficient: of the threshold voltage, given either in
+ *   %/degC (relative) or in mV/degC (absolute, at the reference
+ *   temperature).  Both Vth and Vsat are scaled by the same factor
+ *   f(T) = Vth(T) / Vth(Tref), i.e. the fluid keeps its steepness
+ *   Vsat/Vth over temperature (an approximation, from memory: good to a few
+ *   per cent for TN/STN mixtures over their nematic range).
+ *
+ * Everything here is pure arithmetic on plain values: nothing prints,
+ * nothing allocates. */
+#ifndef GP_DRIVE_H
+#define GP_DRIVE_H
+
+#include <stdbool.h>
+#include <stddef.h>
+
+/* Largest duty we compute for; far beyond any passive glass. */
+#define GP_DRIVE_MAX_COMMONS 100000L
+
+/* --- the multiplex formulas --------------------------------------------- */
+
+/* Von and Voff as fractions of Vop for N commons and bias 1/a (N >= 2,
+ * a > 0); for N == 1 the static values 1 and 0 (a is ignored). */
+void gp_drive_fractions(long commons, double a, double *von, double *voff);
+/* Von / Voff; INFINITY for static drive. */
+double gp_drive_ratio(long commons, double a);
+/* Alt-Pleshko maximum selection ratio sqrt((sqrt N + 1)/(sqrt N - 1));
+ * INFINITY for N == 1. */
+double gp_drive_ratio_max(long commons);
+/* The bias a (of 1/a) that reaches it: sqrt(N) + 1 (2 for N == 1). */
+double gp_drive_best_bias(long commons);
+/* The whole-number bias a in 2..N+1 with the highest ratio (2 for N <= 2
+ * would tie with 3 at N = 2; the smaller ladder wins ties). */
+long gp_drive_best_whole_bias(long commons);
+/* Largest N whose ratio with the best bias still reaches ratio; 1 (static)
+ * when no multiplex does; GP_DRIVE_MAX_COMMONS for ratios <= 1. */
+long gp_drive_max_commons(double ratio);
+/* Largest N >= 2 that reaches ratio with bias 1/a held fixed (and for
+ * which 1/a is a valid bias, N >= a - 1); 0 if none. */
+long gp_drive_max_commons_at_bias(double ratio, double a);
+/* Range [*low, *high] of bias a within 2..N+1 that reaches ratio at N
+ * commons; false when no bias does. */
+bool gp_drive_bias_range(long commons, double ratio, double *low,
+			 double *high);
+
+/* --- the bias ladder ---------------------------------------------------- */
+
+/* The voltage levels a 1/a-bias line-inverted waveform uses, top (V0 =
+ * Vop) to bottom (0 V): the distinct values of Vop * {1, 1-1/a, 1-2/a,
+ * 2/a, 1/a, 0}.  For whole a <= 5 these are exactly V0..Va in equal steps;
+ * for larger a the middle step is (a-4) times the others.  Static drive
+ * uses two levels, Vop and 0. */
+#define GP_DRIVE_MAX_LEVELS 6
+struct gp_drive_levels {
+	size_t count;
+	double fraction[GP_DRIVE_MAX_LEVELS];  /* of Vop */
+	double volts[GP_DRIVE_MAX_LEVELS];
+	/* resistor between level i and i+1, in units of the step Vop/a
+	 * (so 1/3 bias is 1:1:1, 1/9 bias is 1:1:5:1:1) */
+	double resistor[GP_DRIVE_MAX_LEVELS - 1];
+};
+void gp_drive_levels(long commons, double a, double vop,
+		     struct gp_drive_levels *levels);
+
+/* --- the whole calculation ---------------------------------------------- */
+
+enum gp_drive_tc_unit {
+	GP_DRIVE_TC_NONE,         /* no coefficient given */
+	GP_DRIVE_TC_PERCENT,      /* %/degC of Vth */
+	GP_DRIVE_TC_MILLIVOLT,    /* mV/degC of Vth */
+};
+
+/* Inputs, all plain numbers, already checked by the reader. */
+struct gp_drive_params {
+	long commons;             /* N >= 1 */
+	double bias;              /* a of 1/a; 0 = best for N */
+	double vth;               /* V rms at 10% contrast, > 0 */
+	double vsat;              /* V rms at 90% contrast; 0 = not known */
+	enum gp_drive_tc_unit tc_unit;
+	double tc;                /* in tc_unit */
+	double t_ref;             /* degC where vth/vsat hold */
+	bool has_range;
+	double t_min, t_max;      /* operating range, degC */
+	double frame_rate;        /* Hz; 0 = not given */
+	double vop;               /* fixed Vop to check; 0 = none */
+};
+
+/* Vop window: Voff <= Vth needs Vop <= high; Von >= Vsat needs Vop >= low.
+ * With a single threshold, low is where Von reaches Vth. */
+struct gp_drive_window {
+	double low, high;         /* V; high is INFINITY for static drive */
+	bool empty;               /* low > high */
+	double recommended;       /* V; 0 when empty */
+	double margin;            /* recommended/low - 1 (relative headroom) */
+};
+
+struct gp_drive_temperature {
+	double t;                 /* degC */
+	double factor;            /* Vth(T)/Vth(Tref) */
+	struct gp_drive_window window;
+};
+
+struct gp_drive_result {
+	long commons;
+	bool is_static;
+	double bias;              /* a actually used */
+	bool bias_is_best;        /* chosen as 'best' */
+	double von, voff;         /* fractions of Vop */
+	double ratio;             /* Von/Voff */
+	double ratio_max;         /* Alt-Pleshko maximum for N */
+	double best_bias;         /* a reaching it */
+	long best_whole_bias;
+	double best_whole_ratio;
+	double needed;            /* Vsat/Vth; 0 with a single threshold */
+
+	struct gp_drive_window window;     /* at t_ref */
+	bool feasible;                     /* window not empty */
+	/* when infeasible: what would work (0 = nothing) */
+	long max_commons;                  /* with the best bias */
+	long max_commons_at_bias;          /* with the chosen bias */
+	bool bias_fix;                     /* some bias works at this N */
+	double bias_low, bias_high;        /* range of a that works */
+
+	double vop;                        /* fixed if given, else recommended */
+	bool vop_given;
+	bool vop_in_window;
+	struct gp_drive_levels levels;     /* at vop */
+
+	bool has_temperature;              /* range and coefficient given */
+	struct gp_drive_temperature cold, hot;
+	/* one fixed Vop serving the whole range (window intersection) */
+	double common_low, common_high;
+	bool common_empty;
+	bool vop_in_window_cold, vop_in_window_hot;
+	bool factor_invalid;               /* coefficient reaches 0 in range */
+
+	bool has_timing;
+	double frame_period;               /* s */
+	double row_time;                   /* s: 1/(N f) */
+	double half_row_time;              /* s: polarity step, line inversion */
+	double cycle_line;                 /* s: waveform period, line inverted */
+	double cycle_frame;                /* s: waveform period, frame inverted */
+	bool flicker;                      /* below 60 Hz */
+	bool power;                        /* above 150 Hz */
+};
+
+/* Frame-rate limits: common practice, no published source. */
+#define GP_DRIVE_FLICKER_HZ 60.0
+#define GP_DRIVE_POWER_HZ 150.0
+
+/* Temperature factor f(T) = Vth(T)/Vth(Tref) for the given params. */
+double gp_drive_factor(const struct gp_drive_params *params, double t);
+
+/* The whole calculation.  params must be valid (see the reader); returns
+ * false only if they are not (N < 1, a outside 2..N+1, vsat <= vth, ...). */
+bool gp_drive_compute(const struct gp_drive_params *params,
+		      struct gp_drive_result *result);
+
+/* Why params are invalid, as a static text, or NULL when they are fine. */
+const char *gp_drive_params_problem(const struct gp_drive_params *params);
+
+#endif

@@ -1,0 +1,329 @@
+/* Drive arithmetic against published and tabulated values.
+ *
+ * Sources named beside each value:
+ * - "LCD driver tables, from memory": the standard multiplex formulas as
+ *   tabulated in LCD driver documentation, values recalled from memory.
+ * - "Alt & Pleshko 1974": P. M. Alt and P. Pleshko, "Scanning limitations of
+ *   liquid-crystal displays", IEEE Transactions on Electron Devices ED-21
+ *   (1974): maximum selection ratio sqrt((sqrt N + 1)/(sqrt N - 1)) at bias
+ *   1/(sqrt N + 1).
+ * - "common practice, no published source": trade rules of thumb. */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+
+#include <cmocka.h>
+
+#include "drive.h"
+
+#include <math.h>
+#include <string.h>
+
+/* values are quoted to 3 decimals, so half a unit in the last place */
+#define TOL3 0.0005
+
+static void assert_near(double actual, double expected, double tolerance)
+{
+	if (fabs(actual - expected) > tolerance)
+		fail_msg("%.6f is not %.6f within %g", actual, expected,
+			 tolerance);
+}
+
+struct duty_case {
+	long commons;
+	double bias;
+	double von, voff, ratio;
+};
+
+static void test_fractions_table(void **state)
+{
+	(void)state;
+	/* LCD driver tables, from memory: Von/Vop, Voff/Vop, Von/Voff */
+	static const struct duty_case cases[] = {
+		{ 2, 2.0, 0.791, 0.354, 2.236 }, /* 1/2 duty 1/2 bias */
+		{ 2, 3.0, 0.745, 0.333, 2.236 }, /* 1/2 duty 1/3 bias */
+		{ 3, 3.0, 0.638, 0.333, 1.915 }, /* 1/3 duty 1/3 bias */
+		{ 4, 3.0, 0.577, 0.333, 1.732 }, /* 1/4 duty 1/3 bias */
+	};
+	for (size_t i = 0; i < sizeof(cases) / sizeof(cases[0]); i++) {
+		double von, voff;
+		gp_drive_fractions(cases[i].commons, cases[i].bias, &von,
+				   &voff);
+		assert_near(von, cases[i].von, TOL3);
+		assert_near(voff, cases[i].voff, TOL3);
+		assert_near(gp_drive_ratio(cases[i].commons, cases[i].bias),
+			    cases[i].ratio, TOL3);
+	}
+}
+
+static void test_static(void **state)
+{
+	(void)state;
+	double von, voff;
+	/* LCD driver tables, from memory: static drive Von = Vop, Voff = 0 */
+	gp_drive_fractions(1, 3.0, &von, &voff);
+	assert_near(von, 1.0, TOL3);
+	assert_near(voff, 0.0, TOL3);
+	assert_true(isinf(gp_drive_ratio(1, 2.0)));
+	assert_true(isinf(gp_drive_ratio_max(1)));
+
+	struct gp_drive_params p = { .commons = 1, .vth = 1.5, .vsat = 2.0 };
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.is_static);
+	assert_true(r.feasible);
+	assert_true(isinf(r.window.high));
+	/* Von = Vop, so the window starts at Vsat */
+	assert_near(r.window.low, 2.0, 1e-9);
+	assert_int_equal(r.levels.count, 2);
+	assert_near(r.levels.volts[0], r.vop, 1e-12);
+	assert_near(r.levels.volts[1], 0.0, 1e-12);
+}
+
+static void test_alt_pleshko(void **state)
+{
+	(void)state;
+	/* Alt & Pleshko 1974: sqrt((sqrt N + 1)/(sqrt N - 1)) */
+	assert_near(gp_drive_ratio_max(4), 1.732, TOL3);
+	assert_near(gp_drive_ratio_max(64), 1.134, TOL3);
+	/* Alt & Pleshko 1974: best bias 1/(sqrt N + 1), 1/9 at N = 64 */
+	assert_near(1.0 / gp_drive_best_bias(64), 1.0 / 9.0, 1e-12);
+	assert_near(gp_drive_best_bias(64), 9.0, 1e-12);
+	/* the general formula at the best bias reaches the maximum */
+	assert_near(gp_drive_ratio(64, 9.0), 1.134, TOL3);
+	assert_near(gp_drive_ratio(4, 3.0), gp_drive_ratio_max(4), 1e-12);
+	/* and no other bias beats it (Alt & Pleshko 1974: it is the
+	 * maximum) */
+	for (double a = 2.0; a <= 65.0; a += 0.25)
+		assert_true(gp_drive_ratio(64, a) <=
+			    gp_drive_ratio_max(64) + 1e-12);
+	/* whole-number best bias: 1/9 at 64, 1/3 at 4 (Alt & Pleshko 1974,
+	 * square N) */
+	assert_int_equal(gp_drive_best_whole_bias(64), 9);
+	assert_int_equal(gp_drive_best_whole_bias(4), 3);
+}
+
+static void test_infeasible_64(void **state)
+{
+	(void)state;
+	/* 1/64 duty with Vsat/Vth = 1.3: Alt & Pleshko 1974 allows at most
+	 * 1.134, so no Vop switches the fluid */
+	struct gp_drive_params p = {
+		.commons = 64, .bias = 0.0, .vth = 2.0, .vsat = 2.6,
+	};
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_false(r.feasible);
+	assert_true(r.window.empty);
+	assert_false(r.bias_fix);
+	/* Alt & Pleshko 1974 solved for N: sqrt N <= (r^2+1)/(r^2-1) =
+	 * 2.69/0.69 = 3.899, N <= 15.2, so 1/15 duty is the largest */
+	assert_int_equal(r.max_commons, 15);
+	assert_true(gp_drive_ratio_max(15) >= 1.3);
+	assert_true(gp_drive_ratio_max(16) < 1.3);
+}
+
+static void test_feasible_window(void **state)
+{
+	(void)state;
+	/* 1/4 duty 1/3 bias, ratio 1.732 (LCD driver tables, from memory),
+	 * fluid steepness 1.3 */
+	struct gp_drive_params p = {
+		.commons = 4, .bias = 3.0, .vth = 2.0, .vsat = 2.6,
+	};
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.feasible);
+	assert_true(r.window.low < r.window.recommended);
+	assert_true(r.window.recommended < r.window.high);
+	/* the edges are the definitions: Von(low) = Vsat, Voff(high) = Vth */
+	assert_near(r.window.low * r.von, 2.6, 1e-9);
+	assert_near(r.window.high * r.voff, 2.0, 1e-9);
+	/* Voff/Vop = 1/3 (from memory, above): high = 3 Vth = 6 V */
+	assert_near(r.window.high, 6.000, TOL3);
+	/* Von/Vop = 0.577: low = 2.6 / 0.57735 = 4.503 V */
+	assert_near(r.window.low, 4.503, TOL3);
+	assert_true(r.vop_in_window);
+}
+
+static void test_bias_fix(void **state)
+{
+	(void)state;
+	/* 1/16 duty, Vsat/Vth = 1.25: 1/3 bias gives
+	 * sqrt((9+15)/(1+15)) = 1.225 (the formula above), too little; the
+	 * best 1/5 bias reaches sqrt(5/3) = 1.291 (Alt & Pleshko 1974) */
+	struct gp_drive_params p = {
+		.commons = 16, .bias = 3.0, .vth = 2.0, .vsat = 2.5,
+	};
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_near(r.ratio, 1.225, TOL3);
+	assert_near(r.ratio_max, 1.291, TOL3);
+	assert_false(r.feasible);
+	assert_true(r.bias_fix);
+	assert_true(r.bias_low <= 5.0 && 5.0 <= r.bias_high);
+	assert_true(r.bias_low > 3.0);
+	assert_true(gp_drive_ratio(16, r.bias_low) >= 1.25 - 1e-9);
+	assert_true(gp_drive_ratio(16, r.bias_high) >= 1.25 - 1e-9);
+	/* with 1/3 bias kept, the ratio 1.25 holds up to
+	 * M <= (9 - 1.5625)/0.5625 = 13.2, N = 14 */
+	assert_int_equal(r.max_commons_at_bias, 14);
+	assert_true(gp_drive_ratio(14, 3.0) >= 1.25);
+	assert_true(gp_drive_ratio(15, 3.0) < 1.25);
+}
+
+static void test_levels(void **state)
+{
+	(void)state;
+	struct gp_drive_levels l;
+	/* 1/3 bias: V0..V3 in equal steps (LCD driver tables, from memory) */
+	gp_drive_levels(4, 3.0, 6.0, &l);
+	assert_int_equal(l.count, 4);
+	assert_near(l.volts[0], 6.0, 1e-12);
+	assert_near(l.volts[1], 4.0, 1e-12);
+	assert_near(l.volts[2], 2.0, 1e-12);
+	assert_near(l.volts[3], 0.0, 1e-12);
+	for (size_t i = 0; i < 3; i++)
+		assert_near(l.resistor[i], 1.0, 1e-12);
+	/* 1/2 bias: V0..V2 */
+	gp_drive_levels(2, 2.0, 5.0, &l);
+	assert_int_equal(l.count, 3);
+	assert_near(l.volts[1], 2.5, 1e-12);
+	/* 1/9 bias (N = 64): six levels, ladder R:R:5R:R:R (from memory:
+	 * the middle resistor is (a-4)R) */
+	gp_drive_levels(64, 9.0, 18.0, &l);
+	assert_int_equal(l.count, 6);
+	assert_near(l.volts[1], 16.0, 1e-12);
+	assert_near(l.volts[2], 14.0, 1e-12);
+	assert_near(l.volts[3], 4.0, 1e-12);
+	assert_near(l.volts[4], 2.0, 1e-12);
+	assert_near(l.resistor[2], 5.0, 1e-12);
+	/* 1/5 bias: V0..V5 in equal steps */
+	gp_drive_levels(16, 5.0, 10.0, &l);
+	assert_int_equal(l.count, 6);
+	for (size_t i = 0; i < 5; i++)
+		assert_near(l.resistor[i], 1.0, 1e-12);
+}
+
+static void test_temperature(void **state)
+{
+	(void)state;
+	/* -0.4 %/degC of Vth from 25 degC over -20..70 degC: factors
+	 * 1 + 0.004*45 = 1.18 and 1 - 0.004*45 = 0.82 (arithmetic) */
+	struct gp_drive_params p = {
+		.commons = 4, .bias = 3.0, .vth = 2.0, .vsat = 2.5,
+		.tc_unit = GP_DRIVE_TC_PERCENT, .tc = -0.4, .t_ref = 25.0,
+		.has_range = true, .t_min = -20.0, .t_max = 70.0,
+	};
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.has_temperature);
+	assert_near(r.cold.factor, 1.18, 1e-12);
+	assert_near(r.hot.factor, 0.82, 1e-12);
+	assert_near(r.cold.window.recommended, 1.18 * r.window.recommended,
+		    1e-9);
+	/* one Vop for the whole range: above the cold low edge and below
+	 * the hot high edge; 1.18 * 2.5/0.57735 = 5.109 > 0.82 * 6 = 4.92,
+	 * so none exists */
+	assert_near(r.common_low, r.cold.window.low, 1e-9);
+	assert_near(r.common_high, r.hot.window.high, 1e-9);
+	assert_true(r.common_empty);
+
+	/* the same coefficient in mV/degC: -0.4 % of 2 V = -8 mV/degC */
+	p.tc_unit = GP_DRIVE_TC_MILLIVOLT;
+	p.tc = -8.0;
+	struct gp_drive_result m;
+	assert_true(gp_drive_compute(&p, &m));
+	assert_near(m.cold.factor, 1.18, 1e-12);
+	assert_near(m.hot.factor, 0.82, 1e-12);
+
+	/* a narrow range fits one fixed Vop */
+	p.t_min = 20.0;
+	p.t_max = 30.0;
+	assert_true(gp_drive_compute(&p, &m));
+	assert_false(m.common_empty);
+	assert_true(m.vop_in_window_cold && m.vop_in_window_hot);
+}
+
+static void test_timing(void **state)
+{
+	(void)state;
+	/* 1/8 duty at 80 Hz: row 1/(8*80) s = 1.5625 ms (arithmetic) */
+	struct gp_drive_params p = {
+		.commons = 8, .vth = 1.0, .vsat = 1.2, .frame_rate = 80.0,
+	};
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.has_timing);
+	assert_near(r.row_time, 1.5625e-3, 1e-12);
+	assert_near(r.half_row_time, 0.78125e-3, 1e-12);
+	assert_near(r.cycle_line, 12.5e-3, 1e-12);
+	assert_near(r.cycle_frame, 25e-3, 1e-12);
+	assert_false(r.flicker);
+	assert_false(r.power);
+	/* below 60 Hz flickers, above 150 Hz wastes power: common practice,
+	 * no published source */
+	p.frame_rate = 50.0;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.flicker);
+	p.frame_rate = 200.0;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.power);
+}
+
+static void test_params_problems(void **state)
+{
+	(void)state;
+	struct gp_drive_params p = { .commons = 8, .vth = 1.0, .vsat = 1.2 };
+	assert_null(gp_drive_params_problem(&p));
+	p.commons = 0;
+	assert_non_null(gp_drive_params_problem(&p));
+	p.commons = 8;
+	p.bias = 1.5; /* 1/1.5 is above 1/2 */
+	assert_non_null(gp_drive_params_problem(&p));
+	p.bias = 10.0; /* 1/10 is below 1/(N+1) = 1/9 */
+	assert_non_null(gp_drive_params_problem(&p));
+	p.bias = 9.0;
+	assert_null(gp_drive_params_problem(&p));
+	p.vsat = 1.0; /* Vsat must exceed Vth */
+	assert_non_null(gp_drive_params_problem(&p));
+	p.vsat = 1.2;
+	p.has_range = true;
+	p.t_min = 50.0;
+	p.t_max = -10.0;
+	assert_non_null(gp_drive_params_problem(&p));
+	struct gp_drive_result r;
+	assert_false(gp_drive_compute(&p, &r));
+}
+
+static void test_single_threshold(void **state)
+{
+	(void)state;
+	/* single threshold: Vop puts Voff on Vth; 1/4 duty 1/3 bias,
+	 * Voff/Vop = 1/3 (LCD driver tables, from memory), so Vop = 3 Vth */
+	struct gp_drive_params p = { .commons = 4, .bias = 3.0, .vth = 1.5 };
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_true(r.feasible);
+	assert_near(r.window.recommended, 4.5, 1e-9);
+	assert_near(r.vop * r.von, 1.5 * 1.732, 0.002);
+}
+
+int main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(test_fractions_table),
+		cmocka_unit_test(test_static),
+		cmocka_unit_test(test_alt_pleshko),
+		cmocka_unit_test(test_infeasible_64),
+		cmocka_unit_test(test_feasible_window),
+		cmocka_unit_test(test_bias_fix),
+		cmocka_unit_test(test_levels),
+		cmocka_unit_test(test_temperature),
+		cmocka_unit_test(test_timing),
+		cmocka_unit_test(test_params_problems),
+		cmocka_unit_test(test_single_threshold),
+	};
+	return cmocka_run_group_tests(tests, NULL, NULL);
+}
