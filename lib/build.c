@@ -3,6 +3,7 @@
 
 #include "gerber.h"
 #include "output.h"
+#include "proof.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -150,12 +151,20 @@ static bool add_gerbers(const struct gp_build *build,
 	return true;
 }
 
+static bool add_proof(const struct gp_build *build,
+		      struct gp_output_set *set, struct gp_diag *diag)
+{
+	struct gp_buffer *out = gp_output_add(set, "proof.pdf", diag);
+	return out && gp_proof_write(out, build, diag);
+}
+
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 			      struct gp_diag *diag)
 {
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	bool ok = add_gerbers(build, &set, diag) &&
+		  add_proof(build, &set, diag) &&
 		  gp_output_commit(&set, folder, diag);
 	for (size_t i = 0; ok && i < set.count; i++)
 		gp_buffer_printf(&build->summary, "wrote: %s/%s\n", folder,
