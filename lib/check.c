@@ -137,6 +137,14 @@ struct item {
 	struct gp_geos_shape *g; /* made on demand */
 };
 
+/* Intended pixels sorted by (back net, front net, index): the pixels of
+ * one back net lie together, so the lookups made while walking one back
+ * shape stay in cache. */
+struct pair_entry {
+	int front;
+	size_t pixel;
+};
+
 /* Findings are merged per (rule, nets, pixel, shape without net). */
 struct slot {
 	uint64_t key[2];
@@ -155,8 +163,9 @@ struct checker {
 	size_t *net_first;
 	size_t *net_items;
 	/* intended pixels by (front net, back net) */
-	size_t *pair_slot;       /* pixel + 1, 0 empty */
-	size_t pair_mask;
+	struct pair_entry *pairs;
+	size_t *back_first;      /* pairs of back net n: [back_first[n],
+				  * back_first[n + 1]) */
 	size_t *pair_next;       /* pixel + 1 of the next with that pair */
 	/* inside of the seal (or its stand-in) */
 	struct gp_geos_shape *inside;
@@ -279,56 +288,67 @@ static bool pixel_nets(const struct gp_artwork *art, const struct gp_pixel *p,
 	return true;
 }
 
-static size_t pair_hash(struct checker *c, int front, int back)
-{
-	return (size_t)mix((uint64_t)front, (uint64_t)back) & c->pair_mask;
-}
-
+/* Two stable counting sorts: by front net, then by back net. */
 static bool index_pixels(struct checker *c)
 {
 	const struct gp_artwork *art = c->art;
-	size_t size = table_size(art->pixel_count);
-	c->pair_slot = calloc(size, sizeof(*c->pair_slot));
-	c->pair_next = calloc(art->pixel_count + 1, sizeof(*c->pair_next));
-	if (!c->pair_slot || !c->pair_next)
-		return oom(c);
-	c->pair_mask = size - 1;
-	for (size_t i = 0; i < art->pixel_count; i++) {
-		int f, b;
-		if (!pixel_nets(art, &art->pixels[i], &f, &b))
-			continue;
-		size_t h = pair_hash(c, f, b);
-		for (;; h = (h + 1) & c->pair_mask) {
-			size_t s = c->pair_slot[h];
-			if (s == 0) {
-				c->pair_slot[h] = i + 1;
-				break;
-			}
-			int f2 = -1, b2 = -1;
-			pixel_nets(art, &art->pixels[s - 1], &f2, &b2);
-			if (f2 == f && b2 == b) {
-				/* chain behind the first of the pair */
-				c->pair_next[i] = c->pair_next[s - 1];
-				c->pair_next[s - 1] = i + 1;
-				break;
-			}
-		}
+	size_t n = art->pixel_count, nets = art->net_count;
+	size_t *count = calloc(nets + 2, sizeof(*count));
+	size_t *order = calloc(n + 1, sizeof(*order));
+	int *front = calloc(n + 1, sizeof(*front));
+	int *back = calloc(n + 1, sizeof(*back));
+	c->pairs = calloc(n + 1, sizeof(*c->pairs));
+	c->back_first = calloc(nets + 2, sizeof(*c->back_first));
+	c->pair_next = calloc(n + 1, sizeof(*c->pair_next));
+	bool ok = count && order && front && back && c->pairs &&
+		  c->back_first && c->pair_next;
+	size_t used = 0;
+	for (size_t i = 0; ok && i < n; i++) {
+		if (!pixel_nets(art, &art->pixels[i], &front[i], &back[i]))
+			front[i] = back[i] = -1;
+		else
+			count[front[i] + 1]++, used++;
 	}
-	return true;
+	for (size_t k = 0; ok && k < nets; k++)
+		count[k + 1] += count[k];
+	for (size_t i = 0; ok && i < n; i++)
+		if (front[i] >= 0)
+			order[count[front[i]]++] = i;
+	for (size_t i = 0; ok && i < used; i++)
+		c->back_first[back[order[i]] + 1]++;
+	for (size_t k = 0; ok && k < nets; k++)
+		c->back_first[k + 1] += c->back_first[k];
+	memcpy(count, c->back_first, ok ? (nets + 1) * sizeof(*count) : 0);
+	for (size_t i = 0; ok && i < used; i++) {
+		size_t p = order[i];
+		c->pairs[count[back[p]]++] = (struct pair_entry){ front[p], p };
+	}
+	for (size_t i = 0; ok && i + 1 < used; i++) {
+		const struct pair_entry *e = &c->pairs[i], *f = e + 1;
+		if (e->front == f->front && back[e->pixel] == back[f->pixel])
+			c->pair_next[e->pixel] = f->pixel + 1;
+	}
+	free(count);
+	free(order);
+	free(front);
+	free(back);
+	return ok || oom(c);
 }
 
 /* First pixel (+ 1) of the pair, 0 if none; follow pair_next. */
 static size_t pair_first(struct checker *c, int front, int back)
 {
-	for (size_t h = pair_hash(c, front, back);; h = (h + 1) & c->pair_mask) {
-		size_t s = c->pair_slot[h];
-		if (s == 0)
-			return 0;
-		int f = -1, b = -1;
-		pixel_nets(c->art, &c->art->pixels[s - 1], &f, &b);
-		if (f == front && b == back)
-			return s;
+	size_t lo = c->back_first[back], hi = c->back_first[back + 1];
+	while (lo < hi) {
+		size_t mid = lo + (hi - lo) / 2;
+		if (c->pairs[mid].front < front)
+			lo = mid + 1;
+		else
+			hi = mid;
 	}
+	return lo < c->back_first[back + 1] && c->pairs[lo].front == front
+		       ? c->pairs[lo].pixel + 1
+		       : 0;
 }
 
 /* --- findings ------------------------------------------------------------ */
@@ -642,12 +662,6 @@ static void on_found(void *user, size_t item)
 	q->found[q->count++] = item;
 }
 
-static int compare_size(const void *a, const void *b)
-{
-	size_t x = *(const size_t *)a, y = *(const size_t *)b;
-	return x < y ? -1 : x > y;
-}
-
 static bool check_parasitic(struct checker *c)
 {
 	struct gp_geos_index *index = gp_geos_index_create(c->geos);
@@ -675,7 +689,8 @@ static bool check_parasitic(struct checker *c)
 			c->failed = true;
 			break;
 		}
-		qsort(q.found, q.count, sizeof(*q.found), compare_size);
+		/* the tree answers in a fixed order: results stay
+		 * reproducible without sorting */
 		for (size_t i = 0; i < q.count && !c->failed; i++) {
 			struct item *f = &c->items[q.found[i]];
 			if (c->art->shapes[f->shape].net != bnet)
@@ -1469,7 +1484,8 @@ static void checker_finish(struct checker *c)
 	free(c->items);
 	free(c->net_first);
 	free(c->net_items);
-	free(c->pair_slot);
+	free(c->pairs);
+	free(c->back_first);
 	free(c->pair_next);
 	free(c->slots);
 }
