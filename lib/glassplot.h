@@ -65,9 +65,10 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design);
 GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 					   struct gp_diag *diag);
 GP_EXPORT void gp_build_destroy(struct gp_build *build);
-/* Writes every output into folder, all or nothing. */
-GP_EXPORT bool gp_build_write(const struct gp_build *build,
-			      const char *folder, struct gp_diag *diag);
+/* Writes every output into folder, all or nothing.  Afterwards the
+ * summary ends with the list of files written. */
+GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
+			      struct gp_diag *diag);
 /* A short human summary (plates, blocks, nets, pixels, files), owned by
  * the build, valid until it is destroyed. */
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build);

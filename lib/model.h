@@ -52,9 +52,7 @@ struct gp_block {
 	int64_t line_pitch;       /* down */
 	bool share_segments;      /* lines share segment columns */
 	int commons_from;         /* block index whose commons are reused, -1 */
-	/* filled by the layout */
-	int first_common;         /* net index of this block's first common */
-	int first_segment;
+	struct gp_where commons_from_where;
 };
 
 struct gp_design {
@@ -63,6 +61,7 @@ struct gp_design {
 	const char *revision;
 	const char *title;
 	struct gp_plate_spec front, back;
+	bool plates_ok;               /* both plates read without error */
 	struct gp_box viewing;
 	struct gp_where viewing_where;
 	enum gp_plate segment_plate;  /* plate carrying segments (front) */
@@ -84,8 +83,11 @@ int gp_design_common_count(const struct gp_design *design);
 /* Section readers, one per module. */
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag);
-/* Lays out every block: nets, electrode strips, intended pixels. */
-bool gp_blocks_layout(const struct gp_design *design, struct gp_block *blocks,
-		      struct gp_artwork *art, struct gp_diag *diag);
+/* Top-left corner of dot (row, col) of cell (line, cell) of a block,
+ * computed from the origin directly: the span is the datum. */
+struct gp_point gp_block_dot(const struct gp_block *block, long line,
+			     long cell, long row, long col);
+/* Box of all dots of a block. */
+struct gp_box gp_block_extent(const struct gp_block *block);
 
 #endif

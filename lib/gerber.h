@@ -1,0 +1,68 @@
+/* The Gerber RS-274X writer.
+ *
+ * Writes one layer of the artwork as an extended Gerber file conforming to
+ * the Gerber Layer Format Specification (Ucamco, revision 2024.05), without
+ * its deprecated constructs: millimetres, format 4.6 (so a coordinate
+ * integer is the nanometre value and every coordinate is exact), X2 file
+ * attributes in the header, one region (G36/G37) per filled shape with the
+ * holes joined to the outer contour by cut-ins, strokes drawn with circular
+ * apertures, rectangular pads flashed, M02 last.
+ *
+ * Object attributes (%TO/%TD) are not written: gerbv 2.9 reports each of
+ * them as an unknown extension, and the file must open there without a
+ * complaint other than the one about %TF lines. */
+#ifndef GP_GERBER_H
+#define GP_GERBER_H
+
+#include "artwork.h"
+#include "buffer.h"
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+
+struct gp_gerber_info {
+	/* Part number of the glass, or NULL.  Written in a comment and as the
+	 * .SameCoordinates identifier shared by every layer of the set. */
+	const char *part_number;
+	/* glassplot's version for .GenerationSoftware, or NULL ("0"). */
+	const char *version;
+	/* ISO 8601 time for .CreationDate ("2024-05-01T12:00:00+00:00", see
+	 * gp_gerber_format_date), or NULL to write no date at all: the output
+	 * then depends on nothing but the artwork. */
+	const char *creation_date;
+};
+
+/* Largest coordinate magnitude format 4.6 can hold: 9999.999999 mm. */
+#define GP_GERBER_COORD_MAX INT64_C(9999999999)
+
+/* Appends the Gerber file for one layer to out.  Shapes are written in the
+ * artwork's order: a shape with line_width > 0 as a stroke of its outer
+ * ring (open or closed path) with a circular aperture; a GP_ROLE_PAD shape
+ * that is an axis-aligned rectangle (with an exact centre) as a flash of a
+ * rectangular aperture; every other shape as a region.  Returns false,
+ * leaving out in an unspecified state, on a coordinate outside
+ * +-GP_GERBER_COORD_MAX, a filled ring with less than three distinct
+ * points, holes that cannot be joined to the outer ring, or out of memory;
+ * the _why form then sets *why to a static text saying which. */
+bool gp_gerber_write(struct gp_buffer *out, const struct gp_artwork *art,
+		     enum gp_layer layer, const struct gp_gerber_info *info);
+bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
+			 enum gp_layer layer,
+			 const struct gp_gerber_info *info, const char **why);
+
+/* Formats seconds since the epoch (SOURCE_DATE_EPOCH) as the ISO 8601
+ * UTC time .CreationDate wants, "YYYY-MM-DDThh:mm:ss+00:00".  False when
+ * the time cannot be represented or size is too small (26 is enough). */
+bool gp_gerber_format_date(char *buffer, size_t size, int64_t epoch);
+
+/* Joins the holes of poly to its outer ring with cut-ins (pairs of fully
+ * coincident segments), giving one contour whose interior is the polygon:
+ * outer ring counter-clockwise, each hole clockwise, cut-ins horizontal
+ * wherever the horizontal ray from a hole meets the ring at a point with
+ * integer coordinates.  The result has no zero-length segment and is not
+ * explicitly closed.  Exposed for the tests. */
+bool gp_gerber_join_holes(struct gp_ring *contour,
+			  const struct gp_polygon *poly, const char **why);
+
+#endif
