@@ -67,8 +67,7 @@ static bool read_positive(struct gp_reader *r, const char *key,
 	}
 	if (value < 0.0) {
 		r->ok = gp_diag_error(r->diag, &node->where,
-				      "'%s' is %s and cannot be negative, "
-				      "got %s",
+				      "'%s' cannot be negative (%s), got %s",
 				      key, what, node->text);
 		return false;
 	}
@@ -571,14 +570,15 @@ static void warn_resolved(const struct gp_drive_report *report,
 	const struct gp_drive_spec *spec = report->spec;
 	const struct gp_drive_result *r = &report->result;
 	struct gp_where file = { report->file, 0, 0 };
+	static const char *const fluid_names[] = { "passive glass", "TN", "STN",
+						   "FSTN", "HTN" };
 	long usual = usual_max_commons(spec->fluid);
 	if (r->commons > usual)
 		gp_diag_warning(diag, spec->has_drive ? &spec->drive_where :
 							&file,
-				"duty 1/%ld is beyond the usual 1/%ld for "
-				"this fluid (common practice, no published "
-				"source)",
-				r->commons, usual);
+				"duty 1/%ld is beyond the usual 1/%ld for %s "
+				"(common practice, no published source)",
+				r->commons, usual, fluid_names[spec->fluid]);
 	if (!r->is_static && r->bias != floor(r->bias)) {
 		char text[32];
 		gp_drive_bias_text(text, sizeof(text), r->commons, r->bias);

@@ -56,31 +56,45 @@ void gp_drive_advice(const struct gp_drive_report *report, char *text,
 	       "selection ratio %.3f is below Vsat/Vth = %.3f, so no Vop "
 	       "gives Voff <= Vth and Von >= Vsat",
 	       r->commons, bias, r->ratio, r->needed);
+	char best[32];
+	gp_drive_bias_text(best, sizeof(best), r->commons, r->best_bias);
 	if (r->bias_fix) {
 		append(text, size,
-		       "; a bias from 1/%.3f to 1/%.3f would work (best 1/%.3f, "
+		       "; a bias from 1/%.3f to 1/%.3f would work (best %s, "
 		       "ratio %.3f)",
-		       r->bias_low, r->bias_high, r->best_bias, r->ratio_max);
+		       r->bias_low, r->bias_high, best, r->ratio_max);
 		long lo = (long)ceil(r->bias_low), hi = (long)floor(r->bias_high);
-		if (lo <= hi)
+		if (lo < hi)
 			append(text, size, ", whole numbers 1/%ld to 1/%ld", lo,
 			       hi);
+		else if (lo == hi)
+			append(text, size, ", the whole number 1/%ld", lo);
 		return;
 	}
 	append(text, size,
-	       "; even the best bias 1/%.3f reaches only %.3f (Alt-Pleshko "
+	       "; even the best bias %s reaches only %.3f (Alt-Pleshko "
 	       "limit)",
-	       r->best_bias, r->ratio_max);
-	if (r->max_commons >= 2)
-		append(text, size,
-		       "; the largest duty that can is 1/%ld with bias "
-		       "1/%.3f",
-		       r->max_commons, gp_drive_best_bias(r->max_commons));
-	else
+	       best, r->ratio_max);
+	if (r->max_commons < 2) {
 		append(text, size, "; only static drive can");
-	if (r->max_commons_whole >= 2)
-		append(text, size, " (1/%ld with a whole-number bias 1/%ld)",
-		       r->max_commons_whole, r->max_commons_whole_bias);
+	} else {
+		gp_drive_bias_text(best, sizeof(best), r->max_commons,
+				   gp_drive_best_bias(r->max_commons));
+		append(text, size,
+		       "; the largest duty that can is 1/%ld with bias %s",
+		       r->max_commons, best);
+		if (r->max_commons_whole == r->max_commons &&
+		    (double)r->max_commons_whole_bias !=
+			    gp_drive_best_bias(r->max_commons))
+			append(text, size, " (or the whole-number bias 1/%ld)",
+			       r->max_commons_whole_bias);
+		else if (r->max_commons_whole >= 2 &&
+			 r->max_commons_whole != r->max_commons)
+			append(text, size,
+			       " (with a whole-number bias: 1/%ld at 1/%ld)",
+			       r->max_commons_whole,
+			       r->max_commons_whole_bias);
+	}
 	if (!r->bias_is_best && r->max_commons_at_bias >= 2)
 		append(text, size, "; keeping bias %s, up to 1/%ld", bias,
 		       r->max_commons_at_bias);
@@ -108,7 +122,12 @@ static void line(struct gp_buffer *out, const char *label, const char *format,
 	va_start(args, format);
 	vsnprintf(value, sizeof(value), format, args);
 	va_end(args);
-	gp_buffer_printf(out, "  %-26s %s\n", label, value);
+	/* pad by characters, not bytes: labels may hold a UTF-8 degree sign */
+	size_t width = 0;
+	for (const char *p = label; *p; p++)
+		width += ((unsigned char)*p & 0xc0) != 0x80;
+	gp_buffer_printf(out, "  %s%*s %s\n", label,
+			 width < 26 ? (int)(26 - width) : 0, "", value);
 }
 
 static void format_multiplex(const struct gp_drive_report *report,
@@ -285,12 +304,13 @@ static void format_timing(const struct gp_drive_report *report,
 	line(out, "row time 1/(N f)", "%s", t1);
 	time_text(t1, sizeof(t1), r->half_row_time);
 	time_text(t2, sizeof(t2), r->cycle_line);
-	line(out, "line-inverted waveform",
-	     "polarity reverses every half row (%s); full AC cycle %s "
-	     "(%g Hz)",
+	line(out, "line-inverted (type A)",
+	     "both polarities in every row, reversing each half row (%s); "
+	     "full AC cycle %s (%g Hz)",
 	     t1, t2, hz);
 	time_text(t3, sizeof(t3), r->cycle_frame);
-	line(out, "frame-inverted waveform", "full AC cycle %s (%g Hz)", t3,
+	line(out, "frame-inverted (type B)",
+	     "polarity reverses each frame; full AC cycle %s (%g Hz)", t3,
 	     hz / 2.0);
 	if (r->flicker)
 		gp_buffer_printf(out,
@@ -611,4 +631,27 @@ void gp_drive_format_json(const struct gp_drive_report *report,
 					       JSON_C_TO_STRING_NOSLASHESCAPE));
 	gp_buffer_puts(out, "\n");
 	json_object_put(o);
+}
+
+GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
+				       enum gp_drive_output output,
+				       bool *feasible, struct gp_diag *diag)
+{
+	struct gp_drive_report report;
+	*feasible = true;
+	if (!gp_drive_resolve(design, &report, diag))
+		return NULL;
+	*feasible = report.result.feasible;
+	struct gp_buffer out;
+	gp_buffer_init(&out);
+	if (output == GP_DRIVE_JSON)
+		gp_drive_format_json(&report, &out);
+	else
+		gp_drive_format(&report, &out);
+	if (out.failed || !out.data) {
+		gp_buffer_finish(&out);
+		gp_diag_error(diag, NULL, "out of memory");
+		return NULL;
+	}
+	return out.data;
 }

@@ -39,5 +39,6 @@ struct gp_design *tool_load(const struct tool_options *options,
 			    struct gp_diag *diag);
 
 int cmd_build(int argc, char **argv);
+int cmd_drive(int argc, char **argv);
 
 #endif
