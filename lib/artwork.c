@@ -41,10 +41,8 @@ int gp_artwork_add_net(struct gp_artwork *art, enum gp_net_kind kind,
 	if (!grow((void **)&art->nets, &art->net_capacity, art->net_count,
 		  sizeof(*art->nets)))
 		return -1;
-	int number = 1;
-	for (size_t i = 0; i < art->net_count; i++)
-		if (art->nets[i].kind == kind)
-			number++;
+	int number = kind == GP_NET_COMMON ? ++art->common_count
+					   : ++art->segment_count;
 	struct gp_net *net = &art->nets[art->net_count];
 	memset(net, 0, sizeof(*net));
 	net->kind = kind;

@@ -85,6 +85,7 @@ enum gp_owner_kind {
 struct gp_artwork {
 	struct gp_net *nets;
 	size_t net_count, net_capacity;
+	int common_count, segment_count;
 	struct gp_shape *shapes;
 	size_t shape_count, shape_capacity;
 	struct gp_pixel *pixels;

@@ -65,12 +65,28 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design);
 GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 					   struct gp_diag *diag);
 GP_EXPORT void gp_build_destroy(struct gp_build *build);
-/* Writes every output into folder, all or nothing. */
-GP_EXPORT bool gp_build_write(const struct gp_build *build,
-			      const char *folder, struct gp_diag *diag);
+/* Writes every output into folder, all or nothing.  Afterwards the
+ * summary ends with the list of files written. */
+GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
+			      struct gp_diag *diag);
 /* A short human summary (plates, blocks, nets, pixels, files), owned by
  * the build, valid until it is destroyed. */
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build);
+
+/* --- drive and optics ------------------------------------------------------ */
+enum gp_drive_output {
+	GP_DRIVE_TEXT,
+	GP_DRIVE_JSON,
+};
+/* The drive and ordering-spec report of the design (multiplex voltages,
+ * Vop window, bias ladder, temperature, timing, ordering fields) as UTF-8
+ * text or JSON.  Returns a string to release with free(), or NULL on bad
+ * input (diag says where and why).  *feasible becomes false when no Vop
+ * can switch the fluid at this duty; the report and an error in diag then
+ * say what would work. */
+GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
+				       enum gp_drive_output output,
+				       bool *feasible, struct gp_diag *diag);
 
 #ifdef __cplusplus
 }

@@ -6,6 +6,7 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "drive.h"
 #include "geom.h"
 #include "spec.h"
 
@@ -51,9 +52,7 @@ struct gp_block {
 	int64_t line_pitch;       /* down */
 	bool share_segments;      /* lines share segment columns */
 	int commons_from;         /* block index whose commons are reused, -1 */
-	/* filled by the layout */
-	int first_common;         /* net index of this block's first common */
-	int first_segment;
+	struct gp_where commons_from_where;
 };
 
 struct gp_design {
@@ -62,12 +61,14 @@ struct gp_design {
 	const char *revision;
 	const char *title;
 	struct gp_plate_spec front, back;
+	bool plates_ok;               /* both plates read without error */
 	struct gp_box viewing;
 	struct gp_where viewing_where;
 	enum gp_plate segment_plate;  /* plate carrying segments (front) */
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_drive_spec drive;   /* sections 'drive' and 'optics' */
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
@@ -76,11 +77,17 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 
 enum gp_plate gp_common_plate(const struct gp_design *design);
 
+/* Number of commons (COM nets) the design drives: the duty is 1/N. */
+int gp_design_common_count(const struct gp_design *design);
+
 /* Section readers, one per module. */
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag);
-/* Lays out every block: nets, electrode strips, intended pixels. */
-bool gp_blocks_layout(const struct gp_design *design, struct gp_block *blocks,
-		      struct gp_artwork *art, struct gp_diag *diag);
+/* Top-left corner of dot (row, col) of cell (line, cell) of a block,
+ * computed from the origin directly: the span is the datum. */
+struct gp_point gp_block_dot(const struct gp_block *block, long line,
+			     long cell, long row, long col);
+/* Box of all dots of a block. */
+struct gp_box gp_block_extent(const struct gp_block *block);
 
 #endif

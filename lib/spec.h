@@ -33,6 +33,9 @@ struct gp_spec {
 	/* Overrides applied with gp_spec_override, as given, for the summary. */
 	char **overrides;
 	size_t override_count;
+	/* "--set #N" names that grafted nodes point at as their file. */
+	char **labels;
+	size_t label_count;
 };
 
 /* Limits that keep hostile input bounded. */

@@ -1,0 +1,192 @@
+#include "model.h"
+
+#include "units.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+/* Defaults for the rules: common practice, no published source. */
+#define DEFAULT_MIN_LINE (30 * 1000)          /* 0.030 mm */
+#define DEFAULT_MIN_SPACE (30 * 1000)         /* 0.030 mm */
+#define DEFAULT_REGISTRATION (100 * 1000)     /* 0.100 mm */
+#define DEFAULT_EDGE_CLEARANCE (500 * 1000)   /* 0.500 mm */
+#define DEFAULT_CHORD_TOLERANCE (1000)        /* 0.001 mm */
+
+static bool read_glass(struct gp_design *design, const struct gp_node *node,
+		       struct gp_diag *diag)
+{
+	static const char *const plates[] = { "front", "back", NULL };
+	struct gp_reader r;
+	int segment_plate = GP_PLATE_FRONT;
+	design->part = "UNNAMED";
+	design->revision = "-";
+	design->title = "";
+	gp_reader_begin(&r, node, "'glass'", diag);
+	gp_read_string(&r, "part", true, &design->part);
+	gp_read_string(&r, "revision", false, &design->revision);
+	gp_read_string(&r, "title", false, &design->title);
+	gp_read_choice(&r, "segments_on", false, plates, &segment_plate);
+	design->segment_plate = (enum gp_plate)segment_plate;
+	return gp_reader_end(&r);
+}
+
+static bool read_plate(struct gp_plate_spec *plate, const char *what,
+		       const struct gp_node *node, struct gp_diag *diag)
+{
+	struct gp_reader r;
+	int64_t size[2] = { 0, 0 }, position[2] = { 0, 0 };
+	gp_reader_begin(&r, node, what, diag);
+	gp_read_size_pair(&r, "size", true, size);
+	gp_read_pair(&r, "position", false, position);
+	plate->where = node->where;
+	plate->box = gp_box_make(position[0], position[1],
+				 position[0] + size[0], position[1] + size[1]);
+	return gp_reader_end(&r);
+}
+
+static bool read_viewing(struct gp_design *design, const struct gp_node *node,
+			 struct gp_diag *diag)
+{
+	struct gp_reader r;
+	int64_t size[2] = { 0, 0 }, position[2] = { 0, 0 };
+	gp_reader_begin(&r, node, "'viewing_area'", diag);
+	gp_read_size_pair(&r, "size", true, size);
+	gp_read_pair(&r, "position", true, position);
+	design->viewing_where = node->where;
+	design->viewing = gp_box_make(position[0], position[1],
+				      position[0] + size[0],
+				      position[1] + size[1]);
+	return gp_reader_end(&r);
+}
+
+static bool read_rules(struct gp_rules *rules, const struct gp_node *node,
+		       struct gp_diag *diag)
+{
+	struct gp_reader r;
+	gp_reader_begin(&r, node, "'rules'", diag);
+	rules->where = node->where;
+	gp_read_size(&r, "min_line", false, &rules->min_line);
+	gp_read_size(&r, "min_space", false, &rules->min_space);
+	gp_read_size(&r, "registration", false, &rules->registration);
+	gp_read_size(&r, "edge_clearance", false, &rules->edge_clearance);
+	gp_read_size(&r, "chord_tolerance", false, &rules->chord_tolerance);
+	return gp_reader_end(&r);
+}
+
+static void set_default_rules(struct gp_rules *rules)
+{
+	rules->min_line = DEFAULT_MIN_LINE;
+	rules->min_space = DEFAULT_MIN_SPACE;
+	rules->registration = DEFAULT_REGISTRATION;
+	rules->edge_clearance = DEFAULT_EDGE_CLEARANCE;
+	rules->chord_tolerance = DEFAULT_CHORD_TOLERANCE;
+}
+
+/* The plates must overlap; that overlap is where any pixel can be. */
+static bool check_plates(const struct gp_design *design, struct gp_diag *diag)
+{
+	struct gp_box f = design->front.box, b = design->back.box;
+	if (f.x1 <= b.x0 || b.x1 <= f.x0 || f.y1 <= b.y0 || b.y1 <= f.y0)
+		return gp_diag_error(diag, &design->back.where,
+				     "the back plate does not overlap the "
+				     "front plate; check both 'position' "
+				     "values");
+	return true;
+}
+
+/* Top-level sections.  Modules add their key and reader here. */
+static bool read_sections(struct gp_design *design, struct gp_diag *diag)
+{
+	struct gp_reader r;
+	const struct gp_node *node;
+	gp_reader_begin(&r, design->spec->root, "the description", diag);
+	if ((node = gp_read_node(&r, "glass", true)))
+		r.ok &= read_glass(design, node, diag);
+	if ((node = gp_read_node(&r, "front", true)))
+		r.ok &= read_plate(&design->front, "'front'", node, diag);
+	if ((node = gp_read_node(&r, "back", true)))
+		r.ok &= read_plate(&design->back, "'back'", node, diag);
+	design->plates_ok = r.ok && check_plates(design, diag);
+	r.ok &= design->plates_ok;
+	if ((node = gp_read_node(&r, "viewing_area", true)))
+		r.ok &= read_viewing(design, node, diag);
+	if ((node = gp_read_node(&r, "rules", false)))
+		r.ok &= read_rules(&design->rules, node, diag);
+	if ((node = gp_read_node(&r, "blocks", false)))
+		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "drive", false)))
+		r.ok &= gp_drive_read(design, node, diag);
+	if ((node = gp_read_node(&r, "optics", false)))
+		r.ok &= gp_optics_read(design, node, diag);
+	return gp_reader_end(&r);
+}
+
+struct gp_design *gp_design_from_spec(struct gp_spec *spec,
+				      struct gp_diag *diag)
+{
+	struct gp_design *design = calloc(1, sizeof(*design));
+	if (!design) {
+		gp_spec_destroy(spec);
+		gp_diag_error(diag, NULL, "out of memory");
+		return NULL;
+	}
+	design->spec = spec;
+	set_default_rules(&design->rules);
+	size_t errors = diag->errors;
+	if (!read_sections(design, diag) || diag->errors > errors) {
+		gp_design_destroy(design);
+		return NULL;
+	}
+	return design;
+}
+
+enum gp_plate gp_common_plate(const struct gp_design *design)
+{
+	return design->segment_plate == GP_PLATE_FRONT ? GP_PLATE_BACK
+						       : GP_PLATE_FRONT;
+}
+
+GP_EXPORT void gp_design_destroy(struct gp_design *design)
+{
+	if (!design)
+		return;
+	free(design->blocks);
+	gp_spec_destroy(design->spec);
+	free(design);
+}
+
+static struct gp_design *load(struct gp_spec *spec,
+			      const char *const *overrides, size_t count,
+			      struct gp_diag *diag)
+{
+	if (!spec)
+		return NULL;
+	bool ok = true;
+	for (size_t i = 0; i < count; i++)
+		ok &= gp_spec_override(spec, overrides[i], (int)i + 1, diag);
+	if (!ok) {
+		gp_spec_destroy(spec);
+		return NULL;
+	}
+	return gp_design_from_spec(spec, diag);
+}
+
+GP_EXPORT struct gp_design *gp_design_load(const char *path,
+					   const char *const *overrides,
+					   size_t override_count,
+					   struct gp_diag *diag)
+{
+	return load(gp_spec_load_file(path, diag), overrides, override_count,
+		    diag);
+}
+
+GP_EXPORT struct gp_design *gp_design_load_buffer(const char *name,
+						  const char *data,
+						  size_t size,
+						  const char *const *overrides,
+						  size_t override_count,
+						  struct gp_diag *diag)
+{
+	return load(gp_spec_load_buffer(name, data, size, diag), overrides,
+		    override_count, diag);
+}

@@ -1,0 +1,33 @@
+#!/bin/sh
+# Every broken description in errors/ must give exactly its expected error
+# line(s) on stderr, exit status 2, and write nothing.
+# usage: run-errors.sh GLASSPLOT ERRORS_DIR
+set -u
+tool=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
+dir=$2
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+passed=0
+failed=0
+cd "$dir" || exit 1
+for input in *.yaml; do
+	name=${input%.yaml}
+	"$tool" build "$input" -o "$work/out" >"$work/stdout" 2>"$work/stderr"
+	status=$?
+	if [ "$status" -ne 2 ]; then
+		echo "FAIL $name: exit status $status, expected 2"
+		failed=$((failed + 1))
+	elif ! cmp -s "$work/stderr" "$name.expected"; then
+		echo "FAIL $name: messages differ"
+		diff "$name.expected" "$work/stderr" | sed 's/^/    /'
+		failed=$((failed + 1))
+	elif [ -e "$work/out" ] || [ -s "$work/stdout" ]; then
+		echo "FAIL $name: something was written"
+		failed=$((failed + 1))
+	else
+		passed=$((passed + 1))
+	fi
+	rm -rf "$work/out"
+done
+echo "$passed passed, $failed failed"
+[ "$failed" -eq 0 ] && [ "$passed" -ge 20 ]

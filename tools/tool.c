@@ -1,0 +1,107 @@
+#include "tool.h"
+
+#include <getopt.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+
+void tool_print_diag(const struct gp_diag *diag, int verbosity)
+{
+	for (size_t i = 0; i < gp_diag_count(diag); i++) {
+		enum gp_severity severity = gp_diag_severity(diag, i);
+		if (severity == GP_SEVERITY_NOTE && verbosity < 1)
+			continue;
+		if (severity == GP_SEVERITY_WARNING && verbosity < 0)
+			continue;
+		const char *kind = severity == GP_SEVERITY_ERROR   ? ""
+				   : severity == GP_SEVERITY_WARNING ? "warning: "
+								     : "note: ";
+		fprintf(stderr, "%s%s\n", kind, gp_diag_message(diag, i));
+	}
+}
+
+int tool_usage_error(const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	fputs("glassplot: ", stderr);
+	vfprintf(stderr, format, args);
+	fputc('\n', stderr);
+	va_end(args);
+	return EXIT_BAD_INPUT;
+}
+
+static bool add_override(struct tool_options *options, const char *text)
+{
+	const char **list = realloc(options->overrides,
+				    (options->override_count + 1) *
+					    sizeof(*list));
+	if (!list)
+		return false;
+	options->overrides = list;
+	list[options->override_count++] = text;
+	return true;
+}
+
+int tool_parse(int argc, char **argv, struct tool_options *options,
+	       const char *usage, bool wants_output)
+{
+	static const struct option longs[] = {
+		{ "output", required_argument, NULL, 'o' },
+		{ "set", required_argument, NULL, 's' },
+		{ "quiet", no_argument, NULL, 'q' },
+		{ "verbose", no_argument, NULL, 'v' },
+		{ "strict", no_argument, NULL, 'S' },
+		{ "help", no_argument, NULL, 'h' },
+		{ NULL, 0, NULL, 0 },
+	};
+	memset(options, 0, sizeof(*options));
+	opterr = 0;
+	optind = 1;
+	int c;
+	while ((c = getopt_long(argc, argv, "o:qvh", longs, NULL)) != -1) {
+		switch (c) {
+		case 'o': options->output = optarg; break;
+		case 's':
+			if (!add_override(options, optarg))
+				return tool_usage_error("out of memory");
+			break;
+		case 'q': options->verbosity = -1; break;
+		case 'v': options->verbosity = 1; break;
+		case 'S': options->strict = true; break;
+		case 'h':
+			fputs(usage, stdout);
+			return EXIT_OK;
+		default:
+			return tool_usage_error("%s: unknown option '%s'; see "
+						"'glassplot %s --help'",
+						argv[0], argv[optind - 1],
+						argv[0]);
+		}
+	}
+	if (optind != argc - 1)
+		return tool_usage_error("%s: expected one DESCRIPTION file; "
+					"see 'glassplot %s --help'",
+					argv[0], argv[0]);
+	options->description = argv[optind];
+	if (wants_output && !options->output)
+		return tool_usage_error("%s: expected -o OUTDIR", argv[0]);
+	return -1;
+}
+
+void tool_options_finish(struct tool_options *options)
+{
+	free(options->overrides);
+	options->overrides = NULL;
+}
+
+struct gp_design *tool_load(const struct tool_options *options,
+			    struct gp_diag *diag)
+{
+	struct gp_design *design =
+		gp_design_load(options->description, options->overrides,
+			       options->override_count, diag);
+	if (!design || gp_diag_count(diag))
+		tool_print_diag(diag, options->verbosity);
+	return design;
+}
