@@ -481,6 +481,34 @@ static bool contour_valid(const struct gp_ring *r, const char **why)
 			      "overlap or leave the outer ring");
 }
 
+/* Where p lies against ring: 1 inside, 0 on it, -1 outside (exact
+ * crossing count of the ray towards +x). */
+static int locate(const struct gp_ring *ring, struct gp_point p)
+{
+	bool inside = false;
+	for (size_t i = 0; i < ring->count; i++) {
+		struct gp_point a = ring->points[i], b = ring_at(ring, i + 1);
+		wide o = orient(a, b, p);
+		if (o == 0 && on_segment(a, b, p))
+			return 0;
+		if ((a.y > p.y) != (b.y > p.y) && (o > 0) == (b.y > a.y))
+			inside = !inside;
+	}
+	return inside ? 1 : -1;
+}
+
+/* With no crossings (checked later), a hole is inside the outer ring when
+ * any of its vertices off the ring is. */
+static bool hole_inside(const struct gp_ring *outer, const struct gp_ring *hole)
+{
+	for (size_t i = 0; i < hole->count; i++) {
+		int where = locate(outer, hole->points[i]);
+		if (where != 0)
+			return where > 0;
+	}
+	return false;
+}
+
 bool gp_gerber_join_holes(struct gp_ring *contour,
 			  const struct gp_polygon *poly, const char **why)
 {
@@ -498,6 +526,10 @@ bool gp_gerber_join_holes(struct gp_ring *contour,
 	for (size_t i = 0; i < n; i++) {
 		if (!prepare_ring(&holes[i], &poly->holes[i], false, why))
 			goto out;
+		if (!hole_inside(contour, &holes[i])) {
+			fail(why, "a hole lies outside its outer ring");
+			goto out;
+		}
 		order[i] = (struct hole_order){
 			holes[i].points[max_x_vertex(&holes[i])].x, i };
 	}

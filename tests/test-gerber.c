@@ -534,6 +534,17 @@ static void test_hole_cases(void **state)
 	assert_false(gp_gerber_join_holes(&contour, &poly, &why));
 	assert_non_null(why);
 	gp_polygon_finish(&poly);
+
+	/* a hole outside the outer ring is refused too */
+	static const int64_t outside[] = { 20 * MM, 0, 22 * MM, 0, 21 * MM,
+					   MM };
+	assert_true(gp_polygon_set_box(&poly, gp_box_make(0, 0, 10 * MM,
+							  10 * MM)));
+	add_hole(&poly, outside, 3);
+	why = NULL;
+	assert_false(gp_gerber_join_holes(&contour, &poly, &why));
+	assert_string_equal(why, "a hole lies outside its outer ring");
+	gp_polygon_finish(&poly);
 }
 
 /* A seeded generator (a fixed LCG, Knuth MMIX constants) so one failing
