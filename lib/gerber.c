@@ -208,17 +208,28 @@ static bool clear_of_holes(const struct join *join, size_t current,
 }
 
 /* A cut-in from hole vertex m (occurrence mi of hole) to b is valid when
- * it leaves both rings into material and crosses nothing. */
+ * it leaves both rings into material and crosses nothing.  The crossing
+ * test is skipped (clear = false) for the horizontal cut-in to the nearest
+ * point the ray meets: nothing lies between by construction (holes not
+ * yet joined lie at x <= m.x), and contour_valid checks the end result. */
 static bool bridge_ok(const struct join *join, const struct gp_ring *hole,
-		      size_t mi, const struct bridge *b)
+		      size_t mi, const struct bridge *b, bool clear)
 {
 	const struct gp_ring *merged = join->merged;
 	struct gp_point m = hole->points[mi];
 	if (!in_wedge(m, ring_prev(hole, mi), ring_at(hole, mi + 1), b->p))
 		return false;
-	if (!b->insert && !in_wedge(b->p, ring_prev(merged, b->at),
-				    ring_at(merged, b->at + 1), m))
+	if (b->insert) {
+		/* material lies left of the edge: m must be on that side */
+		if (orient(merged->points[b->at], ring_at(merged, b->at + 1),
+			   m) <= 0)
+			return false;
+	} else if (!in_wedge(b->p, ring_prev(merged, b->at),
+			     ring_at(merged, b->at + 1), m)) {
 		return false;
+	}
+	if (!clear)
+		return true;
 	if (!clear_of_ring(merged, m, b->p, &b->p,
 			   b->insert ? b->at : SIZE_MAX))
 		return false;
@@ -256,6 +267,12 @@ static bool horizontal_bridge(const struct join *join,
 		int64_t x = a.x + (int64_t)q;
 		if (x < m.x || (x == m.x && r == 0))
 			continue;
+		/* a hit inside an edge counts from the edge's material side
+		 * only: of a cut-in's two copies, the one facing m */
+		bool at_end = r == 0 && ((x == a.x && m.y == a.y) ||
+					 (x == b.x && m.y == b.y));
+		if (!at_end && orient(a, b, m) <= 0)
+			continue;
 		if (!found || x < best_q ||
 		    (x == best_q && r * best_den < best_r * den)) {
 			found = true;
@@ -272,7 +289,7 @@ static bool horizontal_bridge(const struct join *join,
 		if (!same_point(merged->points[j], p))
 			continue;
 		*out = (struct bridge){ j, false, p };
-		if (bridge_ok(join, hole, mi, out))
+		if (bridge_ok(join, hole, mi, out, false))
 			return true;
 	}
 	struct gp_point a = merged->points[best_edge];
@@ -280,7 +297,7 @@ static bool horizontal_bridge(const struct join *join,
 	if (same_point(a, p) || same_point(b, p))
 		return false;
 	*out = (struct bridge){ best_edge, true, p };
-	return bridge_ok(join, hole, mi, out);
+	return bridge_ok(join, hole, mi, out, false);
 }
 
 struct candidate {
@@ -318,7 +335,8 @@ static bool vertex_bridge(const struct join *join, const struct gp_ring *hole,
 		struct gp_point p = merged->points[list[k].at];
 		*out = (struct bridge){ list[k].at, false, p };
 		/* a hole touching the ring at a vertex joins there directly */
-		found = list[k].distance2 == 0 || bridge_ok(join, hole, mi, out);
+		found = list[k].distance2 == 0 ||
+			bridge_ok(join, hole, mi, out, true);
 	}
 	free(list);
 	return found ? true
@@ -326,7 +344,21 @@ static bool vertex_bridge(const struct join *join, const struct gp_ring *hole,
 				 "(holes overlap or cross the outer ring)");
 }
 
-/* merged := merged with the hole spliced in through the bridge. */
+/* The other copy of edge `at` when that edge is one side of a cut-in
+ * (the same segment run the other way), or SIZE_MAX. */
+static size_t twin_edge(const struct gp_ring *ring, size_t at)
+{
+	struct gp_point a = ring->points[at], b = ring_at(ring, at + 1);
+	for (size_t i = 0; i < ring->count; i++)
+		if (same_point(ring->points[i], b) &&
+		    same_point(ring_at(ring, i + 1), a))
+			return i;
+	return SIZE_MAX;
+}
+
+/* merged := merged with the hole spliced in through the bridge.  A point
+ * inserted into a cut-in goes into both its copies, so that they stay
+ * fully coincident. */
 static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 		   size_t mi, const struct bridge *b)
 {
@@ -335,23 +367,25 @@ static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 	bool ok = true;
 	struct gp_point m = hole->points[mi];
 	bool touching = same_point(m, b->p);
-	for (size_t i = 0; i <= b->at; i++)
-		ok = ok && gp_ring_push(&next, merged->points[i].x,
-					merged->points[i].y);
-	if (b->insert)
+	size_t twin = b->insert ? twin_edge(merged, b->at) : SIZE_MAX;
+	for (size_t i = 0; i < merged->count; i++) {
+		struct gp_point v = merged->points[i];
+		ok = ok && gp_ring_push(&next, v.x, v.y);
+		if (i == twin)
+			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
+		if (i != b->at)
+			continue;
+		if (b->insert)
+			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
+		/* the hole from m round to m; when it touches, m is the
+		 * bridge point itself and is not repeated */
+		for (size_t k = touching ? 1 : 0;
+		     k < (touching ? hole->count : hole->count + 1); k++) {
+			struct gp_point h = ring_at(hole, mi + k);
+			ok = ok && gp_ring_push(&next, h.x, h.y);
+		}
 		ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
-	/* the hole from m round to m; when it touches, m is the vertex */
-	for (size_t k = touching ? 1 : 0; k <= hole->count; k++) {
-		if (touching && k == hole->count)
-			break;
-		struct gp_point h = ring_at(hole, mi + k);
-		ok = ok && gp_ring_push(&next, h.x, h.y);
 	}
-	if (b->insert)
-		ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
-	for (size_t i = b->insert ? b->at + 1 : b->at; i < merged->count; i++)
-		ok = ok && gp_ring_push(&next, merged->points[i].x,
-					merged->points[i].y);
 	if (!ok) {
 		gp_ring_finish(&next);
 		return false;
@@ -370,19 +404,27 @@ static bool touching_bridge(const struct join *join,
 			    struct bridge *out)
 {
 	const struct gp_ring *merged = join->merged;
-	for (size_t k = 0; k < hole->count; k++) {
-		struct gp_point h = hole->points[k];
-		for (size_t i = 0; i < merged->count; i++) {
-			struct gp_point a = merged->points[i];
-			struct gp_point b = ring_at(merged, i + 1);
-			if (same_point(a, h)) {
+	struct gp_box hb = gp_box_none();
+	for (size_t k = 0; k < hole->count; k++)
+		hb = gp_box_union(hb, gp_box_make(hole->points[k].x,
+						  hole->points[k].y,
+						  hole->points[k].x,
+						  hole->points[k].y));
+	for (size_t i = 0; i < merged->count; i++) {
+		struct gp_point a = merged->points[i], b = ring_at(merged, i + 1);
+		/* most edges are nowhere near the hole */
+		if ((a.x < hb.x0 && b.x < hb.x0) || (a.x > hb.x1 && b.x > hb.x1) ||
+		    (a.y < hb.y0 && b.y < hb.y0) || (a.y > hb.y1 && b.y > hb.y1))
+			continue;
+		for (size_t k = 0; k < hole->count; k++) {
+			struct gp_point h = hole->points[k];
+			if (same_point(a, h))
 				*out = (struct bridge){ i, false, h };
-			} else if (!same_point(b, h) && orient(a, b, h) == 0 &&
-				   on_segment(a, b, h)) {
+			else if (!same_point(b, h) && orient(a, b, h) == 0 &&
+				 on_segment(a, b, h))
 				*out = (struct bridge){ i, true, h };
-			} else {
+			else
 				continue;
-			}
 			*mi = k;
 			return true;
 		}
