@@ -361,6 +361,35 @@ static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 	return true;
 }
 
+/* A hole that touches the merged ring at one of its vertices (valid for
+ * OGC and GEOS) joins there with no cut-in at all: the contour then
+ * passes that point twice, as a vertex both times, instead of having a
+ * vertex of the hole lie inside an edge of the ring. */
+static bool touching_bridge(const struct join *join,
+			    const struct gp_ring *hole, size_t *mi,
+			    struct bridge *out)
+{
+	const struct gp_ring *merged = join->merged;
+	for (size_t k = 0; k < hole->count; k++) {
+		struct gp_point h = hole->points[k];
+		for (size_t i = 0; i < merged->count; i++) {
+			struct gp_point a = merged->points[i];
+			struct gp_point b = ring_at(merged, i + 1);
+			if (same_point(a, h)) {
+				*out = (struct bridge){ i, false, h };
+			} else if (!same_point(b, h) && orient(a, b, h) == 0 &&
+				   on_segment(a, b, h)) {
+				*out = (struct bridge){ i, true, h };
+			} else {
+				continue;
+			}
+			*mi = k;
+			return true;
+		}
+	}
+	return false;
+}
+
 static size_t max_x_vertex(const struct gp_ring *ring)
 {
 	size_t best = 0;
@@ -379,13 +408,77 @@ static bool join_all(struct join *join, const char **why)
 			&join->holes[join->order[join->done].index];
 		size_t mi = max_x_vertex(hole);
 		struct bridge b;
-		if (!horizontal_bridge(join, hole, mi, &b) &&
+		if (!touching_bridge(join, hole, &mi, &b) &&
+		    !horizontal_bridge(join, hole, mi, &b) &&
 		    !vertex_bridge(join, hole, mi, &b, why))
 			return false;
 		if (!splice(join->merged, hole, mi, &b))
 			return fail(why, "out of memory");
 	}
 	return true;
+}
+
+struct span {
+	int64_t x0, x1;
+	size_t index;
+};
+
+static int compare_spans(const void *pa, const void *pb)
+{
+	const struct span *a = pa, *b = pb;
+	if (a->x0 != b->x0)
+		return a->x0 < b->x0 ? -1 : 1;
+	return a->index < b->index ? -1 : a->index > b->index;
+}
+
+/* May segments i < j of a contour meet as they do?  Spec 4.10.3: no
+ * crossing or overlap, except fully coincident segments (cut-ins);
+ * segments may share a vertex (neighbours always do) but no more. */
+static bool segments_allowed(const struct gp_ring *r, size_t i, size_t j)
+{
+	struct gp_point a = r->points[i], b = ring_at(r, i + 1);
+	struct gp_point c = r->points[j], d = ring_at(r, j + 1);
+	if (!segments_touch(a, b, c, d))
+		return true;
+	if (same_point(a, d) && same_point(b, c))
+		return true; /* a cut-in pair */
+	bool shared = same_point(a, c) || same_point(a, d) ||
+		      same_point(b, c) || same_point(b, d);
+	if (!shared || same_point(a, b) || same_point(c, d))
+		return false;
+	/* sharing a vertex: the far end of either may not lie on the other */
+	struct gp_point c_far = same_point(c, a) || same_point(c, b) ? d : c;
+	struct gp_point a_far = same_point(a, c) || same_point(a, d) ? b : a;
+	return !(orient(a, b, c_far) == 0 && on_segment(a, b, c_far)) &&
+	       !(orient(c, d, a_far) == 0 && on_segment(c, d, a_far));
+}
+
+/* Checks the joined contour (a sweep over x, so nearly linear for the
+ * shapes we draw): what the holes' cut-ins promise, and what a bad input
+ * (holes that overlap or leave the outer ring) breaks. */
+static bool contour_valid(const struct gp_ring *r, const char **why)
+{
+	size_t n = r->count;
+	struct span *spans = malloc(n * sizeof(*spans));
+	if (!spans)
+		return fail(why, "out of memory");
+	for (size_t i = 0; i < n; i++) {
+		int64_t xa = r->points[i].x, xb = ring_at(r, i + 1).x;
+		spans[i] = (struct span){ xa < xb ? xa : xb, xa < xb ? xb : xa,
+					  i };
+	}
+	qsort(spans, n, sizeof(*spans), compare_spans);
+	bool ok = true;
+	for (size_t k = 0; k < n && ok; k++)
+		for (size_t l = k + 1; l < n && ok && spans[l].x0 <= spans[k].x1;
+		     l++) {
+			size_t i = spans[k].index, j = spans[l].index;
+			ok = segments_allowed(r, i < j ? i : j, i < j ? j : i);
+		}
+	free(spans);
+	return ok ? true
+		  : fail(why, "a filled shape crosses itself, or its holes "
+			      "overlap or leave the outer ring");
 }
 
 bool gp_gerber_join_holes(struct gp_ring *contour,
@@ -410,7 +503,7 @@ bool gp_gerber_join_holes(struct gp_ring *contour,
 	}
 	qsort(order, n, sizeof(*order), compare_holes);
 	struct join join = { contour, holes, order, n, 0 };
-	ok = join_all(&join, why);
+	ok = join_all(&join, why) && contour_valid(contour, why);
 out:
 	for (size_t i = 0; holes && i < n; i++)
 		gp_ring_finish(&holes[i]);

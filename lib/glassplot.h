@@ -109,6 +109,21 @@ GP_EXPORT const char *gp_diff_text(const struct gp_diff *diff);
 GP_EXPORT bool gp_diff_write_pdf(const struct gp_diff *diff, const char *path,
 				 struct gp_diag *diag);
 
+/* --- drive and optics ------------------------------------------------------ */
+enum gp_drive_output {
+	GP_DRIVE_TEXT,
+	GP_DRIVE_JSON,
+};
+/* The drive and ordering-spec report of the design (multiplex voltages,
+ * Vop window, bias ladder, temperature, timing, ordering fields) as UTF-8
+ * text or JSON.  Returns a string to release with free(), or NULL on bad
+ * input (diag says where and why).  *feasible becomes false when no Vop
+ * can switch the fluid at this duty; the report and an error in diag then
+ * say what would work. */
+GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
+				       enum gp_drive_output output,
+				       bool *feasible, struct gp_diag *diag);
+
 #ifdef __cplusplus
 }
 #endif

@@ -109,7 +109,8 @@ struct gp_design *tool_load(const struct tool_options *options,
 	struct gp_design *design =
 		gp_design_load(options->description, options->overrides,
 			       options->override_count, diag);
-	if (!design || gp_diag_count(diag))
+	/* on success the caller prints the messages with its own */
+	if (!design)
 		tool_print_diag(diag, options->verbosity);
 	return design;
 }

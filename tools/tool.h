@@ -48,5 +48,6 @@ struct gp_design *tool_load(const struct tool_options *options,
 
 int cmd_build(int argc, char **argv);
 int cmd_diff(int argc, char **argv);
+int cmd_drive(int argc, char **argv);
 
 #endif
