@@ -214,10 +214,11 @@ static void format_levels(const struct gp_drive_report *report,
 {
 	const struct gp_drive_result *r = &report->result;
 	const struct gp_drive_levels *l = &r->levels;
+	const char *title = r->is_static ? "Drive levels" : "Bias ladder";
 	if (r->vop > 0.0)
-		gp_buffer_printf(out, "\nBias ladder at Vop = %.3f V\n", r->vop);
+		gp_buffer_printf(out, "\n%s at Vop = %.3f V\n", title, r->vop);
 	else
-		gp_buffer_puts(out, "\nBias ladder (fractions of Vop)\n");
+		gp_buffer_printf(out, "\n%s (fractions of Vop)\n", title);
 	for (size_t i = 0; i < l->count; i++) {
 		char label[32];
 		snprintf(label, sizeof(label), "V%zu", i);
@@ -304,6 +305,13 @@ static void format_timing(const struct gp_drive_report *report,
 	line(out, "row time 1/(N f)", "%s", t1);
 	time_text(t1, sizeof(t1), r->half_row_time);
 	time_text(t2, sizeof(t2), r->cycle_line);
+	if (r->is_static) {
+		line(out, "static waveform",
+		     "square waves reversing every half frame (%s); full AC "
+		     "cycle %s (%g Hz)",
+		     t1, t2, hz);
+		goto warnings;
+	}
 	line(out, "line-inverted (type A)",
 	     "both polarities in every row, reversing each half row (%s); "
 	     "full AC cycle %s (%g Hz)",
@@ -312,6 +320,7 @@ static void format_timing(const struct gp_drive_report *report,
 	line(out, "frame-inverted (type B)",
 	     "polarity reverses each frame; full AC cycle %s (%g Hz)", t3,
 	     hz / 2.0);
+warnings:
 	if (r->flicker)
 		gp_buffer_printf(out,
 				 "  warning: below %g Hz the glass may "

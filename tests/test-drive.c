@@ -315,6 +315,72 @@ static void test_single_threshold(void **state)
 }
 
 
+/* The window is empty exactly when the selection ratio is below Vsat/Vth
+ * (its definition: Voff <= Vth and Von >= Vsat), and every suggestion made
+ * for an empty one really works.  Fixed seed, so a failure replays. */
+static void test_window_property(void **state)
+{
+	(void)state;
+	unsigned seed = 12345;
+	for (int i = 0; i < 20000; i++) {
+		seed = seed * 1103515245u + 12345u;
+		long n = 2 + (long)(seed >> 8) % 400;
+		seed = seed * 1103515245u + 12345u;
+		double a = 2.0 + (double)((seed >> 8) % 1000) / 999.0 *
+					 ((double)n - 1.0);
+		seed = seed * 1103515245u + 12345u;
+		double steep = 1.0 + (double)((seed >> 8) % 1000 + 1) / 1000.0;
+		struct gp_drive_params p = {
+			.commons = n, .bias = a, .vth = 1.7, .vsat = 1.7 * steep,
+		};
+		struct gp_drive_result r;
+		assert_true(gp_drive_compute(&p, &r));
+		bool switches = r.ratio >= steep;
+		if (fabs(r.ratio - steep) > 1e-9)
+			assert_int_equal(r.feasible, switches);
+		if (r.feasible) {
+			assert_true(r.window.low <= r.window.recommended);
+			assert_true(r.window.recommended <= r.window.high);
+			assert_true(r.window.recommended * r.voff <=
+				    1.7 * (1 + 1e-12));
+			assert_true(r.window.recommended * r.von >=
+				    1.7 * steep * (1 - 1e-12));
+			continue;
+		}
+		if (r.bias_fix) {
+			assert_true(gp_drive_ratio(n, r.bias_low) >=
+				    steep - 1e-9);
+			assert_true(gp_drive_ratio(n, r.bias_high) >=
+				    steep - 1e-9);
+			/* and it is the whole range */
+			if (r.bias_low > 2.001)
+				assert_true(gp_drive_ratio(n, r.bias_low -
+								      1e-3) <
+					    steep);
+			if (r.bias_high < (double)n + 0.999)
+				assert_true(gp_drive_ratio(n, r.bias_high +
+								      1e-3) <
+					    steep);
+		} else {
+			assert_true(r.ratio_max < steep);
+		}
+		if (r.max_commons >= 2) {
+			assert_true(gp_drive_ratio_max(r.max_commons) >= steep);
+			assert_true(gp_drive_ratio_max(r.max_commons + 1) <
+				    steep);
+		}
+		if (r.max_commons_whole >= 2)
+			assert_true(gp_drive_ratio(r.max_commons_whole,
+						   (double)r.max_commons_whole_bias) >=
+				    steep);
+		if (r.max_commons_at_bias >= 2) {
+			assert_true(gp_drive_ratio(r.max_commons_at_bias, a) >=
+				    steep);
+			assert_true(r.max_commons_at_bias < n);
+		}
+	}
+}
+
 /* --- descriptions --------------------------------------------------------- */
 
 /* Twelve lines of glass around the sections under test, which therefore
@@ -592,6 +658,7 @@ int main(void)
 		cmocka_unit_test(test_timing),
 		cmocka_unit_test(test_params_problems),
 		cmocka_unit_test(test_single_threshold),
+		cmocka_unit_test(test_window_property),
 		cmocka_unit_test(test_read_full),
 		cmocka_unit_test(test_read_infeasible),
 		cmocka_unit_test(test_bad_input),

@@ -67,6 +67,7 @@ int cmd_drive(int argc, char **argv)
 		fflush(stdout);
 		status = feasible ? EXIT_OK : EXIT_FINDINGS;
 	}
+	tool_print_diag(load_diag, options.verbosity);
 	tool_print_diag(diag, options.verbosity);
 	free(text);
 	gp_design_destroy(design);
