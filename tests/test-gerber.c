@@ -492,8 +492,9 @@ static void test_holes(void **state)
 }
 
 /* Rings in either orientation, with repeated points and an explicit
- * closing point, a hole whose ray meets a slanted edge off the grid, and a
- * hole touching the outer ring at one point (valid for GEOS/OGC). */
+ * closing point, a hole whose ray meets a slanted edge off the grid, and
+ * holes touching the outer ring or each other at one point (valid for
+ * GEOS/OGC). */
 static void test_hole_cases(void **state)
 {
 	static const int64_t outer_cw[] = { 0, 0, 0, 10 * MM, 10 * MM,
@@ -507,12 +508,23 @@ static void test_hole_cases(void **state)
 					    3 * MM - 1, 6 * MM, 4 * MM };
 	static const int64_t touching[] = { 0, 5 * MM, 2 * MM, 6 * MM,
 					    2 * MM, 7 * MM };
+	/* two holes touching at a corner, the right one also touching the
+	 * square hole's top edge from above at (3, 4) */
+	static const int64_t corner_a[] = { 5 * MM, 8 * MM, 7 * MM, 8 * MM,
+					    7 * MM, 9 * MM };
+	static const int64_t corner_b[] = { 3 * MM, 6 * MM, 5 * MM, 8 * MM,
+					    3 * MM, 8 * MM };
+	static const int64_t on_edge[] = { 3 * MM, 4 * MM, 4 * MM, 5 * MM,
+					   2 * MM, 5 * MM };
 	struct gp_polygon poly;
 	gp_polygon_init(&poly);
 	ring_of(&poly.outer, outer_cw, 6);
 	add_hole(&poly, hole_ccw, 4);
 	add_hole(&poly, off_grid, 3);
 	add_hole(&poly, touching, 3);
+	add_hole(&poly, corner_a, 3);
+	add_hole(&poly, corner_b, 3);
+	add_hole(&poly, on_edge, 3);
 	struct gp_ring contour;
 	const char *why = NULL;
 	if (!gp_gerber_join_holes(&contour, &poly, &why))
