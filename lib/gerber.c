@@ -1,6 +1,7 @@
 /* The Gerber RS-274X writer (see gerber.h).  Section numbers in comments
  * refer to the Gerber Layer Format Specification, Ucamco, revision
- * 2024.05. */
+ * 2024.05 (numbers from memory: the rules are the spec's, the numbering
+ * may be off by a subsection). */
 #include "gerber.h"
 
 #include "units.h"

@@ -2,7 +2,8 @@
  *
  * It accepts only the subset of the Gerber Layer Format Specification
  * (Ucamco, revision 2024.05) that the writer uses, and rejects with the
- * section it breaks anything that is deprecated or malformed there:
+ * section it breaks (numbers from memory) anything that is deprecated or
+ * malformed there:
  *   3.3/3.4  every word ends with '*', extended commands between '%'
  *   4.1      G04 comments
  *   4.2.1    %MOMM*% once, before any coordinate

@@ -1,7 +1,8 @@
 /* Tests of the Gerber writer.
  *
  * "Spec" means the Gerber Layer Format Specification, Ucamco, revision
- * 2024.05; section numbers are from it.  Files are read back with the
+ * 2024.05; section numbers are from it (from memory: the rules are the
+ * spec's, a number may be off by a subsection).  Files are read back with the
  * strict reader in gerber-read.c (which names the section of each rule it
  * enforces), compared with GEOS, and rendered by the independent reader
  * gerbv 2.9 (gerbv-render.c). */
