@@ -253,10 +253,13 @@ static bool add_gerbers(const struct gp_build *build,
 		snprintf(name, sizeof(name), "%s.gbr",
 			 gp_layer_name((enum gp_layer)layer));
 		struct gp_buffer *out = gp_output_add(set, name, diag);
-		if (!out || !gp_gerber_write(out, &build->art,
-					     (enum gp_layer)layer, &info))
+		const char *why = "out of memory";
+		if (!out)
+			return false;
+		if (!gp_gerber_write_why(out, &build->art,
+					 (enum gp_layer)layer, &info, &why))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
-					     "Gerber file", name);
+					     "Gerber file: %s", name, why);
 	}
 	return true;
 }
