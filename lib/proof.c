@@ -8,7 +8,6 @@
 #include "gp-config.h"
 
 #include <cairo-pdf.h>
-#include <errno.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -306,9 +305,14 @@ static void glass_thickness(const struct proof *p, char *buffer, size_t size)
 	snprintf(buffer, size, "not given");
 }
 
+/* As written in the description, else the build's date (from
+ * SOURCE_DATE_EPOCH), else none. */
 static void revision_date(const struct proof *p, char *buffer, size_t size)
 {
+	char day[32];
 	const char *date = p->design->proof.revision_date;
+	if (!date)
+		date = gp_build_date(p->build, day, sizeof(day));
 	snprintf(buffer, size, "%s", date ? date : "not given");
 }
 
@@ -405,26 +409,22 @@ static cairo_status_t write_chunk(void *closure, const unsigned char *data,
  * cairo 1.16 dates a document with the wall clock unless the date is set;
  * an empty date makes it write none.  (It also writes the date without
  * the "D:" prefix; poppler reads it either way.) */
-static void set_metadata(cairo_surface_t *surface, const struct gp_design *d)
+static void set_metadata(cairo_surface_t *surface,
+			 const struct gp_build *build)
 {
+	const struct gp_design *d = build->design;
 	char title[256], date[32] = "";
 	snprintf(title, sizeof(title), "%s revision %s: proof", d->part,
 		 d->revision);
 	cairo_pdf_surface_set_metadata(surface, CAIRO_PDF_METADATA_TITLE,
 				       title);
 	cairo_pdf_surface_set_metadata(surface, CAIRO_PDF_METADATA_AUTHOR,
-				       d->part);
+				       "glassplot");
 	cairo_pdf_surface_set_metadata(surface, CAIRO_PDF_METADATA_CREATOR,
 				       "glassplot " GP_VERSION);
-	const char *epoch = getenv("SOURCE_DATE_EPOCH");
-	if (epoch && *epoch) {
-		char *end;
-		errno = 0;
-		long long t = strtoll(epoch, &end, 10);
-		if (errno || *end || !gp_gerber_format_date(date, sizeof(date),
-							    t))
-			date[0] = '\0';
-	}
+	if (build->has_epoch &&
+	    !gp_gerber_format_date(date, sizeof(date), build->epoch))
+		date[0] = '\0';
 	cairo_pdf_surface_set_metadata(surface, CAIRO_PDF_METADATA_CREATE_DATE,
 				       date);
 }
@@ -465,7 +465,7 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 		write_chunk, out, p.plan.paper_w * PT_PER_MM,
 		p.plan.paper_h * PT_PER_MM);
 	cairo_pdf_surface_restrict_to_version(surface, CAIRO_PDF_VERSION_1_5);
-	set_metadata(surface, p.design);
+	set_metadata(surface, build);
 	p.cr = cairo_create(surface);
 	if (!proof_net_use_create(&p) || !proof_cells_create(&p)) {
 		gp_diag_error(diag, NULL, "proof.pdf: out of memory");
