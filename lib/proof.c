@@ -2,12 +2,17 @@
  * block, text primitives, and the document itself. */
 #include "proof-internal.h"
 
+#include "font.h"
 #include "gerber.h"
 #include "units.h"
 
 #include "gp-config.h"
 
+#include <cairo-ft.h>
 #include <cairo-pdf.h>
+#include <ft2build.h>
+#include FT_FREETYPE_H
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -220,12 +225,73 @@ void proof_set_colour(struct proof *p, struct rgb c, double alpha)
 		cairo_set_source_rgba(p->cr, c.r, c.g, c.b, alpha);
 }
 
+/* The proof's two faces, opened once per process and kept: cairo keeps
+ * font faces in caches of its own beyond any one document, so they must
+ * outlive every surface.  Found through fontconfig by our font module
+ * (cairo 1.16's own fontconfig lookup for toy fonts leaks patterns). */
+static const char *const font_names[2][2] = {
+	{ "Liberation Sans", "DejaVu Sans" },
+	{ "Liberation Sans:bold", "DejaVu Sans:bold" },
+};
+
+static struct {
+	pthread_once_t once;
+	FT_Library library;
+	cairo_font_face_t *faces[2];
+	bool ok;
+} fonts = { .once = PTHREAD_ONCE_INIT };
+
+static void done_face(void *face)
+{
+	FT_Done_Face(face);
+}
+
+static cairo_font_face_t *open_face(int bold)
+{
+	static const cairo_user_data_key_t key;
+	for (int i = 0; i < 2; i++) {
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		struct gp_font *font = gp_font_open(font_names[bold][i], NULL,
+						    NULL, &diag);
+		gp_diag_finish(&diag);
+		FT_Face face = NULL;
+		bool ok = font && FT_New_Face(fonts.library, gp_font_file(font),
+					      gp_font_face_index(font),
+					      &face) == 0;
+		gp_font_destroy(font);
+		if (!ok)
+			continue;
+		cairo_font_face_t *cf = cairo_ft_font_face_create_for_ft_face(
+			face, FT_LOAD_NO_HINTING);
+		if (cairo_font_face_set_user_data(cf, &key, face, done_face)) {
+			cairo_font_face_destroy(cf);
+			FT_Done_Face(face);
+			continue;
+		}
+		return cf;
+	}
+	return NULL;
+}
+
+static void open_fonts(void)
+{
+	if (FT_Init_FreeType(&fonts.library))
+		return;
+	fonts.faces[0] = open_face(0);
+	fonts.faces[1] = open_face(1);
+	fonts.ok = fonts.faces[0] && fonts.faces[1];
+}
+
+static bool have_fonts(void)
+{
+	pthread_once(&fonts.once, open_fonts);
+	return fonts.ok;
+}
+
 void proof_font(struct proof *p, double size, bool bold)
 {
-	cairo_select_font_face(p->cr, "Liberation Sans",
-			       CAIRO_FONT_SLANT_NORMAL,
-			       bold ? CAIRO_FONT_WEIGHT_BOLD
-				    : CAIRO_FONT_WEIGHT_NORMAL);
+	cairo_set_font_face(p->cr, fonts.faces[bold]);
 	cairo_set_font_size(p->cr, size);
 }
 
@@ -460,6 +526,10 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	gp_proof_plan(build, &p.plan);
 	p.view = (struct proof_view){ p.plan.ox, p.plan.oy, p.plan.scale };
 
+	if (!have_fonts())
+		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
+				     "font '%s' (nor '%s')",
+				     font_names[0][0], font_names[0][1]);
 	bool ok = false;
 	cairo_surface_t *surface = cairo_pdf_surface_create_for_stream(
 		write_chunk, out, p.plan.paper_w * PT_PER_MM,
