@@ -12,6 +12,8 @@
 #include <stdbool.h>
 #include <stdint.h>
 
+struct gp_routing;
+
 /* Design rules; defaults are common practice, no published source. */
 struct gp_rules {
 	int64_t min_line;         /* narrowest ITO line */
@@ -67,6 +69,7 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_routing *routing;   /* routing sections, NULL if none */
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
