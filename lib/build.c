@@ -100,6 +100,7 @@ GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 	gp_buffer_init(&build->notes);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_icons_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;

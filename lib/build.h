@@ -31,6 +31,10 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
  * block, line by line), or -1 if out of range. */
 int gp_block_common_net(const struct gp_build *build, size_t block, long row);
 
+/* Lays out every icon: nets, front electrodes and bridges, back patches
+ * and bridges, pixels, summary lines (icon-layout.c). */
+bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag);
+
 /* Cut outlines of both plates. */
 bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag);
 
