@@ -150,8 +150,9 @@ static bool report_thin(struct layout *l, const struct gp_icon *icon,
 	where_mm(at, sizeof(at), icon->position);
 	fmt(w, sizeof(w), l->design->rules.min_line);
 	for (size_t i = 0; i < thin->count && i < MAX_FINDINGS; i++) {
-		where_mm(near, sizeof(near),
-			 centre(gp_polygon_bounds(&thin->items[i])));
+		/* a corner of the thin piece: on the stroke itself, where
+		 * the middle of its box may not be */
+		where_mm(near, sizeof(near), thin->items[i].outer.points[0]);
 		gp_diag_error(l->diag, &icon->where,
 			      "icon '%s' at %s mm: a stroke near %s mm is "
 			      "thinner than min_line %s mm; make the icon "
