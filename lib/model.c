@@ -116,6 +116,10 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= gp_blocks_read(design, node, diag);
 	if ((node = gp_read_node(&r, "icons", false)))
 		r.ok &= gp_icons_read(design, node, diag);
+	if ((node = gp_read_node(&r, "drive", false)))
+		r.ok &= gp_drive_read(design, node, diag);
+	if ((node = gp_read_node(&r, "optics", false)))
+		r.ok &= gp_optics_read(design, node, diag);
 	return gp_reader_end(&r);
 }
 

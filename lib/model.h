@@ -6,6 +6,7 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "drive.h"
 #include "font.h"
 #include "geom.h"
 #include "spec.h"
@@ -117,6 +118,7 @@ struct gp_design {
 	size_t block_count;
 	struct gp_icon *icons;
 	size_t icon_count;
+	struct gp_drive_spec drive;   /* sections 'drive' and 'optics' */
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
@@ -124,6 +126,9 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 				      struct gp_diag *diag);
 
 enum gp_plate gp_common_plate(const struct gp_design *design);
+
+/* Number of commons (COM nets) the design drives: the duty is 1/N. */
+int gp_design_common_count(const struct gp_design *design);
 
 /* Section readers, one per module. */
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
