@@ -136,6 +136,9 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 /* Reads the 'icons' section (after 'blocks' and 'rules'). */
 bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag);
+/* Commons the icons add: their named icon commons (a block row's common
+ * shared by an icon adds none). */
+int gp_icons_common_count(const struct gp_design *design);
 /* Frees what gp_icons_read allocated. */
 void gp_icons_free(struct gp_design *design);
 /* Top-left corner of dot (row, col) of cell (line, cell) of a block,
