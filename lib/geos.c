@@ -377,6 +377,12 @@ void gp_geos_shape_destroy(struct gp_geos *geos, struct gp_geos_shape *shape)
 	free(shape);
 }
 
+struct gp_geos_shape *gp_geos_shape_clone(struct gp_geos *geos,
+					  const struct gp_geos_shape *shape)
+{
+	return wrap(geos, GEOSGeom_clone_r(geos->ctx, shape->g), "copying");
+}
+
 struct shift {
 	double dx, dy;
 };
@@ -700,6 +706,26 @@ bool gp_geos_shape_distance(struct gp_geos *geos, struct gp_geos_shape *a,
 		return false;
 	if (!GEOSPreparedDistance_r(geos->ctx, a->prepared, b->g, distance))
 		return fail(geos, "distance");
+	return true;
+}
+
+bool gp_geos_shape_nearest(struct gp_geos *geos, struct gp_geos_shape *a,
+			   const struct gp_geos_shape *b, struct gp_point *pa,
+			   struct gp_point *pb)
+{
+	if (!prepare(geos, a))
+		return false;
+	GEOSCoordSequence *seq =
+		GEOSPreparedNearestPoints_r(geos->ctx, a->prepared, b->g);
+	double x0, y0, x1, y1;
+	bool ok = seq && GEOSCoordSeq_getXY_r(geos->ctx, seq, 0, &x0, &y0) &&
+		  GEOSCoordSeq_getXY_r(geos->ctx, seq, 1, &x1, &y1);
+	if (seq)
+		GEOSCoordSeq_destroy_r(geos->ctx, seq);
+	if (!ok)
+		return fail(geos, "nearest points");
+	*pa = (struct gp_point){ llround(x0), llround(y0) };
+	*pb = (struct gp_point){ llround(x1), llround(y1) };
 	return true;
 }
 

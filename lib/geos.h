@@ -63,6 +63,8 @@ struct gp_geos_shape *gp_geos_shape_from_polyset(struct gp_geos *geos,
 struct gp_geos_shape *gp_geos_shape_from_box(struct gp_geos *geos,
 					     struct gp_box box);
 void gp_geos_shape_destroy(struct gp_geos *geos, struct gp_geos_shape *shape);
+struct gp_geos_shape *gp_geos_shape_clone(struct gp_geos *geos,
+					  const struct gp_geos_shape *shape);
 /* Copy moved by (dx, dy) nm. */
 struct gp_geos_shape *gp_geos_shape_translate(struct gp_geos *geos,
 					      const struct gp_geos_shape *shape,
@@ -121,6 +123,12 @@ bool gp_geos_shape_covers(struct gp_geos *geos, struct gp_geos_shape *a,
 /* Least distance in nm (0 when they meet); false on error. */
 bool gp_geos_shape_distance(struct gp_geos *geos, struct gp_geos_shape *a,
 			    const struct gp_geos_shape *b, double *distance);
+
+/* The nearest points of a and b in nm (rounded); a is prepared.  Both
+ * must be non-empty. */
+bool gp_geos_shape_nearest(struct gp_geos *geos, struct gp_geos_shape *a,
+			   const struct gp_geos_shape *b, struct gp_point *pa,
+			   struct gp_point *pb);
 
 /* --- the same operations on plain polygons ------------------------------ */
 /* Each appends its snapped result to out (initialised by the caller) and

@@ -310,9 +310,14 @@ bool gp_route_write(const struct gp_build *build, struct gp_output_set *set,
 {
 	if (build->pin_count == 0)
 		return true;
-	struct gp_buffer *csv = gp_output_add(set, "pins.csv", diag);
-	if (!csv || !gp_pins_csv(build, csv))
-		return gp_diag_error(diag, NULL, "pins.csv: cannot write it");
+	if (gp_build_wants(build, GP_OUTPUT_PINS)) {
+		struct gp_buffer *csv = gp_output_add(set, "pins.csv", diag);
+		if (!csv || !gp_pins_csv(build, csv))
+			return gp_diag_error(diag, NULL,
+					     "pins.csv: cannot write it");
+	}
+	if (!gp_build_wants(build, GP_OUTPUT_FIRMWARE))
+		return true;
 	struct gp_buffer *h = gp_output_add(set, "glass-map.h", diag);
 	if (!h || !gp_firmware_header(build, h))
 		return gp_diag_error(diag, NULL,

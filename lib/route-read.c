@@ -37,12 +37,12 @@ static bool read_connection(struct gp_ledge *l, const struct gp_node *node,
 	char what[160];
 	snprintf(what, sizeof(what), "'connection' of ledge '%s'", l->name);
 	struct gp_reader r;
-	int method = GP_CONNECT_ELASTOMERIC;
+	int method = GP_LEDGE_ELASTOMERIC;
 	l->connection_where = node->where;
 	gp_reader_begin(&r, node, what, diag);
 	gp_read_choice(&r, "method", true, methods, &method);
-	l->connection = (enum gp_connection)method;
-	gp_read_size(&r, "pitch", l->connection == GP_CONNECT_PINS,
+	l->connection = (enum gp_ledge_connection)method;
+	gp_read_size(&r, "pitch", l->connection == GP_LEDGE_PINS,
 		     &l->connector_pitch);
 	return gp_reader_end(&r);
 }
@@ -93,7 +93,7 @@ static bool read_ledge(struct gp_design *design, struct gp_ledge *l,
 	const struct gp_node *c = gp_read_node(&r, "connection", false);
 	if (c)
 		r.ok &= read_connection(l, c, diag);
-	gp_read_size(&r, "pitch", l->connection != GP_CONNECT_PINS,
+	gp_read_size(&r, "pitch", l->connection != GP_LEDGE_PINS,
 		     &l->pitch);
 	if (l->pitch == 0)
 		l->pitch = l->connector_pitch;

@@ -189,7 +189,7 @@ static bool check_connection(struct route *r, const struct gp_ledge *l)
 {
 	char a[32], b[32], c[32];
 	int64_t gap = l->pitch - l->pad_width;
-	if (l->connection == GP_CONNECT_PINS &&
+	if (l->connection == GP_LEDGE_PINS &&
 	    l->pitch != l->connector_pitch)
 		return gp_diag_error(r->diag, &l->where,
 				     "ledge '%s': pad pitch %s mm differs "
@@ -197,7 +197,7 @@ static bool check_connection(struct route *r, const struct gp_ledge *l)
 				     "pads at their own pitch",
 				     l->name, mm(a, l->pitch),
 				     mm(b, l->connector_pitch));
-	if (l->connection == GP_CONNECT_HEAT_SEAL && l->connector_pitch &&
+	if (l->connection == GP_LEDGE_HEAT_SEAL && l->connector_pitch &&
 	    l->pitch < l->connector_pitch)
 		return gp_diag_error(r->diag, &l->where,
 				     "ledge '%s': pad pitch %s mm is finer "
@@ -207,7 +207,7 @@ static bool check_connection(struct route *r, const struct gp_ledge *l)
 				     mm(b, l->connector_pitch));
 	/* Elastomeric strips: at least two conductors on a pad and no
 	 * conductor bridging a gap (common practice, no published source). */
-	if (l->connection == GP_CONNECT_ELASTOMERIC && l->connector_pitch &&
+	if (l->connection == GP_LEDGE_ELASTOMERIC && l->connector_pitch &&
 	    (l->pad_width < 2 * l->connector_pitch ||
 	     gap < l->connector_pitch))
 		return gp_diag_error(r->diag, &l->where,

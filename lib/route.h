@@ -50,10 +50,10 @@ enum gp_side {
 
 const char *gp_side_name(enum gp_side side);
 
-enum gp_connection {
-	GP_CONNECT_ELASTOMERIC, /* conductive elastomer strip ("zebra") */
-	GP_CONNECT_PINS,        /* metal pins clipped on the ledge */
-	GP_CONNECT_HEAT_SEAL,   /* heat-seal or flex connector */
+enum gp_ledge_connection {
+	GP_LEDGE_ELASTOMERIC, /* conductive elastomer strip ("zebra") */
+	GP_LEDGE_PINS,        /* metal pins clipped on the ledge */
+	GP_LEDGE_HEAT_SEAL,   /* heat-seal or flex connector */
 };
 
 enum gp_carries {
@@ -77,7 +77,7 @@ struct gp_ledge {
 	enum gp_side side;
 	enum gp_plate plate;
 	bool plate_given;
-	enum gp_connection connection;
+	enum gp_ledge_connection connection;
 	int64_t connector_pitch;  /* conductor, pin or finest pitch; 0 none */
 	struct gp_where connection_where;
 	int64_t pitch, pad_width, pad_length, edge_clearance;
