@@ -53,6 +53,9 @@ struct proof {
 	struct proof_cells *cells;  /* one per block */
 	struct proof_net_use *use;  /* one per net */
 	int *pin_order;             /* net indices in pin table order */
+	struct gp_buffer pins_csv;  /* pins.csv, when routed */
+	const char **pin_lines;     /* its rows, header excluded */
+	size_t pin_line_count;
 };
 
 /* --- paper, text and primitives (proof.c) ------------------------------ */
@@ -66,6 +69,7 @@ enum proof_align { ALIGN_LEFT, ALIGN_CENTRE, ALIGN_RIGHT };
 
 void proof_set_colour(struct proof *p, struct rgb c, double alpha);
 void proof_font(struct proof *p, double size, bool bold);
+void proof_font_mono(struct proof *p, double size);
 /* Text with its baseline at y; returns its width in mm. */
 double proof_text(struct proof *p, double x, double y, enum proof_align align,
 		  const char *text);
@@ -141,12 +145,16 @@ void proof_dim_room(const struct gp_build *build, double *left,
 int proof_pin_sheet_count(const struct gp_build *build,
 			  const struct gp_proof_plan *plan);
 void proof_sheets_pins(struct proof *p);
-void proof_sheet_spec(struct proof *p);
+void proof_sheets_spec(struct proof *p);
+int proof_spec_sheet_count(const struct gp_build *build,
+			   const struct gp_proof_plan *plan);
 int proof_finding_sheet_count(const struct gp_build *build,
 			      const struct gp_proof_plan *plan);
 void proof_sheets_findings(struct proof *p);
 void proof_cautions(struct proof *p);
 bool proof_net_use_create(struct proof *p);
+bool proof_pins_create(struct proof *p);
+void proof_pins_destroy(struct proof *p);
 /* "block main line 1 row 3", describing what a net drives. */
 void proof_net_drives(const struct proof *p, int net, char *buffer,
 		      size_t size);
