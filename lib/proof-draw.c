@@ -60,11 +60,18 @@ void proof_add_box(struct proof *p, const struct proof_view *v,
 			y0 < y1 ? y1 - y0 : y0 - y1);
 }
 
-static bool shape_selected(const struct gp_shape *s, enum gp_layer layer,
+static bool shape_selected(const struct proof_view *v,
+			   const struct gp_shape *s, enum gp_layer layer,
 			   unsigned role_mask)
 {
-	return s->layer == layer && (role_mask & ROLE_BIT(s->role)) &&
-	       s->line_width == 0;
+	if (s->layer != layer || !(role_mask & ROLE_BIT(s->role)) ||
+	    s->line_width != 0)
+		return false;
+	if (!v->windowed)
+		return true;
+	struct gp_box b = gp_polygon_bounds(&s->poly);
+	return b.x1 >= v->window.x0 && b.x0 <= v->window.x1 &&
+	       b.y1 >= v->window.y0 && b.y0 <= v->window.y1;
 }
 
 bool proof_has_layer(const struct proof *p, enum gp_layer layer,
@@ -92,7 +99,7 @@ size_t proof_path_layer(struct proof *p, const struct proof_view *v,
 	size_t count = 0;
 	for (size_t i = 0; i < p->art->shape_count; i++) {
 		const struct gp_shape *s = &p->art->shapes[i];
-		if (!shape_selected(s, layer, role_mask))
+		if (!shape_selected(v, s, layer, role_mask))
 			continue;
 		proof_add_polygon(p, v, &s->poly);
 		count++;
@@ -110,6 +117,54 @@ void proof_fill_layer(struct proof *p, const struct proof_view *v,
 	proof_set_colour(p, c, alpha);
 	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
 	cairo_fill(p->cr);
+}
+
+static struct rgb layer_colour(enum gp_layer layer)
+{
+	switch (layer) {
+	case GP_LAYER_FRONT_ITO:
+		return proof_front_colour;
+	case GP_LAYER_BACK_ITO:
+		return proof_back_colour;
+	case GP_LAYER_SEAL:
+		return proof_seal_colour;
+	case GP_LAYER_TRANSFER:
+		return proof_transfer_colour;
+	default:
+		return (struct rgb){ 0, 0, 0 };
+	}
+}
+
+void proof_paint_layer(struct proof *p, enum gp_layer layer, double alpha)
+{
+	if (!proof_has_layer(p, layer, ALL_ROLES))
+		return;
+	if (!p->layers[layer]) {
+		cairo_rectangle_t extents = { 0, 0, p->plan.paper_w,
+					      p->plan.paper_h };
+		cairo_surface_t *surface = cairo_recording_surface_create(
+			CAIRO_CONTENT_COLOR_ALPHA, &extents);
+		cairo_t *page = p->cr;
+		p->cr = cairo_create(surface);
+		proof_fill_layer(p, &p->view, layer, ALL_ROLES,
+				 layer_colour(layer), 1.0);
+		cairo_destroy(p->cr);
+		p->cr = page;
+		p->layers[layer] = surface;
+	}
+	cairo_set_source_surface(p->cr, p->layers[layer], 0, 0);
+	if (alpha >= 1.0)
+		cairo_paint(p->cr);
+	else
+		cairo_paint_with_alpha(p->cr, alpha);
+}
+
+void proof_layers_destroy(struct proof *p)
+{
+	for (int i = 0; i < GP_LAYER_COUNT; i++) {
+		cairo_surface_destroy(p->layers[i]);
+		p->layers[i] = NULL;
+	}
 }
 
 void proof_stroke_lines(struct proof *p, const struct proof_view *v,
@@ -352,10 +407,8 @@ void proof_pixels(struct proof *p, const struct proof_view *v,
 
 static void fill_seal_and_transfers(struct proof *p, double alpha)
 {
-	proof_fill_layer(p, &p->view, GP_LAYER_SEAL, ALL_ROLES,
-			 proof_seal_colour, alpha);
-	proof_fill_layer(p, &p->view, GP_LAYER_TRANSFER, ALL_ROLES,
-			 proof_transfer_colour, 1.0);
+	proof_paint_layer(p, GP_LAYER_SEAL, alpha);
+	proof_paint_layer(p, GP_LAYER_TRANSFER, 1.0);
 }
 
 static void overview_legend(struct proof *p)
@@ -377,10 +430,8 @@ void proof_sheet_overview(struct proof *p)
 {
 	proof_begin_sheet(p, "Overview: both plates");
 	fill_seal_and_transfers(p, 0.45);
-	proof_fill_layer(p, &p->view, GP_LAYER_FRONT_ITO, ALL_ROLES,
-			 proof_front_colour, 0.5);
-	proof_fill_layer(p, &p->view, GP_LAYER_BACK_ITO, ALL_ROLES,
-			 proof_back_colour, 0.5);
+	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.5);
+	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.5);
 	proof_viewing_area(p, &p->view);
 	proof_plate_outlines(p, &p->view, true, true);
 	proof_pin1(p, &p->view);
@@ -406,8 +457,7 @@ static void layer_sheet(struct proof *p, enum gp_plate plate)
 	proof_begin_sheet(p, front ? "Front plate ITO" : "Back plate ITO");
 	note(p, front ? "As seen from the viewer."
 		      : "As seen from the viewer, through the front plate.");
-	proof_fill_layer(p, &p->view, layer, ALL_ROLES,
-			 front ? proof_front_colour : proof_back_colour, 1.0);
+	proof_paint_layer(p, layer, 1.0);
 	proof_plate_outlines(p, &p->view, front, !front);
 	if (proof_has_layer(p, layer, ROLE_BIT(GP_ROLE_PAD)))
 		proof_pin1(p, &p->view);

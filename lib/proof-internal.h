@@ -14,6 +14,10 @@
  * paper y = oy - s * y_mm. */
 struct proof_view {
 	double ox, oy, s;
+	/* when set, shapes wholly outside window are left out (the view is
+	 * clipped to it anyway) */
+	bool windowed;
+	struct gp_box window;
 };
 
 struct rgb {
@@ -51,6 +55,9 @@ struct proof {
 	struct proof_view view;     /* the overview's glass placement */
 	int sheet;                  /* current sheet, 1-based */
 	struct proof_cells *cells;  /* one per block */
+	/* Each layer drawn once at the overview's view, painted on every
+	 * sheet that shows it whole (the PDF holds it once). */
+	cairo_surface_t *layers[GP_LAYER_COUNT];
 	struct proof_net_use *use;  /* one per net */
 	int *pin_order;             /* net indices in pin table order */
 	struct gp_buffer pins_csv;  /* pins.csv, when routed */
@@ -107,6 +114,10 @@ size_t proof_path_layer(struct proof *p, const struct proof_view *v,
 void proof_fill_layer(struct proof *p, const struct proof_view *v,
 		      enum gp_layer layer, unsigned role_mask, struct rgb c,
 		      double alpha);
+/* Paints a whole layer (all roles) at the overview's view in its own
+ * colour with alpha. */
+void proof_paint_layer(struct proof *p, enum gp_layer layer, double alpha);
+void proof_layers_destroy(struct proof *p);
 /* Strokes the line shapes (outlines) of layer. */
 void proof_stroke_lines(struct proof *p, const struct proof_view *v,
 			enum gp_layer layer, double width);

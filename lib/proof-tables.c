@@ -543,10 +543,8 @@ void proof_sheets_findings(struct proof *p)
 	proof_begin_sheet(p, "Check results");
 	double x0, y0, x1, y1;
 	proof_area(p, &x0, &y0, &x1, &y1);
-	proof_fill_layer(p, &p->view, GP_LAYER_FRONT_ITO, ~0u,
-			 proof_front_colour, 0.2);
-	proof_fill_layer(p, &p->view, GP_LAYER_BACK_ITO, ~0u,
-			 proof_back_colour, 0.2);
+	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.2);
+	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.2);
 	proof_plate_outlines(p, &p->view, true, true);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
 	proof_font(p, 3.0, true);

@@ -526,6 +526,7 @@ static void draw_sheets(struct proof *p)
 static void proof_finish(struct proof *p)
 {
 	proof_cells_destroy(p);
+	proof_layers_destroy(p);
 	proof_pins_destroy(p);
 	free(p->use);
 	free(p->pin_order);
@@ -541,7 +542,8 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	p.art = &build->art;
 	p.sheet = 1;
 	gp_proof_plan(build, &p.plan);
-	p.view = (struct proof_view){ p.plan.ox, p.plan.oy, p.plan.scale };
+	p.view = (struct proof_view){ .ox = p.plan.ox, .oy = p.plan.oy,
+				      .s = p.plan.scale };
 
 	if (!have_fonts())
 		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
