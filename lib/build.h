@@ -7,6 +7,7 @@
 #include "buffer.h"
 #include "diag.h"
 #include "model.h"
+#include "route.h"
 
 struct gp_block_nets {
 	int first_common;         /* net index of the block's first common */
@@ -32,6 +33,12 @@ struct gp_build {
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;
+	/* Lead ends offered by layout stages (gp_build_add_lead_end). */
+	struct gp_lead_end *ends;
+	size_t end_count, end_capacity;
+	/* Pads made by routing, in ledge order. */
+	struct gp_pin *pins;
+	size_t pin_count;
 	/* Files read besides the description (fonts...), one per line, for
 	 * dependency files. */
 	struct gp_buffer inputs;
