@@ -14,8 +14,16 @@
 #include <stdlib.h>
 #include <string.h>
 
-static const struct rgb lit_colour = { 0.10, 0.12, 0.14 };
-static const struct rgb lcd_colour = { 0.80, 0.84, 0.76 };
+/* Positive mode: dark pixels on a light field; negative: the reverse. */
+static const struct rgb lit_colours[2] = { { 0.10, 0.12, 0.14 },
+					   { 0.86, 0.92, 0.80 } };
+static const struct rgb lcd_colours[2] = { { 0.80, 0.84, 0.76 },
+					   { 0.10, 0.12, 0.16 } };
+
+static int negative(const struct proof *p)
+{
+	return p->design->drive.mode == GP_MODE_NEGATIVE;
+}
 static const struct rgb glass_colour = { 0.93, 0.94, 0.95 };
 static const struct rgb viewing_colour = { 0.45, 0.20, 0.70 };
 
@@ -303,7 +311,7 @@ void proof_pin1(struct proof *p, const struct proof_view *v)
 /* --- dot-matrix cells ------------------------------------------------------ */
 
 static cairo_surface_t *cell_surface(const struct gp_block *b, double s,
-				     int parity)
+				     int parity, struct rgb lit)
 {
 	int64_t cw = (b->dots_across - 1) * b->dot_pitch_x + b->dot_width;
 	int64_t ch = (b->dots_down - 1) * b->dot_pitch_y + b->dot_height;
@@ -319,7 +327,7 @@ static cairo_surface_t *cell_surface(const struct gp_block *b, double s,
 						s * gp_mm(row * b->dot_pitch_y),
 						s * gp_mm(b->dot_width),
 						s * gp_mm(b->dot_height));
-	cairo_set_source_rgb(cr, lit_colour.r, lit_colour.g, lit_colour.b);
+	cairo_set_source_rgb(cr, lit.r, lit.g, lit.b);
 	cairo_fill(cr);
 	cairo_destroy(cr);
 	return surface;
@@ -335,9 +343,10 @@ bool proof_cells_create(struct proof *p)
 		const struct gp_block *b = &p->design->blocks[i];
 		struct proof_cells *c = &p->cells[i];
 		c->scale = p->view.s;
-		c->all = cell_surface(b, c->scale, -1);
-		c->even = cell_surface(b, c->scale, 0);
-		c->odd = cell_surface(b, c->scale, 1);
+		struct rgb lit = lit_colours[negative(p)];
+		c->all = cell_surface(b, c->scale, -1, lit);
+		c->even = cell_surface(b, c->scale, 0, lit);
+		c->odd = cell_surface(b, c->scale, 1, lit);
 		if (cairo_surface_status(c->all) || cairo_surface_status(c->even) ||
 		    cairo_surface_status(c->odd))
 			return false;
@@ -394,11 +403,13 @@ void proof_pixels(struct proof *p, const struct proof_view *v,
 			proof_add_polygon(p, v, &px->shape);
 		else
 			proof_add_box(p, v, px->box);
+		for (size_t k = 0; k < px->more.count; k++)
+			proof_add_polygon(p, v, &px->more.items[k]);
 		any = true;
 	}
 	if (!any)
 		return;
-	proof_set_colour(p, lit_colour, 1.0);
+	proof_set_colour(p, lit_colours[negative(p)], 1.0);
 	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
 	cairo_fill(p->cr);
 }
@@ -512,13 +523,16 @@ void proof_sheet_lit(struct proof *p, bool checkerboard)
 				     ? "Lit preview: checkerboard over the "
 				       "matrix blocks"
 				     : "Lit preview: all pixels on");
-	note(p, "The glass as the viewer sees it (positive mode).");
+	note(p, negative(p) ? "The glass as the viewer sees it (negative "
+			      "mode, as the optics section says)."
+			    : "The glass as the viewer sees it (positive "
+			      "mode).");
 	const struct proof_view *v = &p->view;
 	proof_set_colour(p, glass_colour, 1.0);
 	proof_add_box(p, v, p->design->front.box);
 	proof_add_box(p, v, p->design->back.box);
 	cairo_fill(p->cr);
-	proof_set_colour(p, lcd_colour, 1.0);
+	proof_set_colour(p, lcd_colours[negative(p)], 1.0);
 	proof_add_box(p, v, p->design->viewing);
 	cairo_fill(p->cr);
 	proof_pixels(p, v, checkerboard);
