@@ -100,6 +100,7 @@ GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 	gp_buffer_init(&build->notes);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_digits_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
@@ -116,6 +117,7 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->summary);
 	gp_buffer_finish(&build->notes);
 	free(build->blocks);
+	gp_digit_rows_free(build->digit_rows, build->design->digit_count);
 	free(build);
 }
 

@@ -456,6 +456,18 @@ static bool polygon_of(const struct fig *f, int s, struct gp_point origin,
 
 /* --- public ----------------------------------------------------------------- */
 
+void gp_figure_frame(const struct gp_figure_spec *spec,
+		     struct gp_figure_frame *out)
+{
+	struct fig f;
+	setup(&f, spec);
+	*out = (struct gp_figure_frame){
+		.t = f.t, .sec = f.sec, .W = f.W, .H = f.H, .S = f.S, .G = f.G,
+		.sv = f.sv, .il = f.il, .ir = f.ir, .cc = f.cc, .mlo = f.mlo,
+		.mtop = f.mtop, .m = f.m, .mc = f.mc,
+	};
+}
+
 int64_t gp_figure_shear(const struct gp_figure_spec *spec, int64_t y)
 {
 	return (int64_t)llround((double)y * tan(spec->slant * PI / 180.0));

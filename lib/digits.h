@@ -83,6 +83,22 @@ bool gp_figure_check(const struct gp_figure_spec *spec, const char *what,
 bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
 		     struct gp_polygon *out, struct gp_diag *diag);
 
+/* The construction lines of a figure, in nm relative to its origin, in
+ * upright coordinates (u across, v up; the glass point is
+ * (u + v * t, v)), for laying out what goes around the segments. */
+struct gp_figure_frame {
+	double t, sec;            /* tan(slant), 1 / cos(slant) */
+	double W, H, S, G;
+	double sv;                /* upright stroke measured across (S sec) */
+	double il, ir;            /* sides of the centre upright */
+	double cc;                /* centre cut (g1|g2, a1|a2, d1|d2) */
+	double mlo, mtop, m;      /* middle bar and its centre */
+	double mc;                /* the cut between upper and lower halves */
+};
+
+void gp_figure_frame(const struct gp_figure_spec *spec,
+		     struct gp_figure_frame *frame);
+
 /* Horizontal offset (nm) of the slanted outline at height y above the
  * origin: y * tan(slant), rounded. */
 int64_t gp_figure_shear(const struct gp_figure_spec *spec, int64_t y);
@@ -163,22 +179,76 @@ struct gp_digit_part {
 	int segment_net;
 };
 
+/* A front trace of a unit: a lead-in from a part toward the ledge, or the
+ * bar joining the lead-ins of one segment line below the unit. */
+struct gp_digit_trace {
+	struct gp_polygon poly;
+	int part;                 /* part it starts from, -1 for a bar */
+	int line;                 /* segment line, 1-based, once assigned */
+	double u_end;             /* upright position where it ends, nm */
+};
+
+#define GP_UNIT_MAX_TRACES (2 * GP_UNIT_MAX_PARTS + 8)
+
 /* A unit: digit 1..count, or unit 0 for the minus and "1" (when any). */
 struct gp_digit_unit {
 	int number;               /* 0 for the sign unit, else the digit */
-	struct gp_point origin;
+	struct gp_point origin;   /* bottom-left of the upright outline */
 	struct gp_digit_part parts[GP_UNIT_MAX_PARTS];
 	int part_count;
+	struct gp_digit_trace traces[GP_UNIT_MAX_TRACES];
+	int trace_count;
+	/* parts in the order their lead-ins reach the lower edge, left to
+	 * right (a part with two lead-ins once) */
+	int order[GP_UNIT_MAX_PARTS];
 	int line_count;           /* segment lines of this unit */
+	int first_line_net;       /* net of line 1, once laid out */
 };
 
-void gp_digit_unit_finish(struct gp_digit_unit *unit);
+/* Where a segment line leaves a row toward the ledge (the lower edge, -y):
+ * the end of its lead-in, for the routing to continue from. */
+struct gp_digit_port {
+	int net;                  /* -1 until the layout makes the nets */
+	int unit, line;           /* unit index in the row, line 1-based */
+	struct gp_point at;       /* centre of the lead-in's end */
+	int64_t width;
+};
 
-/* Builds the parts of every unit of a row (geometry only, no assignment).
- * *units is allocated (free with gp_digit_units_free). */
-bool gp_digits_units(const struct gp_digits *row, int64_t chord_tolerance,
-		     struct gp_digit_unit **units, size_t *unit_count,
-		     struct gp_diag *diag);
-void gp_digit_units_free(struct gp_digit_unit *units, size_t count);
+/* What the layout made of one row: units with their parts and nets (the
+ * firmware map: parts[k].common_net / segment_net light parts[k]). */
+struct gp_digit_row {
+	struct gp_digit_unit *units;
+	size_t unit_count;
+	int first_common, common_count;   /* net indices */
+	int first_segment, segment_count;
+	struct gp_digit_port *ports;
+	size_t port_count;
+};
+
+/* Line width and spacing for the lead-ins, and the shift to survive. */
+struct gp_digit_rules {
+	int64_t line;             /* lead-in width */
+	int64_t space;            /* between different nets on a plate */
+	int64_t registration;
+	int64_t chord_tolerance;
+};
+
+/* Geometry, lead-ins and assignment of one row (no nets yet).  out is
+ * initialised here; free it with gp_digit_row_finish. */
+bool gp_digits_plan(const struct gp_digits *row,
+		    const struct gp_digit_rules *rules, struct gp_digit_row *out,
+		    struct gp_diag *diag);
+void gp_digit_row_finish(struct gp_digit_row *row);
+
+struct gp_build;
+/* Lays out every row of the design into the build (after the blocks):
+ * nets, electrodes, lead-ins, pixels, back patches; build->digit_rows
+ * keeps the units, the assignment and the ports. */
+bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag);
+void gp_digit_rows_free(struct gp_digit_row *rows, size_t count);
+
+/* The name of a unit for messages: "digit 3" or "the sign unit". */
+void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,
+			 size_t size);
 
 #endif

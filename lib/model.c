@@ -114,6 +114,8 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "digits", false)))
+		r.ok &= gp_digits_read(design, node, diag);
 	return gp_reader_end(&r);
 }
 
@@ -147,6 +149,7 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design)
 	if (!design)
 		return;
 	free(design->blocks);
+	gp_digits_free(design->digits, design->digit_count);
 	gp_spec_destroy(design->spec);
 	free(design);
 }

@@ -6,6 +6,7 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "digits.h"
 #include "geom.h"
 #include "spec.h"
 
@@ -67,6 +68,8 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_digits *digits;     /* rows of segment digits */
+	size_t digit_count;
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
