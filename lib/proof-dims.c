@@ -9,6 +9,7 @@
  * is given as a reference. */
 #include "proof-internal.h"
 
+#include "route.h"
 #include "units.h"
 
 #include <math.h>
@@ -257,6 +258,32 @@ static void digit_dims(const struct gp_design *d, struct dim_list *list)
 	}
 }
 
+/* The fill port's place and width along its side of the seal, as
+ * lib/seal.c lays it out (port_box there). */
+static void port_dims(const struct gp_design *d, struct dim_list *list)
+{
+	if (!d->routing || !d->routing->seal.given)
+		return;
+	const struct gp_seal_spec *s = &d->routing->seal;
+	struct gp_box in, out;
+	gp_seal_boxes(d, &in, &out);
+	bool across = s->port_side == GP_SIDE_BOTTOM ||
+		      s->port_side == GP_SIDE_TOP;
+	int64_t lo = across ? in.x0 : in.y0, hi = across ? in.x1 : in.y1;
+	int64_t c = s->port_position_given ? s->port_position : (lo + hi) / 2;
+	int64_t a = c - s->port_width / 2, b = a + s->port_width;
+	static const enum side sides[GP_SIDE_COUNT] = { BOTTOM, RIGHT, TOP,
+							LEFT };
+	enum side side = sides[s->port_side];
+	int64_t feature = s->port_side == GP_SIDE_BOTTOM ? out.y0
+			  : s->port_side == GP_SIDE_TOP  ? out.y1
+			  : s->port_side == GP_SIDE_LEFT ? out.x0
+							 : out.x1;
+	from_feature(value_dim(list, side, next_tier(list, side), a, b,
+			       "fill port ", 0, false),
+		     feature);
+}
+
 static void pad_dims(const struct gp_build *build, struct dim_list *list)
 {
 	struct pad_row rows[MAX_PAD_ROWS];
@@ -334,6 +361,7 @@ static void overview_dim_list(const struct gp_build *build,
 	block_dims(build->design, list);
 	digit_dims(build->design, list);
 	pad_dims(build, list);
+	port_dims(build->design, list);
 	plate_dims(build->design, list);
 }
 
