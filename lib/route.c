@@ -441,7 +441,7 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index)
 		enum gp_plate plate = r->build->art.nets[i].plate;
 		n->transfer = plate != l->plate;
 		n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-		int order[8];
+		int order[8] = { 0 };
 		for (int k = 0; k < n->cand_count; k++)
 			order[k] = k;
 		for (int k = 1; k < n->cand_count; k++)
@@ -1647,6 +1647,22 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	}
 	if (!ok)
 		goto out;
+	for (size_t i = 0; i < g->ledge_count; i++) {
+		const struct gp_ledge *l = &g->ledges[i];
+		size_t n = 0, used = 0;
+		for (size_t k = 0; k < build->pin_count; k++) {
+			n += build->pins[k].ledge == (int)i;
+			used += build->pins[k].ledge == (int)i &&
+				build->pins[k].net >= 0;
+		}
+		char pitch[32];
+		gp_buffer_printf(&build->notes,
+				 "ledge %s: %zu pads (%zu used) at %s mm on the "
+				 "%s of the %s plate\n",
+				 l->name, n, used, mm(pitch, l->pitch),
+				 gp_side_name(l->side),
+				 l->plate == GP_PLATE_FRONT ? "front" : "back");
+	}
 seal:
 	ok = gp_seal_layout(build, &r.s_in, &r.s_out, geos, diag);
 out:
