@@ -564,6 +564,16 @@ static struct gp_geos_shape *pair_region(struct checker *c, size_t first)
 			oom(c);
 			return NULL;
 		}
+		/* the further parts of an icon's region (its other letters) */
+		for (size_t k = 0; k < px->more.count; k++) {
+			if (!gp_polygon_copy(&poly, &px->more.items[k]) ||
+			    !gp_polyset_take(&set, &poly)) {
+				gp_polygon_finish(&poly);
+				gp_polyset_finish(&set);
+				oom(c);
+				return NULL;
+			}
+		}
 	}
 	struct gp_geos_shape *s = gp_geos_shape_from_polyset(c->geos, &set);
 	gp_polyset_finish(&set);
@@ -991,8 +1001,11 @@ static bool pixel_lit(struct checker *c, size_t p, enum lit_mode mode,
 
 static double pixel_nominal_mm2(const struct gp_pixel *px)
 {
-	return px->shape.outer.count >= 3 ? gp_polygon_area_mm2(&px->shape)
-					  : box_mm2(px->box);
+	/* an icon's further parts (its other letters) count too */
+	return px->shape.outer.count >= 3
+		       ? gp_polygon_area_mm2(&px->shape) +
+				 gp_polyset_area_mm2(&px->more)
+		       : box_mm2(px->box);
 }
 
 static bool check_registration(struct checker *c)
