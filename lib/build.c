@@ -116,10 +116,16 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	gp_buffer_init(&build->inputs);
 	gp_buffer_init(&build->written);
 	gp_buffer_init(&build->json);
+	gp_check_report_init(&build->checks);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
+		gp_build_destroy(build);
+		return NULL;
+	}
+	stage(build, "checks");
+	if (!gp_build_check(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
 	}
@@ -143,6 +149,7 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->inputs);
 	gp_buffer_finish(&build->written);
 	gp_buffer_finish(&build->json);
+	gp_check_report_finish(&build->checks);
 	free(build->blocks);
 	free(build);
 }

@@ -110,6 +110,16 @@ struct gp_check_limits {
 
 void gp_check_limits_default(struct gp_check_limits *limits);
 
+struct gp_design;
+struct gp_build;
+/* Limits from a design: its rules, plates, viewing area, 'electrical'
+ * section and drive (row time 1/(N f) when a frame rate is given). */
+void gp_check_limits_from_design(struct gp_check_limits *limits,
+				 const struct gp_design *design);
+/* The check stage of the pipeline: runs every check on build->art into
+ * build->checks and adds a summary line.  False only on failure. */
+bool gp_build_check(struct gp_build *build, struct gp_diag *diag);
+
 /* Vacuum permittivity, CODATA 2018 recommended value, F/m. */
 #define GP_EPSILON_0 8.8541878128e-12
 
