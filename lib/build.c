@@ -117,6 +117,8 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	gp_buffer_init(&build->written);
 	gp_buffer_init(&build->json);
 	gp_check_report_init(&build->checks);
+	gp_buffer_init(&build->check_text);
+	gp_buffer_init(&build->check_json);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
@@ -150,6 +152,8 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->written);
 	gp_buffer_finish(&build->json);
 	gp_check_report_finish(&build->checks);
+	gp_buffer_finish(&build->check_text);
+	gp_buffer_finish(&build->check_json);
 	free(build->blocks);
 	free(build);
 }
@@ -299,6 +303,7 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	gp_output_set_init(&set);
 	stage(build, "writing");
 	bool ok = add_gerbers(build, &set, diag) &&
+		  gp_build_add_check_reports(build, &set, diag) &&
 		  add_checksums(&set, diag) &&
 		  gp_output_commit(&set, folder, diag);
 	build->written.size = 0;

@@ -45,6 +45,7 @@ struct gp_build {
 	/* findings of the check stage (lib/check.h) */
 	struct gp_check_report checks;
 	bool checked;
+	struct gp_buffer check_text, check_json;
 	void (*progress)(const char *stage, void *data);
 	void *progress_data;
 };

@@ -4,6 +4,7 @@
 
 #include "build.h"
 #include "model.h"
+#include "output.h"
 
 #include <string.h>
 
@@ -104,4 +105,54 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 				 build->checks.errors, build->checks.warnings,
 				 build->checks.pixels_checked);
 	return ok;
+}
+
+GP_EXPORT size_t gp_build_check_errors(const struct gp_build *build)
+{
+	return build->checks.errors;
+}
+
+GP_EXPORT size_t gp_build_check_warnings(const struct gp_build *build)
+{
+	return build->checks.warnings;
+}
+
+GP_EXPORT const char *gp_build_check_text(struct gp_build *build)
+{
+	build->check_text.size = 0;
+	gp_check_format_text(&build->checks, &build->art, build->design->part,
+			     build->design->revision, &build->check_text);
+	return build->check_text.data ? build->check_text.data : "";
+}
+
+GP_EXPORT const char *gp_build_check_json(struct gp_build *build)
+{
+	build->check_json.size = 0;
+	gp_check_format_json(&build->checks, &build->art, build->design->part,
+			     build->design->revision, &build->check_json);
+	return build->check_json.data ? build->check_json.data : "{}\n";
+}
+
+GP_EXPORT int gp_build_check_status(const struct gp_build *build, bool strict)
+{
+	return gp_check_exit_status(&build->checks, strict);
+}
+
+bool gp_build_add_check_reports(struct gp_build *build,
+				struct gp_output_set *set, struct gp_diag *diag)
+{
+	if (!gp_build_wants(build, GP_OUTPUT_REPORT) || !build->checked)
+		return true;
+	struct gp_buffer *text = gp_output_add(set, "report.txt", diag);
+	if (!text)
+		return false;
+	gp_check_format_text(&build->checks, &build->art, build->design->part,
+			     build->design->revision, text);
+	struct gp_buffer *json = gp_output_add(set, "report.json", diag);
+	if (!json)
+		return false;
+	gp_check_format_json(&build->checks, &build->art, build->design->part,
+			     build->design->revision, json);
+	return (!text->failed && !json->failed) ||
+	       gp_diag_error(diag, NULL, "out of memory");
 }

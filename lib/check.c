@@ -1508,6 +1508,7 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 		  struct gp_check_report *report, struct gp_diag *diag)
 {
 	struct checker c;
+	report->limits = *limits;
 	report->nets = calloc(art->net_count ? art->net_count : 1,
 			      sizeof(*report->nets));
 	report->net_count = art->net_count;
