@@ -15,35 +15,9 @@
 #include <string.h>
 #include <time.h>
 
-/* Width of the line that draws a cut outline: a drawing convention of
- * ours; the cut is along the line's centre. */
-#define OUTLINE_LINE_WIDTH (100 * 1000)
-
 GP_EXPORT const char *gp_version(void)
 {
 	return GP_VERSION;
-}
-
-static bool add_outline(struct gp_build *build, enum gp_layer layer,
-			struct gp_box box)
-{
-	struct gp_shape *shape = gp_artwork_add_box(&build->art, layer,
-						    GP_ROLE_OUTLINE,
-						    GP_NET_NONE, box);
-	if (!shape)
-		return false;
-	shape->line_width = OUTLINE_LINE_WIDTH;
-	return true;
-}
-
-bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag)
-{
-	if (!add_outline(build, GP_LAYER_FRONT_OUTLINE,
-			 build->design->front.box) ||
-	    !add_outline(build, GP_LAYER_BACK_OUTLINE,
-			 build->design->back.box))
-		return gp_diag_error(diag, NULL, "out of memory");
-	return true;
 }
 
 static void count_nets(const struct gp_artwork *art, size_t *commons,
@@ -122,6 +96,8 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_icons_layout(build, diag) ||
+	    !gp_route_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
@@ -155,6 +131,8 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->check_text);
 	gp_buffer_finish(&build->check_json);
 	free(build->blocks);
+	free(build->ends);
+	free(build->pins);
 	free(build);
 }
 
@@ -303,6 +281,7 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	gp_output_set_init(&set);
 	stage(build, "writing");
 	bool ok = add_gerbers(build, &set, diag) &&
+		  gp_route_write(build, &set, diag) &&
 		  gp_build_add_check_reports(build, &set, diag) &&
 		  add_checksums(&set, diag) &&
 		  gp_output_commit(&set, folder, diag);

@@ -8,6 +8,7 @@
 #include "check.h"
 #include "diag.h"
 #include "model.h"
+#include "route.h"
 
 struct gp_block_nets {
 	int first_common;         /* net index of the block's first common */
@@ -33,6 +34,12 @@ struct gp_build {
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;
+	/* Lead ends offered by layout stages (gp_build_add_lead_end). */
+	struct gp_lead_end *ends;
+	size_t end_count, end_capacity;
+	/* Pads made by routing, in ledge order. */
+	struct gp_pin *pins;
+	size_t pin_count;
 	/* Files read besides the description (fonts...), one per line, for
 	 * dependency files. */
 	struct gp_buffer inputs;
@@ -64,6 +71,10 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
 /* Net index of a block's common for dot row `row` (0-based over the whole
  * block, line by line), or -1 if out of range. */
 int gp_block_common_net(const struct gp_build *build, size_t block, long row);
+
+/* Lays out every icon: nets, front electrodes and bridges, back patches
+ * and bridges, pixels, summary lines (icon-layout.c). */
+bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag);
 
 /* Cut outlines of both plates. */
 bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag);

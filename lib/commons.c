@@ -18,5 +18,6 @@ int gp_design_common_count(const struct gp_design *design)
 		if (total > INT_MAX)
 			return INT_MAX;
 	}
-	return (int)total;
+	total += gp_icons_common_count(design);
+	return total > INT_MAX ? INT_MAX : (int)total;
 }
