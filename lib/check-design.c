@@ -5,6 +5,7 @@
 #include "build.h"
 #include "model.h"
 #include "output.h"
+#include "route.h"
 
 #include <string.h>
 
@@ -71,6 +72,10 @@ void gp_check_limits_from_design(struct gp_check_limits *l,
 	l->plate[GP_PLATE_FRONT] = d->front.box;
 	l->plate[GP_PLATE_BACK] = d->back.box;
 	l->viewing = d->viewing;
+	if (d->routing && d->routing->seal.given) {
+		struct gp_box outer;
+		gp_seal_boxes(d, &l->seal_inside, &outer);
+	}
 	const struct gp_electrical *e = &d->electrical;
 	l->sheet_resistance[0] = e->sheet_resistance[0];
 	l->sheet_resistance[1] = e->sheet_resistance[1];
@@ -78,6 +83,12 @@ void gp_check_limits_from_design(struct gp_check_limits *l,
 	l->permittivity = e->permittivity;
 	l->max_resistance = e->max_lead_resistance;
 	l->conductor_pitch = e->conductor_pitch;
+	/* else the conductor pitch of the first elastomeric ledge */
+	for (size_t i = 0; d->routing && !l->conductor_pitch &&
+			   i < d->routing->ledge_count;
+	     i++)
+		if (d->routing->ledges[i].connection == GP_LEDGE_ELASTOMERIC)
+			l->conductor_pitch = d->routing->ledges[i].connector_pitch;
 	/* row time 1/(N f): N from the duty given, else the commons */
 	long commons = d->drive.duty.given ? (long)d->drive.duty.value
 					   : gp_design_common_count(d);

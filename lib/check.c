@@ -92,6 +92,7 @@ void gp_check_limits_default(struct gp_check_limits *l)
 	l->rc_error = 3;
 	l->spread_warning = 2;
 	l->plate[0] = l->plate[1] = l->viewing = gp_box_none();
+	l->seal_inside = gp_box_none();
 	l->min_conductors = 2;
 }
 
@@ -523,7 +524,12 @@ static bool find_inside(struct checker *c)
 	}
 	gp_polyset_finish(&holes);
 	c->inside_is_box = true;
-	if (!gp_box_is_empty(c->lim->viewing)) {
+	if (c->has_seal && !gp_box_is_empty(c->lim->seal_inside)) {
+		c->inside_box = c->lim->seal_inside;
+		gp_buffer_puts(&c->rep->notes,
+			       "parasitic overlaps: inside the seal's inner "
+			       "edge\n");
+	} else if (!gp_box_is_empty(c->lim->viewing)) {
 		c->inside_box = c->lim->viewing;
 		gp_buffer_puts(&c->rep->notes,
 			       c->has_seal
@@ -1202,7 +1208,11 @@ static void check_connector(struct checker *c)
 		const struct gp_shape *s = &c->art->shapes[it->shape];
 		if (s->role != GP_ROLE_PAD)
 			continue;
-		int64_t w = gp_box_width(it->box);
+		/* the pad's width is its narrow side; the gap is measured
+		 * along the row, which runs along its width */
+		int64_t w = gp_box_width(it->box), h = gp_box_height(it->box);
+		if (h < w)
+			w = h;
 		if (w < need) {
 			struct gp_finding f = finding(
 				GP_CHECK_CONNECTOR, GP_SEVERITY_ERROR, s->net,
@@ -1211,18 +1221,27 @@ static void check_connector(struct checker *c)
 			f.shape = (int)it->shape;
 			add_finding(c, &f);
 		}
+		int64_t gap = -1;
+		struct gp_point mid = box_centre(it->box);
 		if (prev && prev->box.y0 < it->box.y1 &&
-		    it->box.y0 < prev->box.y1 && prev->box.x1 <= it->box.x0 &&
-		    it->box.x0 - prev->box.x1 < need) {
-			struct gp_point mid = {
-				prev->box.x1 + (it->box.x0 - prev->box.x1) / 2,
-				box_centre(it->box).y
-			};
+		    it->box.y0 < prev->box.y1) {
+			bool right = prev->box.x1 <= it->box.x0;
+			gap = right ? it->box.x0 - prev->box.x1
+				    : prev->box.x0 - it->box.x1;
+			mid.x = right ? prev->box.x1 + gap / 2
+				      : it->box.x1 + gap / 2;
+		} else if (prev && prev->box.x0 < it->box.x1 &&
+			   it->box.x0 < prev->box.x1) {
+			bool up = prev->box.y1 <= it->box.y0;
+			gap = up ? it->box.y0 - prev->box.y1
+				 : prev->box.y0 - it->box.y1;
+			mid.y = up ? prev->box.y1 + gap / 2 : it->box.y1 + gap / 2;
+		}
+		if (gap >= 0 && gap < need) {
 			struct gp_finding f = finding(
 				GP_CHECK_CONNECTOR, GP_SEVERITY_ERROR,
 				c->art->shapes[prev->shape].net, s->net, mid,
-				gp_mm(it->box.x0 - prev->box.x1), gp_mm(need),
-				GP_UNIT_MM);
+				gp_mm(gap), gp_mm(need), GP_UNIT_MM);
 			add_finding(c, &f);
 		}
 		prev = it;
@@ -1335,17 +1354,37 @@ static void check_seal(struct checker *c)
 		}
 		gp_geos_shape_destroy(c->geos, sg);
 	}
-	if (c->inside && !gp_box_is_empty(c->lim->viewing)) {
-		struct gp_geos_shape *v =
-			gp_geos_shape_from_box(c->geos, c->lim->viewing);
-		if (v && !gp_geos_shape_covers(c->geos, c->inside, v)) {
-			struct gp_finding f = finding(
-				GP_CHECK_SEAL, GP_SEVERITY_ERROR, GP_NET_NONE,
-				GP_NET_NONE, box_centre(c->lim->viewing), 0, 0,
-				GP_UNIT_MM2);
-			add_finding(c, &f);
-		}
-		gp_geos_shape_destroy(c->geos, v);
+	struct gp_box v = c->lim->viewing;
+	bool view_inside = true;
+	if (c->inside && !gp_box_is_empty(v)) {
+		struct gp_geos_shape *vs = gp_geos_shape_from_box(c->geos, v);
+		view_inside = !vs || gp_geos_shape_covers(c->geos, c->inside, vs);
+		gp_geos_shape_destroy(c->geos, vs);
+	} else if (c->inside_is_box && !gp_box_is_empty(v) &&
+		   !gp_box_is_empty(c->lim->seal_inside)) {
+		view_inside = box_inside(v, c->inside_box);
+	}
+	if (!view_inside) {
+		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
+					      GP_NET_NONE, GP_NET_NONE,
+					      box_centre(v), 0, 0,
+					      GP_UNIT_MM2);
+		add_finding(c, &f);
+	}
+	/* pads belong on the ledge, outside the seal */
+	for (size_t k = 0; k < c->item_count; k++) {
+		const struct item *it = &c->items[k];
+		const struct gp_shape *s = &c->art->shapes[it->shape];
+		struct gp_box m = box_meet(it->box, c->inside_box);
+		if (s->role != GP_ROLE_PAD || !box_has_area(m))
+			continue;
+		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
+					      s->net, GP_NET_NONE,
+					      box_centre(m), box_mm2(m), 0,
+					      GP_UNIT_MM2);
+		f.shape = (int)it->shape;
+		f.detail = 1;
+		add_finding(c, &f);
 	}
 }
 
@@ -1430,11 +1469,16 @@ static void describe(const struct gp_artwork *art, struct gp_finding *f)
 			 a, b, f->value);
 		break;
 	case GP_CHECK_SEAL:
-		snprintf(f->text, sizeof(f->text),
-			 f->nets[0] >= 0 ? "%s lies under the seal (%.6f mm2)"
-					 : "the viewing area is not inside the "
-					   "seal%s",
-			 f->nets[0] >= 0 ? a : "", f->value);
+		if (f->nets[0] < 0)
+			snprintf(f->text, sizeof(f->text),
+				 "the viewing area is not inside the seal");
+		else
+			snprintf(f->text, sizeof(f->text),
+				 f->detail == 1 ? "the pad of %s lies inside "
+						  "the seal (%.6f mm2)"
+						: "%s lies under the seal "
+						  "(%.6f mm2)",
+				 a, f->value);
 		break;
 	case GP_CHECK_RULE_COUNT:
 		break;

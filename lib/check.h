@@ -103,6 +103,9 @@ struct gp_check_limits {
 	/* places; a box with x0 > x1 is absent */
 	struct gp_box plate[2];   /* by enum gp_plate */
 	struct gp_box viewing;
+	/* inside edge of the seal when the design knows it (the seal band
+	 * drawn with a fill port has no closed inner ring) */
+	struct gp_box seal_inside;
 	/* connector: pads checked when pad_pitch > 0 */
 	int64_t conductor_pitch;  /* elastomeric strip, 0 = none */
 	int64_t min_conductors;   /* per pad and per gap */
