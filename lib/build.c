@@ -3,6 +3,7 @@
 
 #include "gerber.h"
 #include "output.h"
+#include "proof.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -253,6 +254,15 @@ static bool add_gerbers(const struct gp_build *build,
 	return true;
 }
 
+static bool add_proof(const struct gp_build *build,
+		      struct gp_output_set *set, struct gp_diag *diag)
+{
+	if (!gp_build_wants(build, GP_OUTPUT_PROOF))
+		return true;
+	struct gp_buffer *out = gp_output_add(set, "proof.pdf", diag);
+	return out && gp_proof_write(out, build, diag);
+}
+
 /* checksums.sha256 in the form "sha256sum -c" reads: hash, two spaces,
  * name.  Written last, over every other output. */
 static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
@@ -281,6 +291,7 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	gp_output_set_init(&set);
 	stage(build, "writing");
 	bool ok = add_gerbers(build, &set, diag) &&
+		  add_proof(build, &set, diag) &&
 		  gp_route_write(build, &set, diag) &&
 		  gp_build_add_check_reports(build, &set, diag) &&
 		  add_checksums(&set, diag) &&

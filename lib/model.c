@@ -119,6 +119,8 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "proof", false)))
+		r.ok &= gp_proof_read(design, node, diag);
 	if ((node = gp_read_node(&r, "icons", false)))
 		r.ok &= gp_icons_read(design, node, diag);
 	if ((node = gp_read_node(&r, "drive", false)))

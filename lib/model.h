@@ -27,7 +27,7 @@ struct gp_rules {
 	struct gp_where where;
 };
 
-/* Section 'electrical' (read by lib/check-read.c): what the electrical
+/* Section 'electrical' (read by lib/check-design.c): what the electrical
  * checks need.  Defaults in lib/check.c (gp_check_limits_default). */
 struct gp_electrical {
 	bool given;
@@ -37,6 +37,18 @@ struct gp_electrical {
 	double permittivity;        /* relative, of the fluid */
 	double max_lead_resistance; /* ohm; 0 = no limit */
 	int64_t conductor_pitch;    /* elastomeric connector, nm; 0 = none */
+};
+
+/* How the PDF proof is drawn (section 'proof', lib/proof.c).  Zero means
+ * "not given": the proof then uses its defaults. */
+struct gp_proof_spec {
+	int paper;                /* 0 = chosen to fit, else table index + 1 */
+	int series;               /* for a chosen paper: 0 ISO A, 1 US */
+	int orientation;          /* 0 = either, 1 portrait, 2 landscape */
+	int64_t span_tolerance;   /* on pattern spans (first to last cell) */
+	int64_t outline_tolerance;/* on plate sizes (cutting) */
+	const char *revision_date;/* as written, or NULL */
+	struct gp_where where;
 };
 
 struct gp_plate_spec {
@@ -131,6 +143,7 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_proof_spec proof;
 	struct gp_routing *routing;   /* routing sections, NULL if none */
 	struct gp_icon *icons;
 	size_t icon_count;
@@ -151,6 +164,8 @@ int gp_design_common_count(const struct gp_design *design);
 bool gp_electrical_read(struct gp_design *design, const struct gp_node *node,
 			struct gp_diag *diag);
 void gp_electrical_defaults(struct gp_electrical *electrical);
+bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
+		   struct gp_diag *diag);
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag);
 /* Reads the 'icons' section (after 'blocks' and 'rules'). */
