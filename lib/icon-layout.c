@@ -10,6 +10,7 @@
 #include "patch.h"
 #include "units.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -462,6 +463,15 @@ static bool drop_floating(struct layout *l, const struct gp_polyset *front,
 	return ok;
 }
 
+/* How far a plate can move under the registration tolerance, which holds
+ * in x and in y at once: the diagonal of the tolerance box, so that a
+ * front trace stays off every patch (and a back bridge off the front)
+ * under any shift the glass maker may make. */
+static int64_t shift_reach(const struct gp_rules *r)
+{
+	return (int64_t)ceil((double)r->registration * sqrt(2.0));
+}
+
 static bool make_patches(struct layout *l)
 {
 	const struct gp_rules *r = &l->design->rules;
@@ -484,9 +494,7 @@ static bool make_patches(struct layout *l)
 	struct gp_patch_rules rules = {
 		.margin = r->registration,
 		.min_space = r->min_space,
-		/* a front trace stays off the patch under any shift up to the
-		 * registration margin */
-		.clearance = r->registration,
+		.clearance = shift_reach(r),
 		.chord_tolerance = r->chord_tolerance,
 	};
 	ok = ok && gp_patch_make(l->geos, groups, l->group_count, traces.items,
@@ -502,14 +510,17 @@ static bool make_patches(struct layout *l)
 	return ok || oom(l);
 }
 
-/* The front plate's ITO as one shape, and the other groups' patches. */
-static struct gp_geos_shape *all_front(struct layout *l)
+/* The front plate's ITO but icon i's own electrode: what a back bridge of
+ * icon i must stay off under any shift.  (Back ITO over its own electrode
+ * changes nothing: the patch covers that under every shift already.) */
+static struct gp_geos_shape *front_except(struct layout *l, size_t self)
 {
 	struct gp_polyset all;
 	gp_polyset_init(&all);
 	bool ok = front_traces(l, &all);
 	for (size_t i = 0; ok && i < l->design->icon_count; i++)
-		ok = copy_into(&all, &l->icons[i].front);
+		if (i != self)
+			ok = copy_into(&all, &l->icons[i].front);
 	struct gp_geos_shape *s =
 		ok ? gp_geos_shape_from_polyset(l->geos, &all) : NULL;
 	gp_polyset_finish(&all);
@@ -552,8 +563,7 @@ static bool patch_pieces(struct layout *l, size_t i, struct gp_polyset *out)
 	return ok;
 }
 
-static bool back_bridges(struct layout *l, struct gp_geos_shape *front,
-			 size_t i)
+static bool back_bridges(struct layout *l, size_t i)
 {
 	struct gp_polyset pieces;
 	gp_polyset_init(&pieces);
@@ -564,16 +574,20 @@ static bool back_bridges(struct layout *l, struct gp_geos_shape *front,
 	}
 	const struct gp_rules *r = &l->design->rules;
 	struct gp_keepout keep[2] = {
-		{ front, r->registration },
+		{ front_except(l, i), shift_reach(r) },
 		{ other_patches(l, l->icons[i].group), r->min_space },
 	};
-	size_t missing = 0;
+	size_t missing = 0, n = 0;
 	struct gp_point at = { 0, 0 };
-	ok = keep[1].shape &&
-	     gp_bridges_join(l->geos, &pieces, r->min_line, keep,
-			     gp_geos_shape_is_empty(l->geos, keep[1].shape)
-				     ? 1 : 2,
+	struct gp_keepout used[2];
+	for (int k = 0; k < 2; k++)
+		if (keep[k].shape &&
+		    !gp_geos_shape_is_empty(l->geos, keep[k].shape))
+			used[n++] = keep[k];
+	ok = keep[0].shape && keep[1].shape &&
+	     gp_bridges_join(l->geos, &pieces, r->min_line, used, n,
 			     &l->icons[i].back_bridges, &missing, &at);
+	gp_geos_shape_destroy(l->geos, keep[0].shape);
 	gp_geos_shape_destroy(l->geos, keep[1].shape);
 	gp_polyset_finish(&pieces);
 	if (ok && missing)
@@ -707,12 +721,8 @@ static bool make_all_bridges(struct layout *l)
 		ok &= front_bridges(l, i);
 	if (!ok || !make_patches(l))
 		return false;
-	struct gp_geos_shape *front = all_front(l);
-	if (!front)
-		return oom(l);
 	for (size_t i = 0; i < l->design->icon_count; i++)
-		ok &= back_bridges(l, front, i);
-	gp_geos_shape_destroy(l->geos, front);
+		ok &= back_bridges(l, i);
 	return ok;
 }
 
