@@ -12,7 +12,7 @@
 #define DEFAULT_REGISTRATION (100 * 1000)     /* 0.100 mm */
 #define DEFAULT_EDGE_CLEARANCE (500 * 1000)   /* 0.500 mm */
 #define DEFAULT_CHORD_TOLERANCE (1000)        /* 0.001 mm */
-#define DEFAULT_REGISTRATION_LOSS 0.01        /* our own choice: 1% */
+#define DEFAULT_REGISTRATION_LOSS 0.05        /* our own choice: 5% */
 
 static bool read_glass(struct gp_design *design, const struct gp_node *node,
 		       struct gp_diag *diag)
