@@ -97,6 +97,7 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_digits_layout(build, diag) ||
 	    !gp_icons_layout(build, diag) ||
 	    !gp_route_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
@@ -132,6 +133,7 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->check_text);
 	gp_buffer_finish(&build->check_json);
 	free(build->blocks);
+	gp_digit_rows_free(build->digit_rows, build->design->digit_count);
 	free(build->ends);
 	free(build->pins);
 	free(build);

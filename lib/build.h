@@ -31,6 +31,8 @@ struct gp_build {
 	const struct gp_design *design;
 	struct gp_artwork art;
 	struct gp_block_nets *blocks;   /* one per design block */
+	struct gp_digit_row *digit_rows; /* one per design digit row */
+	size_t digit_row_count;         /* rows laid out */
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;

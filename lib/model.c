@@ -119,6 +119,8 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "digits", false)))
+		r.ok &= gp_digits_read(design, node, diag);
 	if ((node = gp_read_node(&r, "proof", false)))
 		r.ok &= gp_proof_read(design, node, diag);
 	if ((node = gp_read_node(&r, "icons", false)))
@@ -164,6 +166,7 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design)
 	if (!design)
 		return;
 	free(design->blocks);
+	gp_digits_free(design->digits, design->digit_count);
 	gp_routing_destroy(design->routing);
 	gp_icons_free(design);
 	gp_spec_destroy(design->spec);

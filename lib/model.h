@@ -6,6 +6,7 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "digits.h"
 #include "drive.h"
 #include "font.h"
 #include "geom.h"
@@ -143,6 +144,8 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_digits *digits;     /* rows of segment digits */
+	size_t digit_count;
 	struct gp_proof_spec proof;
 	struct gp_routing *routing;   /* routing sections, NULL if none */
 	struct gp_icon *icons;
