@@ -760,6 +760,11 @@ static double box_distance(struct gp_box a, struct gp_box b,
 	return hypot((double)dx, (double)dy);
 }
 
+/* Coordinates are snapped to 1 nm: a slanted edge drawn exactly at a
+ * limit may come out up to a nanometre short of it.  Measures within
+ * this of their limit pass. */
+#define SNAP_SLACK 1.0
+
 static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 {
 	int na = c->art->shapes[a->shape].net, nb = c->art->shapes[b->shape].net;
@@ -776,7 +781,7 @@ static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 			c->failed = true;
 			return;
 		}
-		if (d >= (double)c->lim->min_space)
+		if (d >= (double)c->lim->min_space - SNAP_SLACK)
 			return;
 		if (!gp_geos_shape_nearest(c->geos, ga, gb, &pa, &pb)) {
 			c->failed = true;
@@ -784,7 +789,7 @@ static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 		}
 		mid = (struct gp_point){ (pa.x + pb.x) / 2, (pa.y + pb.y) / 2 };
 	}
-	if (d >= (double)c->lim->min_space)
+	if (d >= (double)c->lim->min_space - SNAP_SLACK)
 		return;
 	int lo = na < nb ? na : nb, hi = na < nb ? nb : na;
 	struct gp_finding f = finding(GP_CHECK_SPACING, GP_SEVERITY_ERROR, lo,
@@ -867,7 +872,8 @@ static void thin_finding(struct checker *c, const struct item *it,
  * than the minimum line. */
 static void line_width_shape(struct checker *c, struct item *it)
 {
-	int64_t half = c->lim->min_line / 2;
+	/* a stroke within a nanometre or two of the limit (snapping) passes */
+	int64_t half = c->lim->min_line / 2 - (int64_t)SNAP_SLACK;
 	struct gp_geos_shape *g = item_shape(c, it);
 	struct gp_geos_shape *eroded =
 		g ? gp_geos_shape_offset(c->geos, g, -half, GP_JOIN_MITRE,
@@ -895,7 +901,7 @@ static void line_width_shape(struct checker *c, struct item *it)
 			if (area / 1e12 < floor_mm2)
 				continue;
 			double w = strip_width(area, polygon_perimeter(p));
-			if (w < (double)c->lim->min_line)
+			if (w < (double)c->lim->min_line - 2 * SNAP_SLACK)
 				thin_finding(c, it, w,
 					     box_centre(gp_polygon_bounds(p)));
 		}
