@@ -1032,6 +1032,7 @@ static bool pixel_lit(struct checker *c, size_t p, enum lit_mode mode,
 
 static double pixel_nominal_mm2(const struct gp_pixel *px)
 {
+	/* an icon's further parts (its other letters) count too */
 	if (px->shape.outer.count < 3)
 		return box_mm2(px->box);
 	return gp_polygon_area_mm2(&px->shape) + gp_polyset_area_mm2(&px->more);
