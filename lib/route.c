@@ -101,10 +101,10 @@ struct cand {
 
 struct netstate {
 	int ledge;                /* -1: not routed */
-	struct cand cands[8];
+	struct cand cands[16];
 	int cand_count;
 	int chosen;
-	int order[8];             /* free candidates, best first */
+	int order[16];            /* free candidates, best first */
 	int usable, pick;
 	int first_hit;            /* what blocked the best one */
 	bool first_hit_plate;
@@ -260,7 +260,7 @@ static bool is_block_net(const struct gp_build *b, int net, bool *common,
 static void add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
-	if (n->cand_count < 8)
+	if (n->cand_count < 16)
 		n->cands[n->cand_count++] = (struct cand){ side, at, width };
 }
 
@@ -286,14 +286,43 @@ static void block_cands(struct route *r, int net, struct netstate *n)
 	}
 }
 
-/* Any other electrode: leave from its outermost point on each side,
- * starting a little inside it so that lead and electrode share area. */
+/* Any other electrode: leave from its outermost point on each side, or
+ * from the outermost point of its first or last third along that side
+ * (so that an icon's front electrode and its back patch, whose outermost
+ * points line up, can leave side by side); each starts a little inside
+ * the electrode so that lead and electrode share area. */
+struct extreme {
+	struct gp_point p;
+	bool found;
+};
+
+static void consider(struct extreme *e, struct gp_point p, enum gp_side side)
+{
+	bool better = !e->found;
+	switch (side) {
+	case GP_SIDE_BOTTOM: better |= p.y < e->p.y; break;
+	case GP_SIDE_TOP: better |= p.y > e->p.y; break;
+	case GP_SIDE_LEFT: better |= p.x < e->p.x; break;
+	default: better |= p.x > e->p.x; break;
+	}
+	if (better)
+		e->p = p, e->found = true;
+}
+
 static void shape_cands(struct route *r, int net, struct netstate *n)
 {
 	const struct gp_artwork *art = &r->build->art;
 	enum gp_layer layer = gp_plate_ito_layer(art->nets[net].plate);
-	struct gp_point best[GP_SIDE_COUNT];
-	bool found = false;
+	struct gp_box b = gp_box_none();
+	for (size_t i = 0; i < art->shape_count; i++)
+		if (art->shapes[i].net == net && art->shapes[i].layer == layer)
+			b = gp_box_union(b, gp_polygon_bounds(&art->shapes[i].poly));
+	if (gp_box_is_empty(b))
+		return;
+	/* [side][0 whole, 1 first third, 2 last third] */
+	struct extreme e[GP_SIDE_COUNT][3];
+	memset(e, 0, sizeof(e));
+	int64_t w3 = (b.x1 - b.x0) / 3, h3 = (b.y1 - b.y0) / 3;
 	for (size_t i = 0; i < art->shape_count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
 		if (s->net != net || s->layer != layer)
@@ -301,37 +330,36 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 		const struct gp_ring *o = &s->poly.outer;
 		for (size_t k = 0; k < o->count; k++) {
 			struct gp_point p = o->points[k];
-			if (!found) {
-				for (int d = 0; d < GP_SIDE_COUNT; d++)
-					best[d] = p;
-				found = true;
+			for (int d = 0; d < GP_SIDE_COUNT; d++) {
+				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
+				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
+				int64_t third = across ? w3 : h3;
+				consider(&e[d][0], p, (enum gp_side)d);
+				if (at <= third)
+					consider(&e[d][1], p, (enum gp_side)d);
+				if (at >= 2 * third)
+					consider(&e[d][2], p, (enum gp_side)d);
 			}
-			if (p.y < best[GP_SIDE_BOTTOM].y) best[GP_SIDE_BOTTOM] = p;
-			if (p.y > best[GP_SIDE_TOP].y) best[GP_SIDE_TOP] = p;
-			if (p.x < best[GP_SIDE_LEFT].x) best[GP_SIDE_LEFT] = p;
-			if (p.x > best[GP_SIDE_RIGHT].x) best[GP_SIDE_RIGHT] = p;
 		}
 	}
-	if (!found)
-		return;
-	struct gp_box b = n->centre;
-	if (gp_box_is_empty(b))
-		b = gp_box_make(best[GP_SIDE_LEFT].x, best[GP_SIDE_BOTTOM].y,
-				best[GP_SIDE_RIGHT].x, best[GP_SIDE_TOP].y);
 	int64_t w = r->g->leads.width;
 	int64_t depth = min64(w, r->design->rules.registration / 2);
 	depth = min64(depth, min64(b.x1 - b.x0, b.y1 - b.y0) / 4);
 	static const enum gp_side order[] = { GP_SIDE_BOTTOM, GP_SIDE_LEFT,
 					      GP_SIDE_RIGHT, GP_SIDE_TOP };
 	for (int k = 0; k < 4; k++) {
-		struct gp_point p = best[order[k]];
-		switch (order[k]) {
-		case GP_SIDE_BOTTOM: p.y += depth; break;
-		case GP_SIDE_TOP: p.y -= depth; break;
-		case GP_SIDE_LEFT: p.x += depth; break;
-		default: p.x -= depth; break;
+		for (int t = 0; t < 3; t++) {
+			if (!e[order[k]][t].found)
+				continue;
+			struct gp_point p = e[order[k]][t].p;
+			switch (order[k]) {
+			case GP_SIDE_BOTTOM: p.y += depth; break;
+			case GP_SIDE_TOP: p.y -= depth; break;
+			case GP_SIDE_LEFT: p.x += depth; break;
+			default: p.x -= depth; break;
+			}
+			add_cand(n, order[k], p, w);
 		}
-		add_cand(n, order[k], p, w);
 	}
 }
 
@@ -536,7 +564,7 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 	enum gp_plate plate = r->build->art.nets[net].plate;
 	n->transfer = plate != l->plate;
 	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-	int order[8] = { 0 };
+	int order[16] = { 0 };
 	for (int k = 0; k < n->cand_count; k++)
 		order[k] = k;
 	for (int k = 1; k < n->cand_count; k++)
@@ -698,15 +726,18 @@ static int pick_mover(const struct route *r, int a, int b)
 	const struct netstate *na = &r->nets[a], *nb = &r->nets[b];
 	int ra = cand_rank(r, na, &na->cands[na->chosen]);
 	int rb = cand_rank(r, nb, &nb->cands[nb->chosen]);
-	bool can_a = na->pick + 1 < na->usable, can_b = nb->pick + 1 < nb->usable;
-	if (can_b && rb >= ra)
-		return b;
-	if (can_a && ra >= rb)
+	int left_a = na->usable - na->pick - 1, left_b = nb->usable - nb->pick - 1;
+	if (ra == rb && left_a > 0 && left_a > left_b)
 		return a;
-	/* moving the one with the better way would trade it for worse */
-	if (can_b && rb > 0)
+	if (left_b > 0 && rb >= ra)
 		return b;
-	if (can_a && ra > 0)
+	if (left_a > 0 && ra >= rb)
+		return a;
+	/* moving the one with the better way would trade it for worse,
+	 * unless that way is not towards the ledge either */
+	if (left_b > 0 && rb > 0)
+		return b;
+	if (left_a > 0 && ra > 0)
 		return a;
 	return -1;
 }
