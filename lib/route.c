@@ -363,6 +363,17 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 	}
 }
 
+static bool has_port(const struct route *r, int net)
+{
+	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+		const struct gp_digit_row *row = &r->build->digit_rows[i];
+		for (size_t k = 0; k < row->port_count; k++)
+			if (row->ports[k].net == net)
+				return true;
+	}
+	return false;
+}
+
 static bool collect_cands(struct route *r)
 {
 	const struct gp_artwork *art = &r->build->art;
@@ -393,9 +404,15 @@ static bool collect_cands(struct route *r)
 	for (size_t i = 0; i < r->net_count; i++)
 		if (r->nets[i].cand_count == 0)
 			block_cands(r, (int)i, &r->nets[i]);
-	for (size_t i = 0; i < r->net_count; i++)
-		if (r->nets[i].cand_count == 0)
+	/* every other net may also leave from its outer points (after the
+	 * ends its layout offered) */
+	for (size_t i = 0; i < r->net_count; i++) {
+		bool common = false;
+		int row, rows;
+		if (!is_block_net(r->build, (int)i, &common, &row, &rows) &&
+		    !has_port(r, (int)i))
 			shape_cands(r, (int)i, &r->nets[i]);
+	}
 	return true;
 }
 
