@@ -430,11 +430,18 @@ static void bottom_corner(struct plan *p, const char *outer, const char *inner,
 	struct pt mo = two ? edge_middle(p, &p->unit->parts[io].poly[0], false)
 			   : (struct pt){ 0, 0 };
 	if (p->row->figure.ends == GP_ENDS_SQUARE) {
-		enum route_kind k = right ? ROUTE_RIGHT : ROUTE_LEFT;
+		/* out along the channel over the bottom bar; on the right it
+		 * turns down at once, inside the point beside the digit */
+		enum route_kind k = right ? ROUTE_DOWN : ROUTE_LEFT;
 		struct route *ri = add_route(p, inner, 0, k);
 		struct pt mi = edge_middle(p, &p->unit->parts[ii].poly[0], false);
 		push(ri, (struct pt){ mi.x, mi.y + p->w });
 		push(ri, (struct pt){ mi.x, vch + d });
+		if (right && ri) {
+			ri->u_down = W + (p->sp + p->w / 2) * f->sec;
+			push(ri, P(p, ri->u_down, vch + d));
+			note_down(p, ri);
+		}
 		if (two) {
 			struct route *ro = add_route(p, outer, 0, k);
 			push(ro, (struct pt){ mo.x, mo.y + p->w });
