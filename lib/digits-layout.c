@@ -278,8 +278,8 @@ static bool static_fill(struct gp_geos *geos, const struct gp_digit_row *out,
 	}
 	if (!gp_geos_dilate_box(geos, &hulls, pr->margin, pr->margin, &grown) ||
 	    !gp_geos_difference(geos, &traces, &fronts, &bare) ||
-	    !gp_geos_offset(geos, &bare, pr->clearance + pr->chord_tolerance,
-			    GP_JOIN_ROUND, pr->chord_tolerance, &zone) ||
+	    !gp_geos_dilate_box(geos, &bare, pr->clearance, pr->clearance,
+				&zone) ||
 	    !gp_geos_difference(geos, &grown, &zone, &fill))
 		goto done;
 	for (size_t i = 0; i < patch->count; i++) {
@@ -339,11 +339,13 @@ static bool restore_root(struct gp_geos *geos, const struct gp_polygon *seg,
 				goto done;
 		}
 	if (!gp_geos_dilate_box(geos, &s, pr->margin, pr->margin, &grown) ||
-	    !gp_geos_offset(geos, &lead, pr->clearance + pr->chord_tolerance,
-			    GP_JOIN_ROUND, pr->chord_tolerance, &near) ||
+	    /* a little past the notch, which GEOS drew unsnapped: no sliver
+	     * of the notch's edge is left between the two */
+	    !gp_geos_dilate_box(geos, &lead, pr->clearance + 4,
+				pr->clearance + 4, &near) ||
 	    !gp_geos_intersection(geos, &grown, &near, &take) ||
-	    !gp_geos_offset(geos, &rest, pr->clearance + pr->chord_tolerance,
-			    GP_JOIN_ROUND, pr->chord_tolerance, &rest_zone) ||
+	    !gp_geos_dilate_box(geos, &rest, pr->clearance, pr->clearance,
+				&rest_zone) ||
 	    !gp_geos_offset(geos, others, pr->min_space + pr->chord_tolerance,
 			    GP_JOIN_ROUND, pr->chord_tolerance, &others_zone))
 		goto done;
@@ -428,12 +430,15 @@ static bool add_patches(struct gp_build *build, const struct gp_digits *row,
 	for (size_t i = 0; i < g.count; i++)
 		gp_polyset_init(&patches[i]);
 	/* A trace must stay clear of patches under any shift of up to the
-	 * registration in x and in y: that is a diagonal of r sqrt 2. */
+	 * registration in x and in y: cleared by exactly that box.  Both
+	 * boxes are 2 nm larger, so that snapping the results to the 1 nm
+	 * grid cannot leave a sliver short. */
 	struct gp_patch_rules pr = {
-		.margin = rules->registration,
+		.margin = rules->registration + 2,
 		.min_space = rules->min_space,
-		.clearance = (int64_t)ceil((double)rules->registration * sqrt(2.0)),
+		.clearance = rules->registration + 2,
 		.chord_tolerance = rules->chord_tolerance,
+		.clearance_box = true,
 	};
 	if (!gp_patch_make(geos, g.items, g.count, traces, trace_count, &pr,
 			   patches, diag))

@@ -60,10 +60,11 @@ struct plan {
 	double w, sp, pitch;      /* lead width, space, lane pitch */
 	double delta;             /* half the distance of two side by side */
 	/* How far a lead-in running beside a segment keeps from it: the
-	 * segment's back patch reaches out by the registration (up to r sqrt 2
-	 * on a slant) and is notched a further r sqrt 2 around the lead-in;
-	 * at this distance the notch never reaches into what the segment
-	 * needs, so every segment stays covered under any shift. */
+	 * segment's back patch reaches out by the registration box and the
+	 * patch is notched by the same box around the lead-in; two boxes of
+	 * r across any edge direction need 2 r (|nx| + |ny|) <= 2 r sqrt 2,
+	 * so at this distance the notch never reaches into what the segment
+	 * needs and every segment stays covered under any shift. */
 	double keep;
 	struct route routes[GP_UNIT_MAX_TRACES];
 	int n;
@@ -920,8 +921,9 @@ static bool make_traces(struct plan *p, struct gp_digit_row *out, size_t unit)
 		if (!add_trace(u, drop, 2, p->w, -1, 0, line, upright(p, drop[1])))
 			return false;
 		if (n > 1) {
-			struct pt bar[2] = { { lo - p->w / 2, p->v_col },
-					     { hi + p->w / 2, p->v_col } };
+			/* from centre to centre of the outer lead-ins: a
+			 * neighbouring line's bar stays a full pitch away */
+			struct pt bar[2] = { { lo, p->v_col }, { hi, p->v_col } };
 			if (!add_trace(u, bar, 2, p->w, -1, 0, line, upright(p, drop[1])))
 				return false;
 		}
