@@ -5,6 +5,7 @@
 
 #include "artwork.h"
 #include "buffer.h"
+#include "check.h"
 #include "diag.h"
 #include "model.h"
 #include "route.h"
@@ -50,6 +51,10 @@ struct gp_build {
 	unsigned outputs;               /* enum gp_output_kind bits */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
+	/* findings of the check stage (lib/check.h) */
+	struct gp_check_report checks;
+	bool checked;
+	struct gp_buffer check_text, check_json;
 	void (*progress)(const char *stage, void *data);
 	void *progress_data;
 };

@@ -8,6 +8,7 @@
 #include "font.h"
 #include "icons.h"
 #include "patch.h"
+#include "route.h"
 #include "units.h"
 
 #include <math.h>
@@ -472,6 +473,100 @@ static int64_t shift_reach(const struct gp_rules *r)
 	return (int64_t)ceil((double)r->registration * sqrt(2.0));
 }
 
+/* Front ITO that is not icon i's: earlier stages' shapes, other icons'
+ * electrodes and bridges. */
+static bool foreign_front(struct layout *l, size_t self,
+			  struct gp_polyset *out)
+{
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_polygon copy;
+		if (s->layer != layer || s->open_path)
+			continue;
+		if (!gp_polygon_copy(&copy, &s->poly) ||
+		    !gp_polyset_take(out, &copy))
+			return false;
+	}
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		if (i != self && (!copy_into(out, &l->icons[i].front) ||
+				  !copy_into(out, &l->icons[i].bridges)))
+			return false;
+	return true;
+}
+
+static bool other_patches_set(struct layout *l, size_t group,
+			      struct gp_polyset *out)
+{
+	for (size_t g = 0; g < l->group_count; g++)
+		if (g != group && !copy_into(out, &l->patches[g]))
+			return false;
+	return true;
+}
+
+/* Where a bridge leaves one of the icon's own letters, the notch would
+ * take the letter's registration margin with it, and any plate shift
+ * would bite into the letter there.  The margin is given back: the patch
+ * keeps the letters grown by the margin box wherever the icon's own
+ * bridges pass, except near anything else on the front and near other
+ * commons' patches.  The first margin's length of each bridge then lights
+ * with its letter (a spur no wider than the bridge, recorded with the
+ * pixel); beyond it the bridge stays dark under any shift. */
+static bool reclaim_margin(struct layout *l, size_t i)
+{
+	struct icon_work *w = &l->icons[i];
+	if (w->bridges.count == 0)
+		return true;
+	const struct gp_rules *r = &l->design->rules;
+	int64_t reach = shift_reach(r) + r->chord_tolerance;
+	struct gp_polyset ring, near, want, foreign, away, others, apart, add,
+		step, merged;
+	struct gp_polyset *all[] = { &ring, &near, &want, &foreign, &away,
+				     &others, &apart, &add, &step, &merged };
+	for (size_t k = 0; k < 10; k++)
+		gp_polyset_init(all[k]);
+	struct gp_polyset *patch = &l->patches[w->group];
+	bool ok =
+		gp_geos_dilate_box(l->geos, &w->front, r->registration,
+				   r->registration, &ring) &&
+		gp_geos_offset(l->geos, &w->bridges, reach, GP_JOIN_ROUND,
+			       r->chord_tolerance, &near) &&
+		gp_geos_intersection(l->geos, &ring, &near, &want) &&
+		foreign_front(l, i, &foreign) &&
+		gp_geos_offset(l->geos, &foreign, reach, GP_JOIN_ROUND,
+			       r->chord_tolerance, &away) &&
+		other_patches_set(l, w->group, &others) &&
+		gp_geos_offset(l->geos, &others, r->min_space, GP_JOIN_ROUND,
+			       r->chord_tolerance, &apart) &&
+		gp_geos_difference(l->geos, &want, &away, &step) &&
+		gp_geos_difference(l->geos, &step, &apart, &add) &&
+		copy_into(&add, patch) &&
+		gp_geos_union_set(l->geos, &add, &merged);
+	if (ok) {
+		gp_polyset_finish(patch);
+		*patch = merged;
+		gp_polyset_init(&merged);
+	}
+	for (size_t k = 0; k < 10; k++)
+		gp_polyset_finish(all[k]);
+	return ok;
+}
+
+/* The parts of icon i's bridges that light with it: over its patch. */
+static bool lit_spurs(struct layout *l, size_t i, struct gp_polyset *out)
+{
+	struct icon_work *w = &l->icons[i];
+	struct gp_polyset over;
+	gp_polyset_init(&over);
+	bool ok = w->bridges.count == 0 ||
+		  (gp_geos_intersection(l->geos, &w->bridges,
+					&l->patches[w->group], &over) &&
+		   gp_geos_difference(l->geos, &over, &w->front, out));
+	gp_polyset_finish(&over);
+	return ok;
+}
+
 static bool make_patches(struct layout *l)
 {
 	const struct gp_rules *r = &l->design->rules;
@@ -501,6 +596,8 @@ static bool make_patches(struct layout *l)
 				 traces.count, &rules, l->patches, l->diag);
 	for (size_t g = 0; ok && g < l->group_count; g++)
 		ok = drop_floating(l, &fronts[g], &l->patches[g]);
+	for (size_t i = 0; ok && i < l->design->icon_count; i++)
+		ok = reclaim_margin(l, i);
 	for (size_t g = 0; fronts && g < l->group_count; g++)
 		gp_polyset_finish(&fronts[g]);
 	free(fronts);
@@ -614,25 +711,37 @@ static bool add_set(struct layout *l, struct gp_polyset *set,
 	return true;
 }
 
+/* One pixel per icon.  Its nominal lit region is the electrode and the
+ * spurs of its bridges over the patch, united (so that its parts neither
+ * overlap nor touch): shape holds the first part, more the rest. */
 static bool add_pixel(struct layout *l, size_t i)
 {
 	struct icon_work *w = &l->icons[i];
+	struct gp_polyset parts, region;
+	gp_polyset_init(&parts);
+	gp_polyset_init(&region);
+	bool ok = copy_into(&parts, &w->front) && lit_spurs(l, i, &parts) &&
+		  gp_geos_union_set(l->geos, &parts, &region) &&
+		  region.count > 0;
 	struct gp_box box = gp_box_none();
-	for (size_t k = 0; k < w->front.count; k++)
-		box = gp_box_union(box, gp_polygon_bounds(&w->front.items[k]));
-	struct gp_pixel *p = gp_artwork_add_pixel(&l->build->art, w->common,
-						  w->segment, box);
-	if (!p || !gp_polygon_copy(&p->shape, &w->front.items[0]))
-		return false;
-	p->owner_kind = GP_OWNER_ICON;
-	p->owner = (int)i;
-	for (size_t k = 1; k < w->front.count; k++) {
-		struct gp_polygon copy;
-		if (!gp_polygon_copy(&copy, &w->front.items[k]) ||
-		    !gp_polyset_take(&p->more, &copy))
-			return false;
+	for (size_t k = 0; ok && k < region.count; k++)
+		box = gp_box_union(box, gp_polygon_bounds(&region.items[k]));
+	struct gp_pixel *p = ok ? gp_artwork_add_pixel(&l->build->art,
+						       w->common, w->segment,
+						       box)
+				: NULL;
+	ok = p != NULL;
+	if (ok) {
+		p->owner_kind = GP_OWNER_ICON;
+		p->owner = (int)i;
+		p->shape = region.items[0];
+		gp_polygon_init(&region.items[0]);
+		for (size_t k = 1; ok && k < region.count; k++)
+			ok = gp_polyset_take(&p->more, &region.items[k]);
 	}
-	return true;
+	gp_polyset_finish(&parts);
+	gp_polyset_finish(&region);
+	return ok;
 }
 
 /* Summary: nets, area and what the registration margin keeps lit. */
@@ -682,6 +791,62 @@ static bool emit(struct layout *l)
 		if (!add_set(l, &l->patches[g], l->back_plate, GP_ROLE_PATCH,
 			     l->group_net[g]))
 			return oom(l);
+	return true;
+}
+
+/* --- lead ends ----------------------------------------------------------- */
+
+/* The routing stage leads each net out straight towards one side of the
+ * glass, from an end the electrode offers.  For every side: the part's
+ * outermost corner that way, moved one lead width inwards so that the lead
+ * overlaps the part rather than touching a point of it. */
+static bool offer_ends(struct layout *l, int net, const struct gp_polyset *set)
+{
+	int64_t width = 2 * l->design->rules.min_line;
+	for (int side = 0; side < GP_SIDE_COUNT; side++) {
+		struct gp_point best = { 0, 0 };
+		int64_t best_key = INT64_MIN;
+		for (size_t k = 0; k < set->count; k++) {
+			const struct gp_ring *ring = &set->items[k].outer;
+			for (size_t j = 0; j < ring->count; j++) {
+				struct gp_point p = ring->points[j];
+				int64_t key = side == GP_SIDE_BOTTOM ? -p.y
+					      : side == GP_SIDE_RIGHT ? p.x
+					      : side == GP_SIDE_TOP   ? p.y
+								      : -p.x;
+				if (key > best_key) {
+					best_key = key;
+					best = p;
+				}
+			}
+		}
+		if (best_key == INT64_MIN)
+			return true;
+		switch (side) {
+		case GP_SIDE_BOTTOM: best.y += width; break;
+		case GP_SIDE_RIGHT: best.x -= width; break;
+		case GP_SIDE_TOP: best.y -= width; break;
+		default: best.x += width; break;
+		}
+		if (!gp_build_add_lead_end(l->build, net, (enum gp_side)side,
+					   best, width))
+			return oom(l);
+	}
+	return true;
+}
+
+/* Ends for every icon's segment and for its own common's patch (a common
+ * shared with a dot-matrix row is led out from the row's strips). */
+static bool offer_all_ends(struct layout *l)
+{
+	for (size_t i = 0; i < l->design->icon_count; i++) {
+		struct icon_work *w = &l->icons[i];
+		if (!offer_ends(l, w->segment, &w->front))
+			return false;
+		if (l->design->icons[i].common &&
+		    !offer_ends(l, w->common, &l->patches[w->group]))
+			return false;
+	}
 	return true;
 }
 
@@ -750,7 +915,8 @@ bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
 	if (!ok)
 		oom(&l);
 	ok = ok && make_all_fronts(&l) && assign_nets(&l) &&
-	     make_groups(&l) && make_all_bridges(&l) && emit(&l);
+	     make_groups(&l) && make_all_bridges(&l) && emit(&l) &&
+	     offer_all_ends(&l);
 	for (size_t i = 0; ok && i < d->icon_count; i++)
 		ok = note_icon(&l, i);
 	if (ok) {
