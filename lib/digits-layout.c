@@ -300,111 +300,6 @@ done:
 	return ok;
 }
 
-/* Where a lead-in leaves its segment, the patch notch would uncover the
- * segment's edge as soon as the plates shift.  The lead-in may lie over its
- * own segment's patch (it lights with that segment, as part of the same
- * pixel), so the registration zone of the segment around the lead-in's
- * root is given back to the patch: all of it that is clear of every other
- * trace and of the other groups' patches. */
-static bool restore_root(struct gp_geos *geos, const struct gp_polygon *seg,
-			 const struct gp_digit_row *out, size_t unit, int trace,
-			 const struct gp_polyset *others,
-			 const struct gp_patch_rules *pr, struct gp_polyset *patch)
-{
-	struct gp_polyset s, grown, lead, near, rest, rest_zone, others_zone,
-		keep, take, cut, all;
-	struct gp_polyset *sets[] = { &s,    &grown,       &lead, &near,
-				      &rest, &rest_zone,   &others_zone,
-				      &keep, &take,        &cut,  &all };
-	bool ok = false;
-	for (size_t i = 0; i < sizeof(sets) / sizeof(*sets); i++)
-		gp_polyset_init(sets[i]);
-	struct gp_polygon c;
-	if (!gp_polygon_copy(&c, seg) || !gp_polyset_take(&s, &c) ||
-	    !gp_polygon_copy(&c, &out->units[unit].traces[trace].poly) ||
-	    !gp_polyset_take(&lead, &c))
-		goto done;
-	struct gp_box zone = gp_polygon_bounds(seg);
-	int64_t reach = 2 * pr->margin + pr->clearance + pr->min_space;
-	zone = gp_box_make(zone.x0 - reach, zone.y0 - reach, zone.x1 + reach,
-			   zone.y1 + reach);
-	for (size_t i = 0; i < out->unit_count; i++)
-		for (int t = 0; t < out->units[i].trace_count; t++) {
-			const struct gp_polygon *p = &out->units[i].traces[t].poly;
-			struct gp_box b = gp_polygon_bounds(p);
-			if ((i == unit && t == trace) || b.x1 < zone.x0 ||
-			    b.x0 > zone.x1 || b.y1 < zone.y0 || b.y0 > zone.y1)
-				continue;
-			if (!gp_polygon_copy(&c, p) || !gp_polyset_take(&rest, &c))
-				goto done;
-		}
-	if (!gp_geos_dilate_box(geos, &s, pr->margin, pr->margin, &grown) ||
-	    /* a little past the notch, which GEOS drew unsnapped: no sliver
-	     * of the notch's edge is left between the two */
-	    !gp_geos_dilate_box(geos, &lead, pr->clearance + 4,
-				pr->clearance + 4, &near) ||
-	    !gp_geos_intersection(geos, &grown, &near, &take) ||
-	    !gp_geos_dilate_box(geos, &rest, pr->clearance, pr->clearance,
-				&rest_zone) ||
-	    !gp_geos_offset(geos, others, pr->min_space + pr->chord_tolerance,
-			    GP_JOIN_ROUND, pr->chord_tolerance, &others_zone))
-		goto done;
-	for (size_t i = 0; i < others_zone.count; i++) {
-		if (!gp_polygon_copy(&c, &others_zone.items[i]) ||
-		    !gp_polyset_take(&rest_zone, &c))
-			goto done;
-	}
-	if (!gp_geos_difference(geos, &take, &rest_zone, &keep))
-		goto done;
-	for (size_t i = 0; i < patch->count; i++)
-		if (!gp_polygon_copy(&c, &patch->items[i]) ||
-		    !gp_polyset_take(&keep, &c))
-			goto done;
-	if (!gp_geos_union_set(geos, &keep, &all))
-		goto done;
-	gp_polyset_finish(patch);
-	*patch = all;
-	gp_polyset_init(&all);
-	ok = true;
-done:
-	for (size_t i = 0; i < sizeof(sets) / sizeof(*sets); i++)
-		gp_polyset_finish(sets[i]);
-	return ok;
-}
-
-static bool restore_roots(struct gp_geos *geos, const struct gp_digits *row,
-			  const struct gp_digit_row *out, struct groups *g,
-			  struct gp_polyset *patches,
-			  const struct gp_patch_rules *pr)
-{
-	for (size_t i = 0; i < out->unit_count; i++) {
-		const struct gp_digit_unit *u = &out->units[i];
-		for (int t = 0; t < u->trace_count; t++) {
-			const struct gp_digit_trace *tr = &u->traces[t];
-			if (tr->part < 0)
-				continue;
-			const struct gp_digit_part *p = &u->parts[tr->part];
-			size_t gi = group_of(row, i, p);
-			struct gp_polyset others;
-			gp_polyset_init(&others);
-			bool ok = true;
-			for (size_t k = 0; ok && k < g->count; k++)
-				for (size_t j = 0; ok && k != gi &&
-						   j < patches[k].count; j++) {
-					struct gp_polygon c;
-					ok = gp_polygon_copy(&c, &patches[k].items[j]) &&
-					     gp_polyset_take(&others, &c);
-				}
-			ok = ok && restore_root(geos, &p->poly[tr->piece], out, i,
-						t, &others, pr, &patches[gi]);
-			gp_polyset_finish(&others);
-			if (!ok)
-				return false;
-		}
-	}
-	return true;
-}
-
 static bool add_patches(struct gp_build *build, const struct gp_digits *row,
 			struct gp_digit_row *out, struct gp_geos *geos,
 			struct gp_diag *diag)
@@ -443,8 +338,12 @@ static bool add_patches(struct gp_build *build, const struct gp_digits *row,
 	if (!gp_patch_make(geos, g.items, g.count, traces, trace_count, &pr,
 			   patches, diag))
 		goto done;
-	if ((row->duty == 1 && !static_fill(geos, out, &pr, &patches[0])) ||
-	    !restore_roots(geos, row, out, &g, patches, &pr))
+	/* Where a lead-in leaves its segment the notch takes the segment's
+	 * margin there: a shift toward the lead-in uncovers a sliver at most
+	 * (line + 2 registration) wide.  Keeping the margin instead would
+	 * put the lead-in's root under the patch, an overlap outside the
+	 * pixel; both at once cannot be had.  The check measures the loss. */
+	if (row->duty == 1 && !static_fill(geos, out, &pr, &patches[0]))
 		goto done;
 	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
 	for (size_t i = 0; i < g.count; i++)

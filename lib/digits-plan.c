@@ -286,8 +286,12 @@ static struct pt inside_near(const struct plan *p, const struct gp_polygon *poly
 			best = v;
 		}
 	}
-	return (struct pt){ best.x + 0.25 * (c.x - best.x),
-			    best.y + 0.25 * (c.y - best.y) };
+	/* a line width in, so that a lead-in from here leaves through the
+	 * corner rather than along a side */
+	double d = hypot(c.x - best.x, c.y - best.y);
+	double k = d > 0 ? fmin(0.25, 2 * p->w / d) : 0;
+	return (struct pt){ best.x + k * (c.x - best.x),
+			    best.y + k * (c.y - best.y) };
 }
 
 struct line {
@@ -416,7 +420,7 @@ static void top_corner(struct plan *p, const char *outer, const char *inner,
 	struct pt top_side = P(p, W / 2, H);   /* the top bar's side */
 	struct line lo = line_offset(g, top_side, d);
 	struct line li = line_offset(g, top_side, -d);
-	/* the diagonal: from near its end at the corner onto its line */
+	/* the diagonal: from just inside its end onto its line, out */
 	struct pt si = inside_near(p, &p->unit->parts[ii].poly[0], inner_corner);
 	push(ri, si);
 	push(ri, foot(li, si));
