@@ -150,12 +150,18 @@ static bool add_gerbers(const struct gp_build *build,
 	return true;
 }
 
+bool gp_build_outputs(const struct gp_build *build,
+		      struct gp_output_set *set, struct gp_diag *diag)
+{
+	return add_gerbers(build, set, diag);
+}
+
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 			      struct gp_diag *diag)
 {
 	struct gp_output_set set;
 	gp_output_set_init(&set);
-	bool ok = add_gerbers(build, &set, diag) &&
+	bool ok = gp_build_outputs(build, &set, diag) &&
 		  gp_output_commit(&set, folder, diag);
 	for (size_t i = 0; ok && i < set.count; i++)
 		gp_buffer_printf(&build->summary, "wrote: %s/%s\n", folder,

@@ -7,6 +7,7 @@
 #include "buffer.h"
 #include "diag.h"
 #include "model.h"
+#include "output.h"
 
 struct gp_block_nets {
 	int first_common;         /* net index of the block's first common */
@@ -30,6 +31,12 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
 /* Net index of a block's common for dot row `row` (0-based over the whole
  * block, line by line), or -1 if out of range. */
 int gp_block_common_net(const struct gp_build *build, size_t block, long row);
+
+/* Renders every output of the build into set, in memory, touching no
+ * file: gp_build_write is this followed by gp_output_commit.  The fuzz
+ * harness and tests use it to run the whole pipeline without a disk. */
+bool gp_build_outputs(const struct gp_build *build,
+		      struct gp_output_set *set, struct gp_diag *diag);
 
 /* Cut outlines of both plates. */
 bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag);
