@@ -1139,7 +1139,9 @@ bool gp_geos_box_pairs(struct gp_geos *geos, const struct gp_box *boxes,
 		free(list.items);
 		return false;
 	}
-	qsort(list.items, list.count, sizeof(*list.items), compare_pairs);
+	if (list.count) /* qsort(NULL, 0, ...) is undefined */
+		qsort(list.items, list.count, sizeof(*list.items),
+		      compare_pairs);
 	*pairs = list.items;
 	*pair_count = list.count;
 	return true;
