@@ -27,8 +27,10 @@ void gp_artwork_finish(struct gp_artwork *art)
 {
 	for (size_t i = 0; i < art->shape_count; i++)
 		gp_polygon_finish(&art->shapes[i].poly);
-	for (size_t i = 0; i < art->pixel_count; i++)
+	for (size_t i = 0; i < art->pixel_count; i++) {
 		gp_polygon_finish(&art->pixels[i].shape);
+		gp_polyset_finish(&art->pixels[i].more);
+	}
 	free(art->shapes);
 	free(art->pixels);
 	free(art->nets);

@@ -70,6 +70,9 @@ struct gp_pixel {
 	/* Nominal lit region when it is not just the box (icons, digits);
 	 * empty (count 0) for plain rectangular dots. */
 	struct gp_polygon shape;
+	/* Further parts of the nominal lit region when it has several (the
+	 * letters of a text icon); shape holds the first.  Usually empty. */
+	struct gp_polyset more;
 	/* Who owns it, for reports: "block main line 1 cell 3 row 2 col 4". */
 	int owner_kind;         /* enum gp_owner_kind */
 	int owner;              /* index of the block/digit row/icon */

@@ -7,9 +7,13 @@
 
 #include "gp-config.h"
 
+#include <glib.h>
+#include <json-c/json.h>
+
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 
 /* Width of the line that draws a cut outline: a drawing convention of
  * ours; the cut is along the line's centre. */
@@ -86,8 +90,16 @@ static void write_summary(struct gp_build *build)
 		gp_buffer_append(s, build->notes.data, build->notes.size);
 }
 
-GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
-					   struct gp_diag *diag)
+static void stage(const struct gp_build *build, const char *name)
+{
+	if (build->progress)
+		build->progress(name, build->progress_data);
+}
+
+GP_EXPORT struct gp_build *gp_build_create_with_progress(
+	const struct gp_design *design,
+	void (*progress)(const char *stage, void *data), void *data,
+	struct gp_diag *diag)
 {
 	struct gp_build *build = calloc(1, sizeof(*build));
 	if (!build) {
@@ -95,17 +107,31 @@ GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 		return NULL;
 	}
 	build->design = design;
+	build->outputs = GP_OUTPUT_ALL;
+	build->progress = progress;
+	build->progress_data = data;
 	gp_artwork_init(&build->art);
 	gp_buffer_init(&build->summary);
 	gp_buffer_init(&build->notes);
+	gp_buffer_init(&build->inputs);
+	gp_buffer_init(&build->written);
+	gp_buffer_init(&build->json);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
+	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_icons_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
 	}
 	write_summary(build);
 	return build;
+}
+
+GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
+					   struct gp_diag *diag)
+{
+	return gp_build_create_with_progress(design, NULL, NULL, diag);
 }
 
 GP_EXPORT void gp_build_destroy(struct gp_build *build)
@@ -115,8 +141,83 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_artwork_finish(&build->art);
 	gp_buffer_finish(&build->summary);
 	gp_buffer_finish(&build->notes);
+	gp_buffer_finish(&build->inputs);
+	gp_buffer_finish(&build->written);
+	gp_buffer_finish(&build->json);
 	free(build->blocks);
 	free(build);
+}
+
+GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch)
+{
+	build->has_epoch = true;
+	build->epoch = epoch;
+}
+
+static const char *const output_kinds[] = {
+	"gerber", "proof", "pins", "firmware", "report", NULL,
+};
+
+GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
+			       struct gp_diag *diag)
+{
+	unsigned selected = 0;
+	const char *p = kinds;
+	while (*p) {
+		size_t length = strcspn(p, ",");
+		bool known = false;
+		for (int i = 0; output_kinds[i] && !known; i++) {
+			if (strlen(output_kinds[i]) == length &&
+			    strncmp(output_kinds[i], p, length) == 0) {
+				selected |= 1u << i;
+				known = true;
+			}
+		}
+		if (!known)
+			return gp_diag_error(diag, NULL,
+					     "unknown kind of output '%.*s'; "
+					     "expected a list of gerber, "
+					     "proof, pins, firmware, report",
+					     (int)length, p);
+		p += length + (p[length] == ',');
+	}
+	build->outputs = selected;
+	return true;
+}
+
+bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind)
+{
+	return (build->outputs & (unsigned)kind) != 0;
+}
+
+bool gp_build_add_input(struct gp_build *build, const char *path)
+{
+	const char *list = build->inputs.data ? build->inputs.data : "";
+	size_t length = strlen(path);
+	for (const char *p = list; *p;) {
+		const char *end = strchr(p, '\n');
+		if ((size_t)(end - p) == length && strncmp(p, path, length) == 0)
+			return true;
+		p = end + 1;
+	}
+	return gp_buffer_printf(&build->inputs, "%s\n", path);
+}
+
+GP_EXPORT const char *gp_build_inputs(const struct gp_build *build)
+{
+	return build->inputs.data ? build->inputs.data : "";
+}
+
+const char *gp_build_date(const struct gp_build *build, char *buffer,
+			  size_t size)
+{
+	if (!build->has_epoch)
+		return NULL;
+	time_t t = (time_t)build->epoch;
+	struct tm tm;
+	if (!gmtime_r(&t, &tm) || strftime(buffer, size, "%Y-%m-%d", &tm) == 0)
+		return NULL;
+	return buffer;
 }
 
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build)
@@ -124,14 +225,25 @@ GP_EXPORT const char *gp_build_summary(const struct gp_build *build)
 	return build->summary.data ? build->summary.data : "";
 }
 
+GP_EXPORT const char *gp_build_written(const struct gp_build *build)
+{
+	return build->written.data ? build->written.data : "";
+}
+
 static bool add_gerbers(const struct gp_build *build,
 			struct gp_output_set *set, struct gp_diag *diag)
 {
+	char date[40];
 	struct gp_gerber_info info = {
 		.part_number = build->design->part,
 		.version = GP_VERSION,
 		.creation_date = NULL,
 	};
+	if (build->has_epoch &&
+	    gp_gerber_format_date(date, sizeof(date), build->epoch))
+		info.creation_date = date;
+	if (!gp_build_wants(build, GP_OUTPUT_GERBER))
+		return true;
 	for (int layer = 0; layer < GP_LAYER_COUNT; layer++) {
 		bool used = false;
 		for (size_t i = 0; i < build->art.shape_count && !used; i++)
@@ -142,18 +254,42 @@ static bool add_gerbers(const struct gp_build *build,
 		snprintf(name, sizeof(name), "%s.gbr",
 			 gp_layer_name((enum gp_layer)layer));
 		struct gp_buffer *out = gp_output_add(set, name, diag);
-		if (!out || !gp_gerber_write(out, &build->art,
-					     (enum gp_layer)layer, &info))
+		const char *why = "out of memory";
+		if (!out)
+			return false;
+		if (!gp_gerber_write_why(out, &build->art,
+					 (enum gp_layer)layer, &info, &why))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
-					     "Gerber file", name);
+					     "Gerber file: %s", name, why);
 	}
 	return true;
+}
+
+/* checksums.sha256 in the form "sha256sum -c" reads: hash, two spaces,
+ * name.  Written last, over every other output. */
+static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
+{
+	size_t count = set->count;
+	struct gp_buffer *out = gp_output_add(set, "checksums.sha256", diag);
+	if (!out)
+		return false;
+	for (size_t i = 0; i < count; i++) {
+		const struct gp_output_file *f = &set->files[i];
+		gchar *hex = g_compute_checksum_for_data(
+			G_CHECKSUM_SHA256, (const guchar *)f->content.data,
+			f->content.size);
+		if (!hex)
+			return gp_diag_error(diag, NULL, "out of memory");
+		gp_buffer_printf(out, "%s  %s\n", hex, f->name);
+		g_free(hex);
+	}
+	return !out->failed || gp_diag_error(diag, NULL, "out of memory");
 }
 
 bool gp_build_outputs(const struct gp_build *build,
 		      struct gp_output_set *set, struct gp_diag *diag)
 {
-	return add_gerbers(build, set, diag);
+	return add_gerbers(build, set, diag) && add_checksums(set, diag);
 }
 
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
@@ -161,11 +297,83 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 {
 	struct gp_output_set set;
 	gp_output_set_init(&set);
+	stage(build, "writing");
 	bool ok = gp_build_outputs(build, &set, diag) &&
 		  gp_output_commit(&set, folder, diag);
-	for (size_t i = 0; ok && i < set.count; i++)
+	build->written.size = 0;
+	for (size_t i = 0; ok && i < set.count; i++) {
+		gp_buffer_printf(&build->written, "%s\n", set.files[i].name);
 		gp_buffer_printf(&build->summary, "wrote: %s/%s\n", folder,
 				 set.files[i].name);
+	}
 	gp_output_set_finish(&set);
 	return ok;
+}
+
+static json_object *nets_json(const struct gp_build *build)
+{
+	size_t commons, segments;
+	count_nets(&build->art, &commons, &segments);
+	json_object *o = json_object_new_object();
+	json_object_object_add(o, "commons", json_object_new_int64((int64_t)commons));
+	json_object_object_add(o, "segments",
+			       json_object_new_int64((int64_t)segments));
+	json_object_object_add(o, "pixels",
+			       json_object_new_int64((int64_t)build->art.pixel_count));
+	return o;
+}
+
+static json_object *lines_json(const char *text)
+{
+	json_object *list = json_object_new_array();
+	for (const char *p = text ? text : ""; *p;) {
+		const char *end = strchr(p, '\n');
+		if (!end)
+			break;
+		json_object_array_add(list, json_object_new_string_len(
+						    p, (int)(end - p)));
+		p = end + 1;
+	}
+	return list;
+}
+
+static json_object *plate_json(const struct gp_plate_spec *plate)
+{
+	json_object *o = json_object_new_object();
+	json_object_object_add(o, "width_mm", json_object_new_double(
+					 gp_mm(gp_box_width(plate->box))));
+	json_object_object_add(o, "height_mm", json_object_new_double(
+					  gp_mm(gp_box_height(plate->box))));
+	return o;
+}
+
+GP_EXPORT const char *gp_build_summary_json(struct gp_build *build)
+{
+	const struct gp_design *d = build->design;
+	json_object *o = json_object_new_object();
+	json_object_object_add(o, "part", json_object_new_string(d->part));
+	json_object_object_add(o, "revision",
+			       json_object_new_string(d->revision));
+	json_object_object_add(o, "front", plate_json(&d->front));
+	json_object_object_add(o, "back", plate_json(&d->back));
+	json_object *blocks = json_object_new_array();
+	for (size_t i = 0; i < d->block_count; i++)
+		json_object_array_add(blocks,
+				      json_object_new_string(d->blocks[i].name));
+	json_object_object_add(o, "blocks", blocks);
+	json_object_object_add(o, "nets", nets_json(build));
+	json_object *overrides = json_object_new_array();
+	for (size_t i = 0; i < d->spec->override_count; i++)
+		json_object_array_add(overrides, json_object_new_string(
+							 d->spec->overrides[i]));
+	json_object_object_add(o, "overrides", overrides);
+	json_object_object_add(o, "notes", lines_json(build->notes.data));
+	json_object_object_add(o, "files", lines_json(build->written.data));
+	build->json.size = 0;
+	gp_buffer_puts(&build->json, json_object_to_json_string_ext(
+					      o, JSON_C_TO_STRING_PRETTY |
+							 JSON_C_TO_STRING_NOSLASHESCAPE));
+	gp_buffer_puts(&build->json, "\n");
+	json_object_put(o);
+	return build->json.data ? build->json.data : "{}\n";
 }

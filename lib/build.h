@@ -16,6 +16,16 @@ struct gp_block_nets {
 	long segment_count;
 };
 
+/* Kinds of output, for writing a subset (gp_build_select). */
+enum gp_output_kind {
+	GP_OUTPUT_GERBER = 1 << 0,
+	GP_OUTPUT_PROOF = 1 << 1,     /* proof.pdf */
+	GP_OUTPUT_PINS = 1 << 2,      /* pins.csv */
+	GP_OUTPUT_FIRMWARE = 1 << 3,  /* the C header */
+	GP_OUTPUT_REPORT = 1 << 4,    /* report.txt, report.json */
+	GP_OUTPUT_ALL = (1 << 5) - 1,
+};
+
 struct gp_build {
 	const struct gp_design *design;
 	struct gp_artwork art;
@@ -23,7 +33,26 @@ struct gp_build {
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;
+	/* Files read besides the description (fonts...), one per line, for
+	 * dependency files. */
+	struct gp_buffer inputs;
+	/* Names of the files written by gp_build_write, one per line. */
+	struct gp_buffer written;
+	struct gp_buffer json;
+	unsigned outputs;               /* enum gp_output_kind bits */
+	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
+	int64_t epoch;
+	void (*progress)(const char *stage, void *data);
+	void *progress_data;
 };
+
+/* Should this kind of output be written? */
+bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind);
+/* Records a file the build read (a font, ...); once per path. */
+bool gp_build_add_input(struct gp_build *build, const char *path);
+/* The date every output carries, "YYYY-MM-DD", or NULL without an epoch. */
+const char *gp_build_date(const struct gp_build *build, char *buffer,
+			  size_t size);
 
 /* Lays out every dot-matrix block: nets, electrode strips, pixels. */
 bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
@@ -37,6 +66,10 @@ int gp_block_common_net(const struct gp_build *build, size_t block, long row);
  * harness and tests use it to run the whole pipeline without a disk. */
 bool gp_build_outputs(const struct gp_build *build,
 		      struct gp_output_set *set, struct gp_diag *diag);
+
+/* Lays out every icon: nets, front electrodes and bridges, back patches
+ * and bridges, pixels, summary lines (icon-layout.c). */
+bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag);
 
 /* Cut outlines of both plates. */
 bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag);

@@ -131,6 +131,22 @@ long gp_drive_max_commons_at_bias(double ratio, double a)
 	return commons;
 }
 
+long gp_drive_max_commons_whole(double ratio, long *bias)
+{
+	*bias = 0;
+	long commons = gp_drive_max_commons(ratio);
+	/* the whole-number bias loses a little against the real optimum, so
+	 * the answer is at most a few steps below */
+	for (; commons >= 2; commons--) {
+		long a = gp_drive_best_whole_bias(commons);
+		if (gp_drive_ratio(commons, (double)a) >= ratio) {
+			*bias = a;
+			return commons;
+		}
+	}
+	return 0;
+}
+
 bool gp_drive_bias_range(long commons, double ratio, double *low,
 			 double *high)
 {
@@ -208,7 +224,9 @@ double gp_drive_factor(const struct gp_drive_params *params, double t)
 	case GP_DRIVE_TC_PERCENT:
 		return 1.0 + params->tc / 100.0 * dt;
 	case GP_DRIVE_TC_MILLIVOLT:
-		return 1.0 + params->tc / 1000.0 * dt / params->vth;
+		if (params->vth > 0.0)
+			return 1.0 + params->tc / 1000.0 * dt / params->vth;
+		break;
 	case GP_DRIVE_TC_NONE:
 		break;
 	}
@@ -225,8 +243,10 @@ const char *gp_drive_params_problem(const struct gp_drive_params *params)
 	    (!(params->bias >= 2.0) ||
 	     !(params->bias <= (double)params->commons + 1.0)))
 		return "bias outside 1/2 ... 1/(N+1)";
-	if (!(params->vth > 0.0) || !isfinite(params->vth))
-		return "threshold must be above 0 V";
+	if (!(params->vth >= 0.0) || !isfinite(params->vth))
+		return "threshold must not be negative";
+	if (params->vth == 0.0 && params->vsat != 0.0)
+		return "saturation given without a threshold";
 	if (params->vsat != 0.0 &&
 	    (!(params->vsat > params->vth) || !isfinite(params->vsat)))
 		return "saturation must be above the threshold";
@@ -299,12 +319,16 @@ static void compute_multiplex(const struct gp_drive_params *p,
 static void compute_window(const struct gp_drive_params *p,
 			   struct gp_drive_result *r)
 {
-	make_window(r, p->vth, p->vsat, 1.0, &r->window);
+	r->has_window = p->vth > 0.0;
+	if (r->has_window)
+		make_window(r, p->vth, p->vsat, 1.0, &r->window);
 	r->feasible = !r->window.empty;
 	if (!r->feasible) {
 		r->max_commons = gp_drive_max_commons(r->needed);
 		r->max_commons_at_bias =
 			gp_drive_max_commons_at_bias(r->needed, r->bias);
+		r->max_commons_whole = gp_drive_max_commons_whole(
+			r->needed, &r->max_commons_whole_bias);
 		r->bias_fix = gp_drive_bias_range(p->commons, r->needed,
 						  &r->bias_low, &r->bias_high);
 	}
@@ -317,8 +341,9 @@ static void compute_window(const struct gp_drive_params *p,
 static void compute_temperature(const struct gp_drive_params *p,
 				struct gp_drive_result *r)
 {
-	r->has_temperature = p->has_range && p->tc_unit != GP_DRIVE_TC_NONE;
-	if (!p->has_range)
+	r->has_range = p->has_range && r->has_window;
+	r->has_temperature = r->has_range && p->tc_unit != GP_DRIVE_TC_NONE;
+	if (!r->has_range)
 		return;
 	struct gp_drive_temperature *ends[2] = { &r->cold, &r->hot };
 	double ts[2] = { p->t_min, p->t_max };

@@ -25,8 +25,15 @@
 #ifndef GP_DRIVE_H
 #define GP_DRIVE_H
 
+#include "buffer.h"
+#include "diag.h"
+
 #include <stdbool.h>
 #include <stddef.h>
+#include <stdint.h>
+
+struct gp_design;
+struct gp_node;
 
 /* Largest duty we compute for; far beyond any passive glass. */
 #define GP_DRIVE_MAX_COMMONS 100000L
@@ -52,6 +59,9 @@ long gp_drive_max_commons(double ratio);
 /* Largest N >= 2 that reaches ratio with bias 1/a held fixed (and for
  * which 1/a is a valid bias, N >= a - 1); 0 if none. */
 long gp_drive_max_commons_at_bias(double ratio, double a);
+/* Largest N >= 2 that reaches ratio with its best whole-number bias
+ * (stored in *bias); 0 if none. */
+long gp_drive_max_commons_whole(double ratio, long *bias);
 /* Range [*low, *high] of bias a within 2..N+1 that reaches ratio at N
  * commons; false when no bias does. */
 bool gp_drive_bias_range(long commons, double ratio, double *low,
@@ -88,7 +98,7 @@ enum gp_drive_tc_unit {
 struct gp_drive_params {
 	long commons;             /* N >= 1 */
 	double bias;              /* a of 1/a; 0 = best for N */
-	double vth;               /* V rms at 10% contrast, > 0 */
+	double vth;               /* V rms at 10% contrast; 0 = not known */
 	double vsat;              /* V rms at 90% contrast; 0 = not known */
 	enum gp_drive_tc_unit tc_unit;
 	double tc;                /* in tc_unit */
@@ -127,11 +137,14 @@ struct gp_drive_result {
 	double best_whole_ratio;
 	double needed;            /* Vsat/Vth; 0 with a single threshold */
 
+	bool has_window;                   /* the fluid is known */
 	struct gp_drive_window window;     /* at t_ref */
-	bool feasible;                     /* window not empty */
+	bool feasible;                     /* window not empty (or unknown) */
 	/* when infeasible: what would work (0 = nothing) */
 	long max_commons;                  /* with the best bias */
 	long max_commons_at_bias;          /* with the chosen bias */
+	long max_commons_whole;            /* with a whole-number bias */
+	long max_commons_whole_bias;       /* ... this one */
 	bool bias_fix;                     /* some bias works at this N */
 	double bias_low, bias_high;        /* range of a that works */
 
@@ -140,7 +153,8 @@ struct gp_drive_result {
 	bool vop_in_window;
 	struct gp_drive_levels levels;     /* at vop */
 
-	bool has_temperature;              /* range and coefficient given */
+	bool has_range;                    /* cold/hot are filled */
+	bool has_temperature;              /* ... and a coefficient given */
 	struct gp_drive_temperature cold, hot;
 	/* one fixed Vop serving the whole range (window intersection) */
 	double common_low, common_high;
@@ -172,5 +186,110 @@ bool gp_drive_compute(const struct gp_drive_params *params,
 
 /* Why params are invalid, as a static text, or NULL when they are fine. */
 const char *gp_drive_params_problem(const struct gp_drive_params *params);
+
+/* --- the description: sections 'drive:' and 'optics:' -------------------- */
+
+enum gp_display_mode { GP_MODE_UNSET, GP_MODE_POSITIVE, GP_MODE_NEGATIVE };
+enum gp_display_type {
+	GP_TYPE_UNSET, GP_TYPE_REFLECTIVE, GP_TYPE_TRANSFLECTIVE,
+	GP_TYPE_TRANSMISSIVE,
+};
+enum gp_viewing { GP_VIEWING_UNSET, GP_VIEWING_6, GP_VIEWING_12 };
+enum gp_fluid {
+	GP_FLUID_UNSET, GP_FLUID_TN, GP_FLUID_STN, GP_FLUID_FSTN, GP_FLUID_HTN,
+};
+enum gp_connection {
+	GP_CONNECTION_UNSET, GP_CONNECTION_ELASTOMERIC, GP_CONNECTION_PINS,
+	GP_CONNECTION_HEAT_SEAL,
+};
+
+/* A value read from the description with its place; given is false when
+ * the key was absent. */
+struct gp_drive_value {
+	bool given;
+	struct gp_where where;
+	double value;
+};
+
+/* The two sections as written; checked against the number of commons
+ * only in gp_drive_resolve, since that comes from the whole design. */
+struct gp_drive_spec {
+	bool has_drive, has_optics;
+	struct gp_where drive_where, optics_where;
+	/* drive: */
+	struct gp_drive_value duty;      /* N of 1/N */
+	struct gp_drive_value bias;      /* a of 1/a; value 0 = best */
+	struct gp_drive_value vop;       /* V */
+	struct gp_drive_value frame_rate;/* Hz */
+	/* optics: */
+	struct gp_drive_value threshold; /* V rms, 10% */
+	struct gp_drive_value saturation;/* V rms, 90% */
+	struct gp_drive_value coefficient;
+	enum gp_drive_tc_unit tc_unit;
+	struct gp_drive_value reference_temperature;  /* degC, default 25 */
+	struct gp_drive_value operating[2];  /* degC */
+	struct gp_drive_value storage[2];
+	struct gp_where operating_where, storage_where;
+	bool has_thickness;
+	int64_t glass_thickness;         /* nm */
+	struct gp_where thickness_where;
+	enum gp_display_mode mode;
+	enum gp_display_type type;
+	enum gp_viewing viewing;
+	enum gp_fluid fluid;
+	enum gp_connection connection;
+	const char *polarizer;           /* borrowed from the spec */
+};
+
+/* Readers for the top-level keys 'drive' and 'optics'; they fill
+ * design->drive.  Errors are recorded at the value's place. */
+bool gp_drive_read(struct gp_design *design, const struct gp_node *node,
+		   struct gp_diag *diag);
+bool gp_optics_read(struct gp_design *design, const struct gp_node *node,
+		    struct gp_diag *diag);
+
+/* Everything a report needs: the spec as written, the number of commons,
+ * and the calculation. */
+struct gp_drive_report {
+	const struct gp_drive_spec *spec;
+	const char *file;               /* description, for messages */
+	const char *part, *revision;    /* may be NULL */
+	long commons;
+	bool duty_from_spec;            /* the design has no commons */
+	struct gp_drive_params params;
+	struct gp_drive_result result;
+};
+
+/* Checks the drive against the design's commons (duty, bias range) and
+ * computes it.  Errors (bad input) at the value's place return false;
+ * an empty Vop window is recorded as an error too, but returns true with
+ * report->result.feasible false.  Warnings for values out of their usual
+ * ranges. */
+bool gp_drive_resolve(const struct gp_design *design,
+		      struct gp_drive_report *report, struct gp_diag *diag);
+
+/* The same from a spec and a number of commons, for callers (and tests)
+ * without a design. */
+bool gp_drive_resolve_spec(const struct gp_drive_spec *spec, long commons,
+			   const char *file, struct gp_drive_report *report,
+			   struct gp_diag *diag);
+
+/* "1/3" for whole a, "1/4.873" otherwise, "static" for N = 1. */
+void gp_drive_bias_text(char *text, size_t size, long commons, double a);
+/* One line saying why the window is empty and what would work, for the
+ * error message and the report; empty when feasible. */
+void gp_drive_advice(const struct gp_drive_report *report, char *text,
+		     size_t size);
+
+/* The drive and ordering-spec report as plain text (UTF-8), appended to
+ * out.  Used by 'glassplot drive', the report and the proof. */
+void gp_drive_format(const struct gp_drive_report *report,
+		     struct gp_buffer *out);
+/* The same as JSON (json-c), appended to out as one object. */
+void gp_drive_format_json(const struct gp_drive_report *report,
+			  struct gp_buffer *out);
+/* A new json-c object (struct json_object *) to embed in a larger
+ * document; the caller puts it.  NULL when out of memory. */
+void *gp_drive_json(const struct gp_drive_report *report);
 
 #endif

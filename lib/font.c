@@ -118,10 +118,13 @@ static bool resolve_pattern(struct gp_font *font, const char *name,
 	if (!found) {
 		gp_diag_error(diag, where,
 			      "font '%s' not found: fontconfig has no family "
-			      "'%s' (it would substitute '%s'); install the font "
-			      "or name an installed family (fc-list lists them) "
-			      "or a font file", name, wanted,
-			      first ? (const char *)first : "?");
+			      "'%s'; install the font or name an installed "
+			      "family (fc-list lists them) or a font file",
+			      name, wanted);
+		/* the substitute depends on the machine: a note, not part of
+		 * the error line */
+		gp_diag_note(diag, where, "fontconfig would substitute '%s'",
+			     first ? (const char *)first : "?");
 		goto out;
 	}
 	FcChar8 *file = NULL;
@@ -597,10 +600,10 @@ static bool missing_glyph(const struct gp_font *font, const char *utf8,
 	uint32_t c = 0;
 	size_t n = gp_utf8_decode(utf8 + cluster, &c);
 	return gp_diag_error(diag, where,
-			     "font '%s %s' (%s) has no glyph for '%.*s' "
-			     "(U+%04X); choose a font that has it or change "
-			     "the text", font->family, font->style, font->file,
-			     (int)n, utf8 + cluster, (unsigned)c);
+			     "font '%s %s' has no glyph for '%.*s' (U+%04X); "
+			     "choose a font that has it or change the text",
+			     font->family, font->style, (int)n, utf8 + cluster,
+			     (unsigned)c);
 }
 
 /* Shapes utf8 and builds each glyph's rings in the text frame. */

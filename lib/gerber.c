@@ -1,6 +1,7 @@
 /* The Gerber RS-274X writer (see gerber.h).  Section numbers in comments
  * refer to the Gerber Layer Format Specification, Ucamco, revision
- * 2024.05. */
+ * 2024.05 (numbers from memory: the rules are the spec's, the numbering
+ * may be off by a subsection). */
 #include "gerber.h"
 
 #include "units.h"
@@ -208,17 +209,28 @@ static bool clear_of_holes(const struct join *join, size_t current,
 }
 
 /* A cut-in from hole vertex m (occurrence mi of hole) to b is valid when
- * it leaves both rings into material and crosses nothing. */
+ * it leaves both rings into material and crosses nothing.  The crossing
+ * test is skipped (clear = false) for the horizontal cut-in to the nearest
+ * point the ray meets: nothing lies between by construction (holes not
+ * yet joined lie at x <= m.x), and contour_valid checks the end result. */
 static bool bridge_ok(const struct join *join, const struct gp_ring *hole,
-		      size_t mi, const struct bridge *b)
+		      size_t mi, const struct bridge *b, bool clear)
 {
 	const struct gp_ring *merged = join->merged;
 	struct gp_point m = hole->points[mi];
 	if (!in_wedge(m, ring_prev(hole, mi), ring_at(hole, mi + 1), b->p))
 		return false;
-	if (!b->insert && !in_wedge(b->p, ring_prev(merged, b->at),
-				    ring_at(merged, b->at + 1), m))
+	if (b->insert) {
+		/* material lies left of the edge: m must be on that side */
+		if (orient(merged->points[b->at], ring_at(merged, b->at + 1),
+			   m) <= 0)
+			return false;
+	} else if (!in_wedge(b->p, ring_prev(merged, b->at),
+			     ring_at(merged, b->at + 1), m)) {
 		return false;
+	}
+	if (!clear)
+		return true;
 	if (!clear_of_ring(merged, m, b->p, &b->p,
 			   b->insert ? b->at : SIZE_MAX))
 		return false;
@@ -256,6 +268,12 @@ static bool horizontal_bridge(const struct join *join,
 		int64_t x = a.x + (int64_t)q;
 		if (x < m.x || (x == m.x && r == 0))
 			continue;
+		/* a hit inside an edge counts from the edge's material side
+		 * only: of a cut-in's two copies, the one facing m */
+		bool at_end = r == 0 && ((x == a.x && m.y == a.y) ||
+					 (x == b.x && m.y == b.y));
+		if (!at_end && orient(a, b, m) <= 0)
+			continue;
 		if (!found || x < best_q ||
 		    (x == best_q && r * best_den < best_r * den)) {
 			found = true;
@@ -272,7 +290,7 @@ static bool horizontal_bridge(const struct join *join,
 		if (!same_point(merged->points[j], p))
 			continue;
 		*out = (struct bridge){ j, false, p };
-		if (bridge_ok(join, hole, mi, out))
+		if (bridge_ok(join, hole, mi, out, false))
 			return true;
 	}
 	struct gp_point a = merged->points[best_edge];
@@ -280,7 +298,7 @@ static bool horizontal_bridge(const struct join *join,
 	if (same_point(a, p) || same_point(b, p))
 		return false;
 	*out = (struct bridge){ best_edge, true, p };
-	return bridge_ok(join, hole, mi, out);
+	return bridge_ok(join, hole, mi, out, false);
 }
 
 struct candidate {
@@ -318,7 +336,8 @@ static bool vertex_bridge(const struct join *join, const struct gp_ring *hole,
 		struct gp_point p = merged->points[list[k].at];
 		*out = (struct bridge){ list[k].at, false, p };
 		/* a hole touching the ring at a vertex joins there directly */
-		found = list[k].distance2 == 0 || bridge_ok(join, hole, mi, out);
+		found = list[k].distance2 == 0 ||
+			bridge_ok(join, hole, mi, out, true);
 	}
 	free(list);
 	return found ? true
@@ -326,7 +345,21 @@ static bool vertex_bridge(const struct join *join, const struct gp_ring *hole,
 				 "(holes overlap or cross the outer ring)");
 }
 
-/* merged := merged with the hole spliced in through the bridge. */
+/* The other copy of edge `at` when that edge is one side of a cut-in
+ * (the same segment run the other way), or SIZE_MAX. */
+static size_t twin_edge(const struct gp_ring *ring, size_t at)
+{
+	struct gp_point a = ring->points[at], b = ring_at(ring, at + 1);
+	for (size_t i = 0; i < ring->count; i++)
+		if (same_point(ring->points[i], b) &&
+		    same_point(ring_at(ring, i + 1), a))
+			return i;
+	return SIZE_MAX;
+}
+
+/* merged := merged with the hole spliced in through the bridge.  A point
+ * inserted into a cut-in goes into both its copies, so that they stay
+ * fully coincident. */
 static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 		   size_t mi, const struct bridge *b)
 {
@@ -335,23 +368,25 @@ static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 	bool ok = true;
 	struct gp_point m = hole->points[mi];
 	bool touching = same_point(m, b->p);
-	for (size_t i = 0; i <= b->at; i++)
-		ok = ok && gp_ring_push(&next, merged->points[i].x,
-					merged->points[i].y);
-	if (b->insert)
+	size_t twin = b->insert ? twin_edge(merged, b->at) : SIZE_MAX;
+	for (size_t i = 0; i < merged->count; i++) {
+		struct gp_point v = merged->points[i];
+		ok = ok && gp_ring_push(&next, v.x, v.y);
+		if (i == twin)
+			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
+		if (i != b->at)
+			continue;
+		if (b->insert)
+			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
+		/* the hole from m round to m; when it touches, m is the
+		 * bridge point itself and is not repeated */
+		for (size_t k = touching ? 1 : 0;
+		     k < (touching ? hole->count : hole->count + 1); k++) {
+			struct gp_point h = ring_at(hole, mi + k);
+			ok = ok && gp_ring_push(&next, h.x, h.y);
+		}
 		ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
-	/* the hole from m round to m; when it touches, m is the vertex */
-	for (size_t k = touching ? 1 : 0; k <= hole->count; k++) {
-		if (touching && k == hole->count)
-			break;
-		struct gp_point h = ring_at(hole, mi + k);
-		ok = ok && gp_ring_push(&next, h.x, h.y);
 	}
-	if (b->insert)
-		ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
-	for (size_t i = b->insert ? b->at + 1 : b->at; i < merged->count; i++)
-		ok = ok && gp_ring_push(&next, merged->points[i].x,
-					merged->points[i].y);
 	if (!ok) {
 		gp_ring_finish(&next);
 		return false;
@@ -359,6 +394,43 @@ static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 	gp_ring_finish(merged);
 	*merged = next;
 	return true;
+}
+
+/* A hole that touches the merged ring at one of its vertices (valid for
+ * OGC and GEOS) joins there with no cut-in at all: the contour then
+ * passes that point twice, as a vertex both times, instead of having a
+ * vertex of the hole lie inside an edge of the ring. */
+static bool touching_bridge(const struct join *join,
+			    const struct gp_ring *hole, size_t *mi,
+			    struct bridge *out)
+{
+	const struct gp_ring *merged = join->merged;
+	struct gp_box hb = gp_box_none();
+	for (size_t k = 0; k < hole->count; k++)
+		hb = gp_box_union(hb, gp_box_make(hole->points[k].x,
+						  hole->points[k].y,
+						  hole->points[k].x,
+						  hole->points[k].y));
+	for (size_t i = 0; i < merged->count; i++) {
+		struct gp_point a = merged->points[i], b = ring_at(merged, i + 1);
+		/* most edges are nowhere near the hole */
+		if ((a.x < hb.x0 && b.x < hb.x0) || (a.x > hb.x1 && b.x > hb.x1) ||
+		    (a.y < hb.y0 && b.y < hb.y0) || (a.y > hb.y1 && b.y > hb.y1))
+			continue;
+		for (size_t k = 0; k < hole->count; k++) {
+			struct gp_point h = hole->points[k];
+			if (same_point(a, h))
+				*out = (struct bridge){ i, false, h };
+			else if (!same_point(b, h) && orient(a, b, h) == 0 &&
+				 on_segment(a, b, h))
+				*out = (struct bridge){ i, true, h };
+			else
+				continue;
+			*mi = k;
+			return true;
+		}
+	}
+	return false;
 }
 
 static size_t max_x_vertex(const struct gp_ring *ring)
@@ -379,13 +451,105 @@ static bool join_all(struct join *join, const char **why)
 			&join->holes[join->order[join->done].index];
 		size_t mi = max_x_vertex(hole);
 		struct bridge b;
-		if (!horizontal_bridge(join, hole, mi, &b) &&
+		if (!touching_bridge(join, hole, &mi, &b) &&
+		    !horizontal_bridge(join, hole, mi, &b) &&
 		    !vertex_bridge(join, hole, mi, &b, why))
 			return false;
 		if (!splice(join->merged, hole, mi, &b))
 			return fail(why, "out of memory");
 	}
 	return true;
+}
+
+struct span {
+	int64_t x0, x1;
+	size_t index;
+};
+
+static int compare_spans(const void *pa, const void *pb)
+{
+	const struct span *a = pa, *b = pb;
+	if (a->x0 != b->x0)
+		return a->x0 < b->x0 ? -1 : 1;
+	return a->index < b->index ? -1 : a->index > b->index;
+}
+
+/* May segments i < j of a contour meet as they do?  Spec 4.10.3: no
+ * crossing or overlap, except fully coincident segments (cut-ins);
+ * segments may share a vertex (neighbours always do) but no more. */
+static bool segments_allowed(const struct gp_ring *r, size_t i, size_t j)
+{
+	struct gp_point a = r->points[i], b = ring_at(r, i + 1);
+	struct gp_point c = r->points[j], d = ring_at(r, j + 1);
+	if (!segments_touch(a, b, c, d))
+		return true;
+	if (same_point(a, d) && same_point(b, c))
+		return true; /* a cut-in pair */
+	bool shared = same_point(a, c) || same_point(a, d) ||
+		      same_point(b, c) || same_point(b, d);
+	if (!shared || same_point(a, b) || same_point(c, d))
+		return false;
+	/* sharing a vertex: the far end of either may not lie on the other */
+	struct gp_point c_far = same_point(c, a) || same_point(c, b) ? d : c;
+	struct gp_point a_far = same_point(a, c) || same_point(a, d) ? b : a;
+	return !(orient(a, b, c_far) == 0 && on_segment(a, b, c_far)) &&
+	       !(orient(c, d, a_far) == 0 && on_segment(c, d, a_far));
+}
+
+/* Checks the joined contour (a sweep over x, so nearly linear for the
+ * shapes we draw): what the holes' cut-ins promise, and what a bad input
+ * (holes that overlap or leave the outer ring) breaks. */
+static bool contour_valid(const struct gp_ring *r, const char **why)
+{
+	size_t n = r->count;
+	struct span *spans = malloc(n * sizeof(*spans));
+	if (!spans)
+		return fail(why, "out of memory");
+	for (size_t i = 0; i < n; i++) {
+		int64_t xa = r->points[i].x, xb = ring_at(r, i + 1).x;
+		spans[i] = (struct span){ xa < xb ? xa : xb, xa < xb ? xb : xa,
+					  i };
+	}
+	qsort(spans, n, sizeof(*spans), compare_spans);
+	bool ok = true;
+	for (size_t k = 0; k < n && ok; k++)
+		for (size_t l = k + 1; l < n && ok && spans[l].x0 <= spans[k].x1;
+		     l++) {
+			size_t i = spans[k].index, j = spans[l].index;
+			ok = segments_allowed(r, i < j ? i : j, i < j ? j : i);
+		}
+	free(spans);
+	return ok ? true
+		  : fail(why, "a filled shape crosses itself, or its holes "
+			      "overlap or leave the outer ring");
+}
+
+/* Where p lies against ring: 1 inside, 0 on it, -1 outside (exact
+ * crossing count of the ray towards +x). */
+static int locate(const struct gp_ring *ring, struct gp_point p)
+{
+	bool inside = false;
+	for (size_t i = 0; i < ring->count; i++) {
+		struct gp_point a = ring->points[i], b = ring_at(ring, i + 1);
+		wide o = orient(a, b, p);
+		if (o == 0 && on_segment(a, b, p))
+			return 0;
+		if ((a.y > p.y) != (b.y > p.y) && (o > 0) == (b.y > a.y))
+			inside = !inside;
+	}
+	return inside ? 1 : -1;
+}
+
+/* With no crossings (checked later), a hole is inside the outer ring when
+ * any of its vertices off the ring is. */
+static bool hole_inside(const struct gp_ring *outer, const struct gp_ring *hole)
+{
+	for (size_t i = 0; i < hole->count; i++) {
+		int where = locate(outer, hole->points[i]);
+		if (where != 0)
+			return where > 0;
+	}
+	return false;
 }
 
 bool gp_gerber_join_holes(struct gp_ring *contour,
@@ -405,12 +569,16 @@ bool gp_gerber_join_holes(struct gp_ring *contour,
 	for (size_t i = 0; i < n; i++) {
 		if (!prepare_ring(&holes[i], &poly->holes[i], false, why))
 			goto out;
+		if (!hole_inside(contour, &holes[i])) {
+			fail(why, "a hole lies outside its outer ring");
+			goto out;
+		}
 		order[i] = (struct hole_order){
 			holes[i].points[max_x_vertex(&holes[i])].x, i };
 	}
 	qsort(order, n, sizeof(*order), compare_holes);
 	struct join join = { contour, holes, order, n, 0 };
-	ok = join_all(&join, why);
+	ok = join_all(&join, why) && contour_valid(contour, why);
 out:
 	for (size_t i = 0; holes && i < n; i++)
 		gp_ring_finish(&holes[i]);

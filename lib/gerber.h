@@ -57,11 +57,17 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 bool gp_gerber_format_date(char *buffer, size_t size, int64_t epoch);
 
 /* Joins the holes of poly to its outer ring with cut-ins (pairs of fully
- * coincident segments), giving one contour whose interior is the polygon:
- * outer ring counter-clockwise, each hole clockwise, cut-ins horizontal
- * wherever the horizontal ray from a hole meets the ring at a point with
- * integer coordinates.  The result has no zero-length segment and is not
- * explicitly closed.  Exposed for the tests. */
+ * coincident segments run both ways), giving one contour whose interior is
+ * the polygon: outer ring counter-clockwise, each hole clockwise.  A
+ * cut-in is horizontal wherever the ray from the hole's rightmost vertex
+ * meets the ring at a point with integer coordinates, otherwise it goes to
+ * a vertex the hole sees; a hole touching the ring at a point joins there
+ * with no cut-in.  The result has no zero-length segment, is not
+ * explicitly closed, and is checked: no two segments cross or overlap
+ * except cut-in pairs, segments share at most a vertex (Gerber Layer
+ * Format Specification 2024.05, 4.10.3).  poly must be a valid polygon
+ * (holes inside the outer ring, neither crossing); false otherwise.  Cost
+ * grows with holes x points: 900 holes take ~35 ms, 10000 ~3 s. */
 bool gp_gerber_join_holes(struct gp_ring *contour,
 			  const struct gp_polygon *poly, const char **why);
 

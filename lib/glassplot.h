@@ -64,6 +64,22 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design);
 /* Lays out and routes the design.  Returns NULL on failure. */
 GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 					   struct gp_diag *diag);
+/* The same, calling progress(stage, data) as each stage starts, so that a
+ * program can show progress on long runs. */
+GP_EXPORT struct gp_build *gp_build_create_with_progress(
+	const struct gp_design *design,
+	void (*progress)(const char *stage, void *data), void *data,
+	struct gp_diag *diag);
+/* Dates in the outputs come from epoch (seconds, as SOURCE_DATE_EPOCH);
+ * without it no output carries a date. */
+GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch);
+/* Write only these kinds of output: a comma-separated list of gerber,
+ * proof, pins, firmware, report (checksums.sha256 is always written).
+ * False, with a message, for an unknown kind. */
+GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
+			       struct gp_diag *diag);
+/* Files read besides the description (fonts...), one per line. */
+GP_EXPORT const char *gp_build_inputs(const struct gp_build *build);
 GP_EXPORT void gp_build_destroy(struct gp_build *build);
 /* Writes every output into folder, all or nothing.  Afterwards the
  * summary ends with the list of files written. */
@@ -72,6 +88,41 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 /* A short human summary (plates, blocks, nets, pixels, files), owned by
  * the build, valid until it is destroyed. */
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build);
+/* The same summary as a JSON object (regenerated at each call, owned by
+ * the build). */
+GP_EXPORT const char *gp_build_summary_json(struct gp_build *build);
+/* Names of the files written by the last gp_build_write, one per line. */
+GP_EXPORT const char *gp_build_written(const struct gp_build *build);
+
+/* --- comparing two builds ---------------------------------------------- */
+struct gp_diff;
+/* Compares, per layer and per net, what was added, removed, moved or
+ * reshaped between two builds.  Both builds must outlive the call only. */
+GP_EXPORT struct gp_diff *gp_diff_create(const struct gp_build *old_build,
+					 const struct gp_build *new_build,
+					 struct gp_diag *diag);
+GP_EXPORT void gp_diff_destroy(struct gp_diff *diff);
+GP_EXPORT bool gp_diff_identical(const struct gp_diff *diff);
+/* One line per change, then a count; owned by the diff. */
+GP_EXPORT const char *gp_diff_text(const struct gp_diff *diff);
+/* A PDF page with the changed areas in colour. */
+GP_EXPORT bool gp_diff_write_pdf(const struct gp_diff *diff, const char *path,
+				 struct gp_diag *diag);
+
+/* --- drive and optics ------------------------------------------------------ */
+enum gp_drive_output {
+	GP_DRIVE_TEXT,
+	GP_DRIVE_JSON,
+};
+/* The drive and ordering-spec report of the design (multiplex voltages,
+ * Vop window, bias ladder, temperature, timing, ordering fields) as UTF-8
+ * text or JSON.  Returns a string to release with free(), or NULL on bad
+ * input (diag says where and why).  *feasible becomes false when no Vop
+ * can switch the fluid at this duty; the report and an error in diag then
+ * say what would work. */
+GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
+				       enum gp_drive_output output,
+				       bool *feasible, struct gp_diag *diag);
 
 #ifdef __cplusplus
 }

@@ -114,6 +114,12 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "icons", false)))
+		r.ok &= gp_icons_read(design, node, diag);
+	if ((node = gp_read_node(&r, "drive", false)))
+		r.ok &= gp_drive_read(design, node, diag);
+	if ((node = gp_read_node(&r, "optics", false)))
+		r.ok &= gp_optics_read(design, node, diag);
 	return gp_reader_end(&r);
 }
 
@@ -147,6 +153,7 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design)
 	if (!design)
 		return;
 	free(design->blocks);
+	gp_icons_free(design);
 	gp_spec_destroy(design->spec);
 	free(design);
 }

@@ -6,6 +6,8 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "drive.h"
+#include "font.h"
 #include "geom.h"
 #include "spec.h"
 
@@ -54,6 +56,53 @@ struct gp_block {
 	struct gp_where commons_from_where;
 };
 
+#define GP_MAX_ICONS 4096
+#define GP_MAX_ICON_POINTS 4096   /* corners of one polygon icon */
+
+enum gp_icon_kind {
+	GP_ICON_TEXT,
+	GP_ICON_RECTANGLE,
+	GP_ICON_ROUNDED_RECTANGLE,
+	GP_ICON_CIRCLE,
+	GP_ICON_RING,
+	GP_ICON_TRIANGLE,
+	GP_ICON_ARROW,
+	GP_ICON_POLYGON,
+};
+
+/* An icon: text set in a font or a shape, lit by one (common, segment)
+ * pair.  position is the text's alignment point, a shape's centre, or the
+ * point a polygon's corners are given from.  Shapes turn by rotation
+ * (anticlockwise) about position after mirror (x -> -x). */
+struct gp_icon {
+	const char *name;
+	struct gp_where where;
+	enum gp_icon_kind kind;
+	struct gp_point position;
+	int rotation;             /* 0, 90, 180, 270 */
+	bool mirror;
+	/* text */
+	const char *text;
+	const char *font;         /* fontconfig pattern or file */
+	struct gp_where text_where, font_where;
+	struct gp_text_style style;
+	/* shapes, nm */
+	int64_t size[2];          /* rectangles; triangle: base, height;
+				   * arrow: length, head width */
+	int64_t radius;           /* rounded rectangle corners */
+	int64_t diameter;         /* circle, ring (outside) */
+	int64_t line;             /* ring width; arrow shaft width */
+	int64_t head;             /* arrow head length */
+	struct gp_point *points;  /* polygon corners, from position */
+	size_t point_count;
+	/* multiplex: a named icon common, or a dot-matrix row's common */
+	const char *common;       /* NULL when shared with a block row */
+	int common_block;         /* block index, or -1 */
+	long common_row;          /* dot row over the whole block, 0-based */
+	const char *segment;
+	struct gp_where common_where, segment_where;
+};
+
 struct gp_design {
 	struct gp_spec *spec;
 	const char *part;
@@ -67,6 +116,9 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_icon *icons;
+	size_t icon_count;
+	struct gp_drive_spec drive;   /* sections 'drive' and 'optics' */
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
@@ -75,9 +127,20 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 
 enum gp_plate gp_common_plate(const struct gp_design *design);
 
+/* Number of commons (COM nets) the design drives: the duty is 1/N. */
+int gp_design_common_count(const struct gp_design *design);
+
 /* Section readers, one per module. */
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag);
+/* Reads the 'icons' section (after 'blocks' and 'rules'). */
+bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
+		   struct gp_diag *diag);
+/* Commons the icons add: their named icon commons (a block row's common
+ * shared by an icon adds none). */
+int gp_icons_common_count(const struct gp_design *design);
+/* Frees what gp_icons_read allocated. */
+void gp_icons_free(struct gp_design *design);
 /* Top-left corner of dot (row, col) of cell (line, cell) of a block,
  * computed from the origin directly: the span is the datum. */
 struct gp_point gp_block_dot(const struct gp_block *block, long line,

@@ -3,14 +3,17 @@
  * tests:
  *
  *   gerbv-check [--gerbv PATH] [--dpi N] [--area MM2 --perimeter MM]
- *               [--extent X0,Y0,X1,Y1] [--png OUT.png] FILE.gbr
+ *               [--extent X0,Y0,X1,Y1] [--window X0,Y0,X1,Y1]
+ *               [--png OUT.png] [--expect-mismatch] FILE.gbr
  *
  * The window rendered is --window X0,Y0,X1,Y1 (mm, glass frame) or else
  * the expected extent, widened by a few pixels.  --area needs --perimeter
  * (the total boundary length, mm) for its tolerance of one pixel along the
- * whole boundary.  Prints the measured values on stdout.  Exit 0 when
- * gerbv raised no complaint and everything agrees, 1 when not, 2
- * on usage errors or when gerbv cannot be run. */
+ * whole boundary.  --expect-mismatch inverts the verdict for tests that
+ * show the check can fail: exit 0 only when gerbv read the file without a
+ * complaint and the area or extent disagree.  Prints the measured values
+ * on stdout.  Exit 0 when gerbv raised no complaint and everything agrees,
+ * 1 when not, 2 on usage errors or when gerbv cannot be run. */
 #include "gerbv-render.h"
 
 #include <stdio.h>
@@ -20,7 +23,7 @@
 static void usage(FILE *to)
 {
 	fputs("usage: gerbv-check [--gerbv PATH] [--dpi N] "
-	      "[--area MM2 --perimeter MM]\n"
+	      "[--area MM2 --perimeter MM] [--expect-mismatch]\n"
 	      "                   [--extent X0,Y0,X1,Y1] "
 	      "[--window X0,Y0,X1,Y1] [--png OUT.png] FILE.gbr\n",
 	      to);
@@ -46,6 +49,7 @@ struct options {
 	double dpi;
 	double window[4];
 	bool have_window;
+	bool expect_mismatch;
 	struct gerbv_expect expect;
 };
 
@@ -59,7 +63,10 @@ static bool parse(int argc, char **argv, struct options *o)
 		bool ok = v != NULL;
 		if (strcmp(a, "--gerbv") == 0 && v)
 			o->gerbv = v;
-		else if (strcmp(a, "--png") == 0 && v)
+		else if (strcmp(a, "--expect-mismatch") == 0) {
+			o->expect_mismatch = true;
+			continue;
+		} else if (strcmp(a, "--png") == 0 && v)
 			o->png = v;
 		else if (strcmp(a, "--dpi") == 0 && v)
 			ok = parse_number(v, &o->dpi) && o->dpi > 0;
@@ -127,6 +134,13 @@ int main(int argc, char **argv)
 	bool ok = gerbv_compare(&r, &o.expect, why, sizeof(why));
 	if (!ok)
 		fprintf(stderr, "gerbv-check: %s: %s\n", o.file, why);
+	if (o.expect_mismatch) {
+		/* a clean reading that disagrees: proves the check can fail */
+		ok = !ok && r.complaints[0] == '\0';
+		if (!ok)
+			fprintf(stderr, "gerbv-check: %s: expected a clean "
+				"reading that disagrees\n", o.file);
+	}
 	gerbv_result_finish(&r);
 	return ok ? 0 : 1;
 }

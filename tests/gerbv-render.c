@@ -16,6 +16,7 @@
 void gerbv_result_finish(struct gerbv_result *result)
 {
 	free(result->complaints);
+	free(result->mask);
 	memset(result, 0, sizeof(*result));
 }
 
@@ -107,6 +108,11 @@ static bool measure_png(const char *png, double left_mm, double top_mm,
 	int stride = cairo_image_surface_get_stride(s);
 	const unsigned char *data = cairo_image_surface_get_data(s);
 	int px0 = w, px1 = -1, py0 = h, py1 = -1;
+	r->mask = calloc((size_t)w * (size_t)h + 1, 1);
+	if (!r->mask) {
+		cairo_surface_destroy(s);
+		return false;
+	}
 	for (int y = 0; y < h; y++) {
 		for (int x = 0; x < w; x++) {
 			uint32_t p;
@@ -117,6 +123,7 @@ static bool measure_png(const char *png, double left_mm, double top_mm,
 			if (light >= 3 * 128)
 				continue;
 			r->dark++;
+			r->mask[(size_t)y * (size_t)w + (size_t)x] = 1;
 			px0 = x < px0 ? x : px0;
 			px1 = x > px1 ? x : px1;
 			py0 = y < py0 ? y : py0;
@@ -126,6 +133,8 @@ static bool measure_png(const char *png, double left_mm, double top_mm,
 	cairo_surface_destroy(s);
 	r->width = w;
 	r->height = h;
+	r->left_mm = left_mm;
+	r->top_mm = top_mm;
 	r->area_mm2 = (double)r->dark * r->pixel_mm * r->pixel_mm;
 	r->any_dark = r->dark > 0;
 	if (r->any_dark) {
@@ -222,4 +231,14 @@ bool gerbv_compare(const struct gerbv_result *r,
 		}
 	}
 	return true;
+}
+
+bool gerbv_result_dark_at(const struct gerbv_result *r, double x, double y)
+{
+	double col = floor((x - r->left_mm) / r->pixel_mm);
+	double row = floor((r->top_mm - y) / r->pixel_mm);
+	if (!r->mask || col < 0 || row < 0 || col >= r->width ||
+	    row >= r->height)
+		return false;
+	return r->mask[(size_t)row * (size_t)r->width + (size_t)col] != 0;
 }

@@ -38,7 +38,14 @@ struct gerbv_result {
 	bool dark_on_border;      /* drawing may run past the window */
 	int known_notes;          /* %TF% notes seen (and ignored) */
 	char *complaints;         /* other stderr lines, "" when none; owned */
+	/* the window: one byte per pixel, 1 where dark, rows from the top */
+	unsigned char *mask;
+	double left_mm, top_mm;   /* corner of the window in the glass frame */
 };
+
+/* Is the pixel that holds (x, y) mm dark?  False outside the window. */
+bool gerbv_result_dark_at(const struct gerbv_result *result, double x,
+			  double y);
 
 /* Renders gbr with gerbv (program path or name, NULL for "gerbv") into
  * png and measures it.  False when gerbv could not be run or no PNG came

@@ -16,8 +16,12 @@
 #include <cmocka.h>
 
 #include "drive.h"
+#include "model.h"
 
+#include <json-c/json.h>
 #include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 /* values are quoted to 3 decimals, so half a unit in the last place */
@@ -310,6 +314,336 @@ static void test_single_threshold(void **state)
 	assert_near(r.vop * r.von, 1.5 * 1.732, 0.002);
 }
 
+
+/* The window is empty exactly when the selection ratio is below Vsat/Vth
+ * (its definition: Voff <= Vth and Von >= Vsat), and every suggestion made
+ * for an empty one really works.  Fixed seed, so a failure replays. */
+static void test_window_property(void **state)
+{
+	(void)state;
+	unsigned seed = 12345;
+	for (int i = 0; i < 20000; i++) {
+		seed = seed * 1103515245u + 12345u;
+		long n = 2 + (long)(seed >> 8) % 400;
+		seed = seed * 1103515245u + 12345u;
+		double a = 2.0 + (double)((seed >> 8) % 1000) / 999.0 *
+					 ((double)n - 1.0);
+		seed = seed * 1103515245u + 12345u;
+		double steep = 1.0 + (double)((seed >> 8) % 1000 + 1) / 1000.0;
+		struct gp_drive_params p = {
+			.commons = n, .bias = a, .vth = 1.7, .vsat = 1.7 * steep,
+		};
+		struct gp_drive_result r;
+		assert_true(gp_drive_compute(&p, &r));
+		bool switches = r.ratio >= steep;
+		if (fabs(r.ratio - steep) > 1e-9)
+			assert_int_equal(r.feasible, switches);
+		if (r.feasible) {
+			assert_true(r.window.low <= r.window.recommended);
+			assert_true(r.window.recommended <= r.window.high);
+			assert_true(r.window.recommended * r.voff <=
+				    1.7 * (1 + 1e-12));
+			assert_true(r.window.recommended * r.von >=
+				    1.7 * steep * (1 - 1e-12));
+			continue;
+		}
+		if (r.bias_fix) {
+			assert_true(gp_drive_ratio(n, r.bias_low) >=
+				    steep - 1e-9);
+			assert_true(gp_drive_ratio(n, r.bias_high) >=
+				    steep - 1e-9);
+			/* and it is the whole range */
+			if (r.bias_low > 2.001)
+				assert_true(gp_drive_ratio(n, r.bias_low -
+								      1e-3) <
+					    steep);
+			if (r.bias_high < (double)n + 0.999)
+				assert_true(gp_drive_ratio(n, r.bias_high +
+								      1e-3) <
+					    steep);
+		} else {
+			assert_true(r.ratio_max < steep);
+		}
+		if (r.max_commons >= 2) {
+			assert_true(gp_drive_ratio_max(r.max_commons) >= steep);
+			assert_true(gp_drive_ratio_max(r.max_commons + 1) <
+				    steep);
+		}
+		if (r.max_commons_whole >= 2)
+			assert_true(gp_drive_ratio(r.max_commons_whole,
+						   (double)r.max_commons_whole_bias) >=
+				    steep);
+		if (r.max_commons_at_bias >= 2) {
+			assert_true(gp_drive_ratio(r.max_commons_at_bias, a) >=
+				    steep);
+			assert_true(r.max_commons_at_bias < n);
+		}
+	}
+}
+
+/* --- descriptions --------------------------------------------------------- */
+
+/* Twelve lines of glass around the sections under test, which therefore
+ * start on line 13. */
+static const char base[] = "glass:\n"
+			   "  part: TST-1\n"
+			   "  revision: A\n"
+			   "front:\n"
+			   "  size: [40, 30]\n"
+			   "  position: [0, 0]\n"
+			   "back:\n"
+			   "  size: [40, 25]\n"
+			   "  position: [0, 5]\n"
+			   "viewing_area:\n"
+			   "  position: [2, 8]\n"
+			   "  size: [36, 20]\n";
+
+/* One 1-line block of 5x8 cells: 8 commons. */
+static const char block8[] = "blocks:\n"
+			     "  b:\n"
+			     "    origin: [3, 26]\n"
+			     "    cells: [4, 1]\n"
+			     "    dots: [5, 8]\n"
+			     "    dot_size: [0.45, 0.5]\n"
+			     "    dot_pitch: [0.5, 0.55]\n"
+			     "    cell_pitch: 3\n"
+			     "    line_pitch: 5\n";
+
+struct loaded {
+	struct gp_diag diag;
+	struct gp_design *design;
+	struct gp_drive_report report;
+	bool resolved;
+};
+
+static void load(struct loaded *l, const char *first, const char *second)
+{
+	char text[4096];
+	snprintf(text, sizeof(text), "%s%s%s", base, first,
+		 second ? second : "");
+	gp_diag_init(&l->diag);
+	l->design = gp_design_load_buffer("t.yaml", text, strlen(text), NULL,
+					  0, &l->diag);
+	l->resolved = l->design &&
+		      gp_drive_resolve(l->design, &l->report, &l->diag);
+}
+
+static void unload(struct loaded *l)
+{
+	gp_design_destroy(l->design);
+	gp_diag_finish(&l->diag);
+}
+
+static const char *first_error(const struct loaded *l)
+{
+	for (size_t i = 0; i < l->diag.count; i++)
+		if (l->diag.entries[i].severity == GP_SEVERITY_ERROR)
+			return l->diag.entries[i].message;
+	return "(no error)";
+}
+
+static void test_read_full(void **state)
+{
+	(void)state;
+	struct loaded l;
+	load(&l,
+	     "drive:\n"
+	     "  bias: best\n"
+	     "  frame_rate: 80\n"
+	     "optics:\n"
+	     "  mode: negative\n"
+	     "  type: transmissive\n"
+	     "  viewing_direction: 12 o'clock\n"
+	     "  fluid: HTN\n"
+	     "  threshold: 1.8\n"
+	     "  saturation: 2.2\n"
+	     "  temperature_coefficient: -6 mV/C\n"
+	     "  reference_temperature: 20\n"
+	     "  operating_temperature: [-10, 60]\n"
+	     "  storage_temperature: [-20, 70]\n"
+	     "  glass_thickness: 0.55\n"
+	     "  connection: pins\n"
+	     "  polarizer: transmissive, anti-glare\n",
+	     block8);
+	assert_true(l.resolved);
+	const struct gp_drive_spec *s = &l.design->drive;
+	assert_int_equal(s->mode, GP_MODE_NEGATIVE);
+	assert_int_equal(s->type, GP_TYPE_TRANSMISSIVE);
+	assert_int_equal(s->viewing, GP_VIEWING_12);
+	assert_int_equal(s->fluid, GP_FLUID_HTN);
+	assert_int_equal(s->connection, GP_CONNECTION_PINS);
+	assert_int_equal(s->tc_unit, GP_DRIVE_TC_MILLIVOLT);
+	assert_int_equal(s->glass_thickness, 550000);
+	assert_string_equal(s->polarizer, "transmissive, anti-glare");
+	const struct gp_drive_result *r = &l.report.result;
+	/* one line of 5x8 cells: 8 commons (issue 2's net order) */
+	assert_int_equal(r->commons, 8);
+	/* Alt & Pleshko 1974: best bias 1/(sqrt 8 + 1) = 1/3.828 */
+	assert_near(r->bias, 3.828, TOL3);
+	assert_near(r->ratio, gp_drive_ratio_max(8), 1e-12);
+	assert_true(r->feasible);
+	assert_true(r->window.low < r->vop && r->vop < r->window.high);
+	/* -6 mV/C on 1.8 V over 20 -> -10 degC: 1 + 0.18/1.8 = 1.1 */
+	assert_near(r->cold.factor, 1.1, 1e-12);
+	assert_near(r->hot.factor, 1.0 - 0.24 / 1.8, 1e-12);
+
+	struct gp_buffer out;
+	gp_buffer_init(&out);
+	gp_drive_format(&l.report, &out);
+	assert_false(out.failed);
+	assert_non_null(strstr(out.data, "not a peak-to-peak value"));
+	assert_non_null(strstr(out.data, "span of the bias ladder"));
+	assert_non_null(strstr(out.data, "12 o'clock"));
+	assert_non_null(strstr(out.data, "0.55 mm"));
+	assert_non_null(strstr(out.data, "commons N                  8 "
+					 "(duty 1/8)"));
+	gp_buffer_finish(&out);
+
+	gp_buffer_init(&out);
+	gp_drive_format_json(&l.report, &out);
+	struct json_object *json = json_tokener_parse(out.data);
+	assert_non_null(json);
+	struct json_object *multiplex, *commons, *order, *duty;
+	assert_true(json_object_object_get_ex(json, "multiplex", &multiplex));
+	assert_true(json_object_object_get_ex(multiplex, "commons", &commons));
+	assert_int_equal(json_object_get_int(commons), 8);
+	assert_true(json_object_object_get_ex(json, "order", &order));
+	assert_true(json_object_object_get_ex(order, "duty", &duty));
+	assert_string_equal(json_object_get_string(duty), "1/8");
+	json_object_put(json);
+	gp_buffer_finish(&out);
+	unload(&l);
+}
+
+static void test_read_infeasible(void **state)
+{
+	(void)state;
+	/* 1/64 duty, Vsat/Vth = 1.3: Alt & Pleshko 1974 limit 1.134 */
+	struct loaded l;
+	load(&l,
+	     "drive:\n"
+	     "  duty: 1/64\n"
+	     "  bias: best\n"
+	     "optics:\n"
+	     "  threshold: 2\n"
+	     "  saturation: 2.6\n",
+	     NULL);
+	assert_true(l.resolved);
+	assert_false(l.report.result.feasible);
+	assert_string_equal(
+		first_error(&l),
+		"t.yaml:15:9: duty 1/64 with bias 1/9 cannot switch this "
+		"fluid: the selection ratio 1.134 is below Vsat/Vth = 1.300, "
+		"so no Vop gives Voff <= Vth and Von >= Vsat; even the best "
+		"bias 1/9 reaches only 1.134 (Alt-Pleshko limit); the largest "
+		"duty that can is 1/15 with bias 1/4.873 (or the whole-number "
+		"bias 1/5)");
+	struct gp_buffer out;
+	gp_buffer_init(&out);
+	gp_drive_format(&l.report, &out);
+	assert_non_null(strstr(out.data, "window                     EMPTY"));
+	gp_buffer_finish(&out);
+	unload(&l);
+}
+
+struct bad_case {
+	const char *drive;
+	const char *blocks;
+	const char *message;
+};
+
+static void test_bad_input(void **state)
+{
+	(void)state;
+	static const struct bad_case cases[] = {
+		/* N < 1 is about the design, so it has no line */
+		{ "optics:\n  threshold: 2\n", NULL,
+		  "t.yaml: the design has no commons (N < 1), so there is "
+		  "nothing to drive; add a display element, or give 'drive: "
+		  "duty: 1/N' for a drive-only description" },
+		{ "drive:\n  duty: 1/0\n", NULL,
+		  "t.yaml:14:9: 'duty' 1/0 needs N from 1 to 100000 commons" },
+		{ "drive:\n  duty: 1/4\n", block8,
+		  "t.yaml:14:9: 'duty' 1/4 does not match the design, which "
+		  "has 8 commons (duty 1/8); remove 'duty' or fix the design" },
+		{ "drive:\n  bias: 1/1.5\n", block8,
+		  "t.yaml:14:9: 'bias' 1/1.5 is outside 1/2 ... 1/(N+1): the "
+		  "bias ladder needs a >= 2 in 1/a" },
+		{ "drive:\n  bias: 1/10\n", block8,
+		  "t.yaml:14:9: 'bias' 1/10 is outside 1/2 ... 1/9 for 8 "
+		  "commons: a bias below 1/(N+1) only lowers the selection "
+		  "ratio" },
+		{ "drive:\n  bias: half\n", block8,
+		  "t.yaml:14:9: 'bias' must be written 1/a (like 1/3 or "
+		  "1/4.5) or 'best', got 'half'" },
+		{ "optics:\n  threshold: 2\n  saturation: 2\n", block8,
+		  "t.yaml:15:15: 'saturation' 2 V must be above 'threshold' "
+		  "2 V: saturation is the 90% contrast voltage, threshold the "
+		  "10% one" },
+		{ "optics:\n  threshold: 2.5\n  saturation: 2.4\n", block8,
+		  "t.yaml:15:15: 'saturation' 2.4 V must be above 'threshold' "
+		  "2.5 V: saturation is the 90% contrast voltage, threshold "
+		  "the 10% one" },
+		{ "optics:\n  threshold: -1.5\n", block8,
+		  "t.yaml:14:14: 'threshold' cannot be negative (volts rms at "
+		  "10% contrast), got -1.5" },
+		{ "drive:\n  vop: -5\n", block8,
+		  "t.yaml:14:8: 'vop' cannot be negative (volts, the full "
+		  "ladder span), got -5" },
+		{ "optics:\n  operating_temperature: [70, -20]\n", block8,
+		  "t.yaml:14:26: 'operating_temperature' is upside down: 70 "
+		  "is above -20; write [lowest, highest]" },
+		{ "optics:\n  storage_temperature: [85, -40]\n", block8,
+		  "t.yaml:14:24: 'storage_temperature' is upside down: 85 is "
+		  "above -40; write [lowest, highest]" },
+		{ "optics:\n  temperature_coefficient: -0.3\n", block8,
+		  "t.yaml:14:28: 'temperature_coefficient' must be a number "
+		  "with its unit, %/C (of the threshold) or mV/C, like '-0.3 "
+		  "%/C' or '-8 mV/C'; got '-0.3'" },
+		{ "optics:\n  threshold: 2\n  temperature_coefficient: -3 %/C\n"
+		  "  operating_temperature: [-20, 70]\n",
+		  block8,
+		  "t.yaml:15:28: 'temperature_coefficient' takes the "
+		  "threshold to 0 V or below at 70 \u00b0C; check its value "
+		  "and unit" },
+		{ "optics:\n  viewing_direction: 3 o'clock\n", block8,
+		  "t.yaml:14:22: 'viewing_direction' value '3 o'clock' is not "
+		  "known; did you mean '6 o'clock'? (one of: 6 o'clock, 12 "
+		  "o'clock, 6, 12)" },
+	};
+	for (size_t i = 0; i < sizeof(cases) / sizeof(cases[0]); i++) {
+		struct loaded l;
+		load(&l, cases[i].drive, cases[i].blocks);
+		if (l.resolved || strcmp(first_error(&l), cases[i].message))
+			fail_msg("case %zu: resolved %d, got\n  %s\nexpected\n"
+				 "  %s",
+				 i, l.resolved, first_error(&l),
+				 cases[i].message);
+		unload(&l);
+	}
+}
+
+static void test_static_description(void **state)
+{
+	(void)state;
+	/* one common: static drive, bias ignored with a warning */
+	struct loaded l;
+	load(&l,
+	     "drive:\n  duty: static\n  bias: 1/3\n"
+	     "optics:\n  threshold: 1.5\n  saturation: 2\n",
+	     NULL);
+	assert_true(l.resolved);
+	assert_true(l.report.result.is_static);
+	/* LCD driver tables, from memory: static Von = Vop, Voff = 0 */
+	assert_near(l.report.result.von, 1.0, TOL3);
+	assert_near(l.report.result.voff, 0.0, TOL3);
+	assert_int_equal(l.diag.errors, 0);
+	assert_string_equal(l.diag.entries[0].message,
+			    "t.yaml:15:9: 'bias' is ignored: one common is "
+			    "static drive, which has no bias ladder");
+	unload(&l);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -324,6 +658,11 @@ int main(void)
 		cmocka_unit_test(test_timing),
 		cmocka_unit_test(test_params_problems),
 		cmocka_unit_test(test_single_threshold),
+		cmocka_unit_test(test_window_property),
+		cmocka_unit_test(test_read_full),
+		cmocka_unit_test(test_read_infeasible),
+		cmocka_unit_test(test_bad_input),
+		cmocka_unit_test(test_static_description),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -11,6 +11,8 @@ struct command {
 
 static const struct command commands[] = {
 	{ "build", cmd_build, "write the artwork set for a description" },
+	{ "diff", cmd_diff, "compare two revisions of a glass" },
+	{ "drive", cmd_drive, "print the drive voltages and ordering spec" },
 };
 
 static void print_help(void)

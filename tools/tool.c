@@ -4,6 +4,8 @@
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
+#include <unistd.h>
 
 void tool_print_diag(const struct gp_diag *diag, int verbosity)
 {
@@ -52,6 +54,9 @@ int tool_parse(int argc, char **argv, struct tool_options *options,
 		{ "quiet", no_argument, NULL, 'q' },
 		{ "verbose", no_argument, NULL, 'v' },
 		{ "strict", no_argument, NULL, 'S' },
+		{ "json", no_argument, NULL, 'J' },
+		{ "only", required_argument, NULL, 'O' },
+		{ "depfile", required_argument, NULL, 'D' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
@@ -69,6 +74,9 @@ int tool_parse(int argc, char **argv, struct tool_options *options,
 		case 'q': options->verbosity = -1; break;
 		case 'v': options->verbosity = 1; break;
 		case 'S': options->strict = true; break;
+		case 'J': options->json = true; break;
+		case 'O': options->only = optarg; break;
+		case 'D': options->depfile = optarg; break;
 		case 'h':
 			fputs(usage, stdout);
 			return EXIT_OK;
@@ -101,7 +109,41 @@ struct gp_design *tool_load(const struct tool_options *options,
 	struct gp_design *design =
 		gp_design_load(options->description, options->overrides,
 			       options->override_count, diag);
-	if (!design || gp_diag_count(diag))
+	/* on success the caller prints the messages with its own */
+	if (!design)
 		tool_print_diag(diag, options->verbosity);
 	return design;
+}
+
+int tool_source_date_epoch(long long *epoch)
+{
+	const char *text = getenv("SOURCE_DATE_EPOCH");
+	if (!text || !*text)
+		return 0;
+	char *end;
+	long long value = strtoll(text, &end, 10);
+	if (*end || value < 0 || value > 253402300799LL) {
+		tool_usage_error("SOURCE_DATE_EPOCH='%s' is not a number of "
+				 "seconds since 1970 (up to year 9999)", text);
+		return -2;
+	}
+	*epoch = value;
+	return 1;
+}
+
+void tool_progress(const char *stage, void *data)
+{
+	static struct timespec start;
+	static bool started;
+	struct timespec now;
+	clock_gettime(CLOCK_MONOTONIC, &now);
+	if (!started) {
+		start = now;
+		started = true;
+	}
+	double elapsed = (double)(now.tv_sec - start.tv_sec) +
+			 (double)(now.tv_nsec - start.tv_nsec) / 1e9;
+	const struct tool_options *options = data;
+	if (options->verbosity >= 0 && elapsed > 1.0 && isatty(2))
+		fprintf(stderr, "glassplot: %s (%.1f s)\n", stage, elapsed);
 }

@@ -21,7 +21,9 @@ struct tool_options {
 	size_t override_count;
 	int verbosity;               /* -q: -1, default 0, -v: 1 */
 	bool strict;
-	bool help;
+	bool json;                   /* --json: summary as JSON */
+	const char *only;            /* --only KINDS */
+	const char *depfile;         /* --depfile FILE */
 };
 
 /* Prints each message of diag on stderr, one line each, prefixed by the
@@ -34,10 +36,18 @@ int tool_usage_error(const char *format, ...)
 int tool_parse(int argc, char **argv, struct tool_options *options,
 	       const char *usage, bool wants_output);
 void tool_options_finish(struct tool_options *options);
+/* SOURCE_DATE_EPOCH, when set: true with *epoch; false when unset; exits
+ * through a usage error (returned as -2) when malformed. */
+int tool_source_date_epoch(long long *epoch);
+/* Progress callback: prints stages on stderr when it is a terminal and
+ * the run has lasted more than a second. */
+void tool_progress(const char *stage, void *data);
 /* Loads the description with the overrides, printing errors. */
 struct gp_design *tool_load(const struct tool_options *options,
 			    struct gp_diag *diag);
 
 int cmd_build(int argc, char **argv);
+int cmd_diff(int argc, char **argv);
+int cmd_drive(int argc, char **argv);
 
 #endif

@@ -1,0 +1,754 @@
+/* Icon layout: the front electrode of each icon (text through the font
+ * module, shapes through icon-geom.c), checked against the minimum line
+ * width and space; thin front bridges joining its parts; back patches per
+ * common (patch.h) notched around front traces, joined by back bridges
+ * that keep clear of the front; one intended pixel per icon; summary
+ * lines. */
+#include "build.h"
+#include "font.h"
+#include "icons.h"
+#include "patch.h"
+#include "units.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* At most this many width or space findings are reported per icon. */
+#define MAX_FINDINGS 3
+
+struct icon_work {
+	struct gp_polyset front;    /* electrode */
+	struct gp_polyset bridges;  /* front bridges */
+	struct gp_polyset back_bridges;
+	int common, segment;        /* net indices */
+	size_t group;               /* patch group (one per common) */
+};
+
+struct font_entry {
+	const char *name;
+	struct gp_font *font;
+};
+
+struct layout {
+	struct gp_build *build;
+	const struct gp_design *design;
+	struct gp_diag *diag;
+	struct gp_geos *geos;
+	struct font_entry *fonts;
+	size_t font_count;
+	char *base_dir;
+	struct icon_work *icons;
+	/* patch groups: one per distinct common net */
+	int *group_net;
+	size_t group_count;
+	struct gp_polyset *patches;
+	enum gp_plate front_plate, back_plate;
+};
+
+static bool oom(struct layout *l)
+{
+	return gp_diag_error(l->diag, NULL, "out of memory laying out icons");
+}
+
+static void fmt(char *buf, size_t size, int64_t nm)
+{
+	gp_format_mm_short(buf, size, nm);
+}
+
+/* --- fonts ---------------------------------------------------------------- */
+
+static char *directory_of(const char *file)
+{
+	const char *slash = file ? strrchr(file, '/') : NULL;
+	if (!slash)
+		return NULL;
+	size_t n = (size_t)(slash - file);
+	char *dir = malloc(n + 1);
+	if (dir) {
+		memcpy(dir, file, n);
+		dir[n] = '\0';
+	}
+	return dir;
+}
+
+static struct gp_font *font_for(struct layout *l, const struct gp_icon *icon)
+{
+	for (size_t i = 0; i < l->font_count; i++)
+		if (strcmp(l->fonts[i].name, icon->font) == 0)
+			return l->fonts[i].font;
+	struct gp_font *font = gp_font_open(icon->font, l->base_dir,
+					    &icon->font_where, l->diag);
+	if (!font)
+		return NULL;
+	struct font_entry *fonts = realloc(l->fonts, (l->font_count + 1) *
+						     sizeof(*fonts));
+	if (!fonts) {
+		gp_font_destroy(font);
+		oom(l);
+		return NULL;
+	}
+	l->fonts = fonts;
+	l->fonts[l->font_count++] = (struct font_entry){ icon->font, font };
+	return font;
+}
+
+static void note_font(struct layout *l, const struct gp_icon *icon,
+		      const struct gp_font *font, const struct gp_text *text)
+{
+	char size[32], em[32];
+	fmt(size, sizeof(size), icon->style.cap_height ? icon->style.cap_height
+						       : icon->style.em_size);
+	fmt(em, sizeof(em), text->em_size);
+	gp_buffer_printf(&l->build->notes,
+			 "icon %s: '%s' in %s %s (%s, face %ld), %s %s mm, "
+			 "em %s mm\n",
+			 icon->name, icon->text, gp_font_family(font),
+			 gp_font_style(font), gp_font_file(font),
+			 gp_font_face_index(font),
+			 icon->style.cap_height ? "cap height" : "em size",
+			 size, em);
+}
+
+/* --- front electrodes ------------------------------------------------------ */
+
+static bool make_text(struct layout *l, const struct gp_icon *icon,
+		      struct gp_polyset *out)
+{
+	struct gp_font *font = font_for(l, icon);
+	if (!font)
+		return false;
+	struct gp_text text;
+	if (!gp_font_set_text(font, icon->text, &icon->style, icon->position,
+			      &text, &icon->text_where, l->diag))
+		return false;
+	bool ok = gp_text_polygons(l->geos, &text, out);
+	if (ok)
+		note_font(l, icon, font, &text);
+	gp_text_finish(&text);
+	return ok;
+}
+
+static void where_mm(char *buf, size_t size, struct gp_point p)
+{
+	char x[32], y[32];
+	fmt(x, sizeof(x), p.x);
+	fmt(y, sizeof(y), p.y);
+	snprintf(buf, size, "(%s, %s)", x, y);
+}
+
+static struct gp_point centre(struct gp_box b)
+{
+	return (struct gp_point){ b.x0 + (b.x1 - b.x0) / 2,
+				  b.y0 + (b.y1 - b.y0) / 2 };
+}
+
+static bool report_thin(struct layout *l, const struct gp_icon *icon,
+			const struct gp_polyset *thin)
+{
+	char at[80], near[80], w[32];
+	where_mm(at, sizeof(at), icon->position);
+	fmt(w, sizeof(w), l->design->rules.min_line);
+	for (size_t i = 0; i < thin->count && i < MAX_FINDINGS; i++) {
+		/* a corner of the thin piece: on the stroke itself, where
+		 * the middle of its box may not be */
+		where_mm(near, sizeof(near), thin->items[i].outer.points[0]);
+		gp_diag_error(l->diag, &icon->where,
+			      "icon '%s' at %s mm: a stroke near %s mm is "
+			      "thinner than min_line %s mm; make the icon "
+			      "larger or use a bolder font", icon->name, at,
+			      near, w);
+	}
+	return thin->count == 0;
+}
+
+static bool report_close(struct layout *l, const struct gp_icon *icon,
+			 struct gp_point near_point, double distance,
+			 bool inside)
+{
+	char at[80], near[80], s[32], d[32];
+	where_mm(at, sizeof(at), icon->position);
+	where_mm(near, sizeof(near), near_point);
+	fmt(s, sizeof(s), l->design->rules.min_space);
+	if (inside)
+		return gp_diag_error(l->diag, &icon->where,
+				     "icon '%s' at %s mm: a gap near %s mm is "
+				     "narrower than min_space %s mm; make the "
+				     "icon larger", icon->name, at, near, s);
+	fmt(d, sizeof(d), (int64_t)(distance + 0.5));
+	return gp_diag_error(l->diag, &icon->where,
+			     "icon '%s' at %s mm: letters %s mm apart near %s "
+			     "mm, closer than min_space %s mm; add 'spacing' "
+			     "or make the icon larger", icon->name, at, d, near,
+			     s);
+}
+
+/* Parts of the electrode closer than the minimum space: separate parts
+ * (letters) by their distance, gaps inside one part by a closing. */
+static bool check_space(struct layout *l, const struct gp_icon *icon,
+			const struct gp_polyset *front, int *findings)
+{
+	int64_t space = l->design->rules.min_space;
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0;
+	struct gp_box *boxes = calloc(front->count ? front->count : 1,
+				      sizeof(*boxes));
+	if (!boxes)
+		return oom(l);
+	for (size_t i = 0; i < front->count; i++)
+		boxes[i] = gp_polygon_bounds(&front->items[i]);
+	bool ok = gp_geos_box_pairs(l->geos, boxes, front->count, space,
+				    &pairs, &pair_count);
+	for (size_t k = 0; ok && k < pair_count; k++) {
+		struct gp_geos_shape *a = gp_geos_shape_from_polygon(
+			l->geos, &front->items[pairs[k].a]);
+		struct gp_geos_shape *b = gp_geos_shape_from_polygon(
+			l->geos, &front->items[pairs[k].b]);
+		double d = 0;
+		struct gp_point pa, pb;
+		ok = a && b && gp_geos_shape_distance(l->geos, a, b, &d) &&
+		     gp_geos_shape_nearest(l->geos, a, b, &pa, &pb);
+		if (ok && d < (double)space && (*findings)++ < MAX_FINDINGS)
+			report_close(l, icon,
+				     (struct gp_point){ (pa.x + pb.x) / 2,
+							(pa.y + pb.y) / 2 },
+				     d, false);
+		gp_geos_shape_destroy(l->geos, a);
+		gp_geos_shape_destroy(l->geos, b);
+	}
+	free(pairs);
+	free(boxes);
+	for (size_t i = 0; ok && i < front->count; i++) {
+		struct gp_polyset gaps;
+		gp_polyset_init(&gaps);
+		ok = gp_narrow_gaps(l->geos, &front->items[i], space, &gaps);
+		for (size_t g = 0; ok && g < gaps.count; g++)
+			if ((*findings)++ < MAX_FINDINGS)
+				report_close(l, icon,
+					     centre(gp_polygon_bounds(
+						     &gaps.items[g])),
+					     0, true);
+		gp_polyset_finish(&gaps);
+	}
+	return ok;
+}
+
+/* The electrode of one icon, checked.  False on any error. */
+static bool make_front(struct layout *l, const struct gp_icon *icon,
+		       struct gp_polyset *out)
+{
+	size_t errors = l->diag->errors;
+	bool ok = icon->kind == GP_ICON_TEXT
+			  ? make_text(l, icon, out)
+			  : gp_icon_shape(l->geos, icon,
+					  l->design->rules.chord_tolerance,
+					  out);
+	if (!ok)
+		return false;
+	if (out->count == 0)
+		return gp_diag_error(l->diag, &icon->where,
+				     "icon '%s' has no area; check its size "
+				     "and points", icon->name);
+	struct gp_polyset thin;
+	gp_polyset_init(&thin);
+	ok = gp_thin_parts(l->geos, out, l->design->rules.min_line, &thin);
+	if (ok)
+		report_thin(l, icon, &thin);
+	gp_polyset_finish(&thin);
+	int findings = 0;
+	ok = ok && check_space(l, icon, out, &findings);
+	return ok && l->diag->errors == errors;
+}
+
+/* --- nets ----------------------------------------------------------------- */
+
+/* Icon commons and segments are numbered in order of first use. */
+static bool assign_nets(struct layout *l)
+{
+	const struct gp_design *d = l->design;
+	for (size_t i = 0; i < d->icon_count; i++) {
+		const struct gp_icon *icon = &d->icons[i];
+		struct icon_work *w = &l->icons[i];
+		w->common = w->segment = -1;
+		for (size_t j = 0; j < i; j++) {
+			if (icon->common && d->icons[j].common &&
+			    strcmp(icon->common, d->icons[j].common) == 0)
+				w->common = l->icons[j].common;
+			if (strcmp(icon->segment, d->icons[j].segment) == 0)
+				w->segment = l->icons[j].segment;
+		}
+		if (!icon->common)
+			w->common = gp_block_common_net(l->build,
+							(size_t)icon->common_block,
+							icon->common_row);
+		else if (w->common < 0)
+			w->common = gp_artwork_add_net(&l->build->art,
+						       GP_NET_COMMON,
+						       l->back_plate);
+		if (w->segment < 0)
+			w->segment = gp_artwork_add_net(&l->build->art,
+							GP_NET_SEGMENT,
+							l->front_plate);
+		if (w->common < 0 || w->segment < 0)
+			return gp_diag_error(l->diag, &icon->common_where,
+					     "icon '%s': no net for its common "
+					     "or segment", icon->name);
+	}
+	return true;
+}
+
+/* --- front bridges ------------------------------------------------------- */
+
+/* Front shapes of other nets, which a front bridge keeps min_space from. */
+static struct gp_geos_shape *front_of_others(struct layout *l, size_t self)
+{
+	struct gp_polyset all;
+	gp_polyset_init(&all);
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	bool ok = true;
+	for (size_t i = 0; ok && i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->layer != layer || s->open_path ||
+		    s->net == l->icons[self].segment)
+			continue;
+		struct gp_polygon copy;
+		ok = gp_polygon_copy(&copy, &s->poly) &&
+		     gp_polyset_take(&all, &copy);
+	}
+	for (size_t i = 0; ok && i < l->design->icon_count; i++) {
+		if (l->icons[i].segment == l->icons[self].segment)
+			continue;
+		for (size_t k = 0; ok && k < l->icons[i].front.count; k++) {
+			struct gp_polygon copy;
+			ok = gp_polygon_copy(&copy,
+					     &l->icons[i].front.items[k]) &&
+			     gp_polyset_take(&all, &copy);
+		}
+	}
+	struct gp_geos_shape *shape =
+		ok ? gp_geos_shape_from_polyset(l->geos, &all) : NULL;
+	gp_polyset_finish(&all);
+	return shape;
+}
+
+static bool unjoined(struct layout *l, const struct gp_icon *icon,
+		     struct gp_point at, const char *plate)
+{
+	char where[80];
+	where_mm(where, sizeof(where), at);
+	return gp_diag_error(l->diag, &icon->where,
+			     "icon '%s': cannot join its parts near %s mm on "
+			     "the %s plate without coming too close to other "
+			     "electrodes; move the parts closer together or "
+			     "make room around them", icon->name, where,
+			     plate);
+}
+
+static bool front_bridges(struct layout *l, size_t i)
+{
+	struct icon_work *w = &l->icons[i];
+	if (w->front.count < 2)
+		return true;
+	struct gp_keepout keep = { front_of_others(l, i),
+				   l->design->rules.min_space };
+	if (!keep.shape)
+		return oom(l);
+	size_t missing = 0;
+	struct gp_point at = { 0, 0 };
+	bool ok = gp_bridges_join(l->geos, &w->front,
+				  l->design->rules.min_line, &keep,
+				  gp_geos_shape_is_empty(l->geos, keep.shape)
+					  ? 0 : 1,
+				  &w->bridges, &missing, &at);
+	gp_geos_shape_destroy(l->geos, keep.shape);
+	if (ok && missing)
+		return unjoined(l, &l->design->icons[i], at, "front");
+	return ok;
+}
+
+/* --- back patches ------------------------------------------------------ */
+
+static bool make_groups(struct layout *l)
+{
+	size_t n = l->design->icon_count;
+	l->group_net = calloc(n, sizeof(*l->group_net));
+	if (!l->group_net)
+		return oom(l);
+	for (size_t i = 0; i < n; i++) {
+		size_t g = 0;
+		while (g < l->group_count &&
+		       l->group_net[g] != l->icons[i].common)
+			g++;
+		if (g == l->group_count)
+			l->group_net[l->group_count++] = l->icons[i].common;
+		l->icons[i].group = g;
+	}
+	l->patches = calloc(l->group_count, sizeof(*l->patches));
+	if (!l->patches)
+		return oom(l);
+	for (size_t g = 0; g < l->group_count; g++)
+		gp_polyset_init(&l->patches[g]);
+	return true;
+}
+
+static bool copy_into(struct gp_polyset *dst, const struct gp_polyset *src)
+{
+	for (size_t k = 0; k < src->count; k++) {
+		struct gp_polygon copy;
+		if (!gp_polygon_copy(&copy, &src->items[k]))
+			return false;
+		if (!gp_polyset_take(dst, &copy)) {
+			gp_polygon_finish(&copy);
+			return false;
+		}
+	}
+	return true;
+}
+
+/* Every front-plate trace a patch must keep clear of: the icons' bridges
+ * and whatever earlier stages put on the front plate. */
+static bool front_traces(struct layout *l, struct gp_polyset *traces)
+{
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_polygon copy;
+		if (s->layer != layer || s->open_path)
+			continue;
+		if (!gp_polygon_copy(&copy, &s->poly) ||
+		    !gp_polyset_take(traces, &copy))
+			return false;
+	}
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		if (!copy_into(traces, &l->icons[i].bridges))
+			return false;
+	return true;
+}
+
+static void patch_name(struct layout *l, size_t g, char *buf, size_t size)
+{
+	snprintf(buf, size, "icons on %s",
+		 l->build->art.nets[l->group_net[g]].name);
+}
+
+/* Notches can cut slivers off a patch that lie over no front shape:
+ * floating ITO that lights nothing; they are left out. */
+static bool drop_floating(struct layout *l, const struct gp_polyset *front,
+			  struct gp_polyset *patch)
+{
+	struct gp_geos_shape *f = gp_geos_shape_from_polyset(l->geos, front);
+	bool *keep = calloc(patch->count ? patch->count : 1, sizeof(*keep));
+	bool ok = f && keep;
+	for (size_t k = 0; ok && k < patch->count; k++) {
+		struct gp_geos_shape *p =
+			gp_geos_shape_from_polygon(l->geos, &patch->items[k]);
+		ok = p != NULL;
+		keep[k] = ok && gp_geos_shape_overlaps_area(l->geos, f, p);
+		gp_geos_shape_destroy(l->geos, p);
+	}
+	size_t kept = 0;
+	for (size_t k = 0; ok && k < patch->count; k++) {
+		if (keep[k])
+			patch->items[kept++] = patch->items[k];
+		else
+			gp_polygon_finish(&patch->items[k]);
+	}
+	if (ok)
+		patch->count = kept;
+	free(keep);
+	gp_geos_shape_destroy(l->geos, f);
+	return ok;
+}
+
+static bool make_patches(struct layout *l)
+{
+	const struct gp_rules *r = &l->design->rules;
+	struct gp_polyset *fronts = calloc(l->group_count, sizeof(*fronts));
+	struct gp_patch_group *groups = calloc(l->group_count,
+					       sizeof(*groups));
+	char (*names)[64] = calloc(l->group_count, sizeof(*names));
+	struct gp_polyset traces;
+	gp_polyset_init(&traces);
+	bool ok = fronts && groups && names && front_traces(l, &traces);
+	for (size_t g = 0; ok && g < l->group_count; g++) {
+		gp_polyset_init(&fronts[g]);
+		for (size_t i = 0; ok && i < l->design->icon_count; i++)
+			if (l->icons[i].group == g)
+				ok = copy_into(&fronts[g], &l->icons[i].front);
+		patch_name(l, g, names[g], sizeof(names[g]));
+		groups[g] = (struct gp_patch_group){ names[g], fronts[g].items,
+						     fronts[g].count };
+	}
+	struct gp_patch_rules rules = {
+		.margin = r->registration,
+		.min_space = r->min_space,
+		/* a front trace stays off the patch under any shift up to the
+		 * registration margin */
+		.clearance = r->registration,
+		.chord_tolerance = r->chord_tolerance,
+	};
+	ok = ok && gp_patch_make(l->geos, groups, l->group_count, traces.items,
+				 traces.count, &rules, l->patches, l->diag);
+	for (size_t g = 0; ok && g < l->group_count; g++)
+		ok = drop_floating(l, &fronts[g], &l->patches[g]);
+	for (size_t g = 0; fronts && g < l->group_count; g++)
+		gp_polyset_finish(&fronts[g]);
+	free(fronts);
+	free(groups);
+	free(names);
+	gp_polyset_finish(&traces);
+	return ok || oom(l);
+}
+
+/* The front plate's ITO as one shape, and the other groups' patches. */
+static struct gp_geos_shape *all_front(struct layout *l)
+{
+	struct gp_polyset all;
+	gp_polyset_init(&all);
+	bool ok = front_traces(l, &all);
+	for (size_t i = 0; ok && i < l->design->icon_count; i++)
+		ok = copy_into(&all, &l->icons[i].front);
+	struct gp_geos_shape *s =
+		ok ? gp_geos_shape_from_polyset(l->geos, &all) : NULL;
+	gp_polyset_finish(&all);
+	return s;
+}
+
+static struct gp_geos_shape *other_patches(struct layout *l, size_t group)
+{
+	struct gp_polyset all;
+	gp_polyset_init(&all);
+	bool ok = true;
+	for (size_t g = 0; ok && g < l->group_count; g++)
+		if (g != group)
+			ok = copy_into(&all, &l->patches[g]);
+	struct gp_geos_shape *s =
+		ok ? gp_geos_shape_from_polyset(l->geos, &all) : NULL;
+	gp_polyset_finish(&all);
+	return s;
+}
+
+/* The pieces of the group's patch under this icon's electrode. */
+static bool patch_pieces(struct layout *l, size_t i, struct gp_polyset *out)
+{
+	const struct gp_polyset *patch = &l->patches[l->icons[i].group];
+	struct gp_geos_shape *front =
+		gp_geos_shape_from_polyset(l->geos, &l->icons[i].front);
+	bool ok = front != NULL;
+	for (size_t k = 0; ok && k < patch->count; k++) {
+		struct gp_geos_shape *p =
+			gp_geos_shape_from_polygon(l->geos, &patch->items[k]);
+		ok = p != NULL;
+		if (ok && gp_geos_shape_overlaps_area(l->geos, front, p)) {
+			struct gp_polygon copy;
+			ok = gp_polygon_copy(&copy, &patch->items[k]) &&
+			     gp_polyset_take(out, &copy);
+		}
+		gp_geos_shape_destroy(l->geos, p);
+	}
+	gp_geos_shape_destroy(l->geos, front);
+	return ok;
+}
+
+static bool back_bridges(struct layout *l, struct gp_geos_shape *front,
+			 size_t i)
+{
+	struct gp_polyset pieces;
+	gp_polyset_init(&pieces);
+	bool ok = patch_pieces(l, i, &pieces);
+	if (!ok || pieces.count < 2) {
+		gp_polyset_finish(&pieces);
+		return ok;
+	}
+	const struct gp_rules *r = &l->design->rules;
+	struct gp_keepout keep[2] = {
+		{ front, r->registration },
+		{ other_patches(l, l->icons[i].group), r->min_space },
+	};
+	size_t missing = 0;
+	struct gp_point at = { 0, 0 };
+	ok = keep[1].shape &&
+	     gp_bridges_join(l->geos, &pieces, r->min_line, keep,
+			     gp_geos_shape_is_empty(l->geos, keep[1].shape)
+				     ? 1 : 2,
+			     &l->icons[i].back_bridges, &missing, &at);
+	gp_geos_shape_destroy(l->geos, keep[1].shape);
+	gp_polyset_finish(&pieces);
+	if (ok && missing)
+		return unjoined(l, &l->design->icons[i], at, "back");
+	return ok;
+}
+
+/* --- into the artwork --------------------------------------------------- */
+
+static bool add_set(struct layout *l, struct gp_polyset *set,
+		    enum gp_plate plate, enum gp_role role, int net)
+{
+	for (size_t k = 0; k < set->count; k++) {
+		struct gp_polygon copy;
+		if (!gp_polygon_copy(&copy, &set->items[k]))
+			return false;
+		if (!gp_artwork_add_shape(&l->build->art,
+					  gp_plate_ito_layer(plate), role, net,
+					  &copy)) {
+			gp_polygon_finish(&copy);
+			return false;
+		}
+	}
+	return true;
+}
+
+static bool add_pixel(struct layout *l, size_t i)
+{
+	struct icon_work *w = &l->icons[i];
+	struct gp_box box = gp_box_none();
+	for (size_t k = 0; k < w->front.count; k++)
+		box = gp_box_union(box, gp_polygon_bounds(&w->front.items[k]));
+	struct gp_pixel *p = gp_artwork_add_pixel(&l->build->art, w->common,
+						  w->segment, box);
+	if (!p || !gp_polygon_copy(&p->shape, &w->front.items[0]))
+		return false;
+	p->owner_kind = GP_OWNER_ICON;
+	p->owner = (int)i;
+	for (size_t k = 1; k < w->front.count; k++) {
+		struct gp_polygon copy;
+		if (!gp_polygon_copy(&copy, &w->front.items[k]) ||
+		    !gp_polyset_take(&p->more, &copy))
+			return false;
+	}
+	return true;
+}
+
+/* Summary: nets, area and what the registration margin keeps lit. */
+static bool note_icon(struct layout *l, size_t i)
+{
+	struct icon_work *w = &l->icons[i];
+	const struct gp_rules *r = &l->design->rules;
+	struct gp_polyset back;
+	gp_polyset_init(&back);
+	struct gp_registration reg;
+	bool ok = copy_into(&back, &l->patches[w->group]) &&
+		  copy_into(&back, &w->back_bridges) &&
+		  gp_patch_registration(l->geos, &w->front, &back,
+					r->registration, r->registration,
+					&reg);
+	gp_polyset_finish(&back);
+	if (!ok)
+		return false;
+	char m[32];
+	fmt(m, sizeof(m), r->registration);
+	const struct gp_net *nets = l->build->art.nets;
+	gp_buffer_printf(&l->build->notes,
+			 "icon %s: %s x %s, %zu part(s), %zu front and %zu "
+			 "back bridge(s), area %.6f mm^2, least lit under "
+			 "+-%s mm shift %.6f mm^2\n",
+			 l->design->icons[i].name, nets[w->common].name,
+			 nets[w->segment].name, w->front.count,
+			 w->bridges.count, w->back_bridges.count,
+			 reg.front_mm2, m, reg.worst_mm2);
+	return true;
+}
+
+static bool emit(struct layout *l)
+{
+	for (size_t i = 0; i < l->design->icon_count; i++) {
+		struct icon_work *w = &l->icons[i];
+		if (!add_set(l, &w->front, l->front_plate, GP_ROLE_ELECTRODE,
+			     w->segment) ||
+		    !add_set(l, &w->bridges, l->front_plate, GP_ROLE_BRIDGE,
+			     w->segment) ||
+		    !add_set(l, &w->back_bridges, l->back_plate,
+			     GP_ROLE_BRIDGE, w->common) ||
+		    !add_pixel(l, i))
+			return oom(l);
+	}
+	for (size_t g = 0; g < l->group_count; g++)
+		if (!add_set(l, &l->patches[g], l->back_plate, GP_ROLE_PATCH,
+			     l->group_net[g]))
+			return oom(l);
+	return true;
+}
+
+/* --- the stage ------------------------------------------------------------ */
+
+static void layout_finish(struct layout *l)
+{
+	for (size_t i = 0; l->icons && i < l->design->icon_count; i++) {
+		gp_polyset_finish(&l->icons[i].front);
+		gp_polyset_finish(&l->icons[i].bridges);
+		gp_polyset_finish(&l->icons[i].back_bridges);
+	}
+	for (size_t g = 0; l->patches && g < l->group_count; g++)
+		gp_polyset_finish(&l->patches[g]);
+	for (size_t i = 0; i < l->font_count; i++)
+		gp_font_destroy(l->fonts[i].font);
+	free(l->fonts);
+	free(l->icons);
+	free(l->group_net);
+	free(l->patches);
+	free(l->base_dir);
+	gp_geos_destroy(l->geos);
+}
+
+static bool make_all_fronts(struct layout *l)
+{
+	bool ok = true;
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		ok &= make_front(l, &l->design->icons[i], &l->icons[i].front);
+	return ok;
+}
+
+static bool make_all_bridges(struct layout *l)
+{
+	bool ok = true;
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		ok &= front_bridges(l, i);
+	if (!ok || !make_patches(l))
+		return false;
+	struct gp_geos_shape *front = all_front(l);
+	if (!front)
+		return oom(l);
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		ok &= back_bridges(l, front, i);
+	gp_geos_shape_destroy(l->geos, front);
+	return ok;
+}
+
+bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
+{
+	const struct gp_design *d = build->design;
+	if (d->icon_count == 0)
+		return true;
+	struct layout l = {
+		.build = build,
+		.design = d,
+		.diag = diag,
+		.front_plate = d->segment_plate,
+		.back_plate = gp_common_plate(d),
+	};
+	l.geos = gp_geos_create(diag);
+	l.icons = calloc(d->icon_count, sizeof(*l.icons));
+	l.base_dir = directory_of(d->spec->file);
+	bool ok = l.geos && l.icons;
+	for (size_t i = 0; ok && i < d->icon_count; i++) {
+		gp_polyset_init(&l.icons[i].front);
+		gp_polyset_init(&l.icons[i].bridges);
+		gp_polyset_init(&l.icons[i].back_bridges);
+	}
+	if (!ok)
+		oom(&l);
+	ok = ok && make_all_fronts(&l) && assign_nets(&l) &&
+	     make_groups(&l) && make_all_bridges(&l) && emit(&l);
+	for (size_t i = 0; ok && i < d->icon_count; i++)
+		ok = note_icon(&l, i);
+	if (ok) {
+		char tol[32];
+		fmt(tol, sizeof(tol), d->rules.chord_tolerance);
+		gp_buffer_printf(&build->notes, "icons: %zu, curves flattened "
+				 "within %s mm\n", d->icon_count, tol);
+	}
+	layout_finish(&l);
+	return ok;
+}

@@ -1,0 +1,401 @@
+/* Icons: reading the 'icons' section.  Each icon is text set in a font or
+ * a shape, with its own (common, segment) pair.  The layout is in
+ * icon-layout.c. */
+#include "model.h"
+
+#include "units.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+static const char *const shape_names[] = {
+	"rectangle", "rounded_rectangle", "circle", "ring", "triangle",
+	"arrow", "polygon", NULL,
+};
+
+static const char *const align_names[] = { "left", "centre", "right", NULL };
+static const char *const vertical_names[] = { "baseline", "bottom", "middle",
+					      "top", NULL };
+
+/* Every key an icon may have; a key of another kind of icon is reported
+ * as not applying rather than as unknown. */
+static const char *const all_keys[] = {
+	"text", "font", "cap_height", "em_size", "spacing", "align",
+	"vertical", "kerning", "size", "radius", "diameter", "width",
+	"shaft", "head", "points", NULL,
+};
+
+void gp_icons_free(struct gp_design *design)
+{
+	for (size_t i = 0; i < design->icon_count; i++)
+		free(design->icons[i].points);
+	free(design->icons);
+	design->icons = NULL;
+	design->icon_count = 0;
+}
+
+int gp_icons_common_count(const struct gp_design *design)
+{
+	int count = 0;
+	for (size_t i = 0; i < design->icon_count; i++) {
+		const char *c = design->icons[i].common;
+		bool seen = !c;
+		for (size_t j = 0; j < i && !seen; j++)
+			seen = design->icons[j].common &&
+			       strcmp(design->icons[j].common, c) == 0;
+		count += !seen;
+	}
+	return count;
+}
+
+static const char *kind_name(enum gp_icon_kind kind)
+{
+	return kind == GP_ICON_TEXT ? "text" : shape_names[kind - 1];
+}
+
+static bool read_rotation(struct gp_reader *r, struct gp_icon *icon)
+{
+	long rotation = 0;
+	const struct gp_node *node = gp_read_node(r, "rotate", false);
+	if (!node)
+		return true;
+	if (!gp_node_int(node, r->diag, 0, 270, &rotation))
+		return r->ok = false;
+	if (rotation % 90 != 0)
+		return r->ok = gp_diag_error(r->diag, &node->where,
+					     "'rotate' must be 0, 90, 180 or "
+					     "270 (degrees anticlockwise), got "
+					     "%ld", rotation);
+	icon->rotation = (int)rotation;
+	return true;
+}
+
+static bool read_text(struct gp_reader *r, struct gp_icon *icon,
+		      const struct gp_node *text)
+{
+	struct gp_text_style *s = &icon->style;
+	icon->kind = GP_ICON_TEXT;
+	icon->text_where = text->where;
+	bool ok = gp_read_string(r, "text", true, &icon->text);
+	const struct gp_node *font = gp_read_node(r, "font", true);
+	if (font) {
+		icon->font_where = font->where;
+		ok &= gp_read_string(r, "font", true, &icon->font);
+	}
+	const struct gp_node *cap = gp_read_node(r, "cap_height", false);
+	const struct gp_node *em = gp_read_node(r, "em_size", false);
+	if (cap && em)
+		ok = gp_diag_error(r->diag, &em->where,
+				   "give either 'cap_height' or 'em_size' in "
+				   "%s, not both", r->what);
+	else if (!cap && !em)
+		ok = gp_diag_error(r->diag, &r->map->where,
+				   "missing required key 'cap_height' (or "
+				   "'em_size') in %s", r->what);
+	else
+		ok &= gp_read_size(r, cap ? "cap_height" : "em_size", true,
+				   cap ? &s->cap_height : &s->em_size);
+	ok &= gp_read_length(r, "spacing", false, &s->spacing);
+	int align = GP_TEXT_LEFT, vertical = GP_TEXT_BASELINE;
+	ok &= gp_read_choice(r, "align", false, align_names, &align);
+	ok &= gp_read_choice(r, "vertical", false, vertical_names, &vertical);
+	ok &= gp_read_bool(r, "kerning", false, &s->kerning);
+	s->align = (enum gp_text_align)align;
+	s->base = (enum gp_text_base)vertical;
+	return ok;
+}
+
+static bool read_points(struct gp_reader *r, struct gp_icon *icon)
+{
+	const struct gp_node *node = gp_read_node(r, "points", true);
+	if (!node)
+		return false;
+	if (node->kind != GP_NODE_SEQUENCE || node->count < 3 ||
+	    node->count > GP_MAX_ICON_POINTS)
+		return gp_diag_error(r->diag, &node->where,
+				     "'points' must be a list of 3 to %d "
+				     "corners [x, y] in millimetres",
+				     GP_MAX_ICON_POINTS);
+	icon->points = calloc(node->count, sizeof(*icon->points));
+	if (!icon->points)
+		return gp_diag_error(r->diag, &node->where, "out of memory");
+	for (size_t i = 0; i < node->count; i++) {
+		const struct gp_node *p = node->items[i];
+		int64_t x, y;
+		if (p->kind != GP_NODE_SEQUENCE || p->count != 2)
+			return gp_diag_error(r->diag, &p->where,
+					     "each point must be a pair [x, y] "
+					     "in millimetres");
+		if (!gp_node_length(p->items[0], r->diag, &x) ||
+		    !gp_node_length(p->items[1], r->diag, &y))
+			return false;
+		icon->points[i] = (struct gp_point){ x, y };
+	}
+	icon->point_count = node->count;
+	return true;
+}
+
+/* Sizes that must agree with each other, per shape. */
+static bool check_shape(struct gp_reader *r, const struct gp_icon *icon)
+{
+	char a[32], b[32];
+	const struct gp_where *w = &r->map->where;
+	int64_t small = icon->size[0] < icon->size[1] ? icon->size[0]
+						      : icon->size[1];
+	switch (icon->kind) {
+	case GP_ICON_ROUNDED_RECTANGLE:
+		if (2 * icon->radius > small) {
+			gp_format_mm_short(a, sizeof(a), icon->radius);
+			gp_format_mm_short(b, sizeof(b), small / 2);
+			return gp_diag_error(r->diag, w, "%s: 'radius' %s mm is "
+					     "more than half the smaller side "
+					     "(%s mm)", r->what, a, b);
+		}
+		break;
+	case GP_ICON_RING:
+		if (2 * icon->line >= icon->diameter)
+			return gp_diag_error(r->diag, w, "%s: 'width' must be "
+					     "less than half the 'diameter'",
+					     r->what);
+		break;
+	case GP_ICON_ARROW:
+		if (icon->line >= icon->size[1] || icon->head >= icon->size[0])
+			return gp_diag_error(r->diag, w, "%s: the 'shaft' must "
+					     "be narrower than the head width "
+					     "(size[1]) and the 'head' shorter "
+					     "than the length (size[0])",
+					     r->what);
+		break;
+	default:
+		break;
+	}
+	return true;
+}
+
+static bool read_shape(struct gp_reader *r, struct gp_icon *icon)
+{
+	int kind = 0;
+	if (!gp_read_choice(r, "shape", true, shape_names, &kind))
+		return false;
+	icon->kind = (enum gp_icon_kind)(kind + 1);
+	bool ok = true;
+	switch (icon->kind) {
+	case GP_ICON_ROUNDED_RECTANGLE:
+		ok &= gp_read_size(r, "radius", true, &icon->radius);
+		/* fall through */
+	case GP_ICON_RECTANGLE:
+	case GP_ICON_TRIANGLE:
+		ok &= gp_read_size_pair(r, "size", true, icon->size);
+		break;
+	case GP_ICON_RING:
+		ok &= gp_read_size(r, "width", true, &icon->line);
+		/* fall through */
+	case GP_ICON_CIRCLE:
+		ok &= gp_read_size(r, "diameter", true, &icon->diameter);
+		break;
+	case GP_ICON_ARROW:
+		ok &= gp_read_size_pair(r, "size", true, icon->size);
+		icon->line = icon->size[1] / 3;
+		icon->head = icon->size[1] / 2;
+		ok &= gp_read_size(r, "shaft", false, &icon->line);
+		ok &= gp_read_size(r, "head", false, &icon->head);
+		break;
+	case GP_ICON_POLYGON:
+		ok &= read_points(r, icon);
+		break;
+	case GP_ICON_TEXT:
+		break;
+	}
+	return ok && check_shape(r, icon);
+}
+
+/* Keys of another kind of icon: say they do not apply. */
+static bool reject_other_keys(struct gp_reader *r, const struct gp_icon *icon)
+{
+	bool ok = true;
+	for (size_t k = 0; r->map && k < r->map->count; k++) {
+		const char *key = r->map->keys[k]->text;
+		bool icon_key = false, asked = false;
+		for (size_t i = 0; all_keys[i]; i++)
+			icon_key |= strcmp(all_keys[i], key) == 0;
+		for (size_t i = 0; i < r->known_count; i++)
+			asked |= strcmp(r->known[i], key) == 0;
+		if (!icon_key || asked)
+			continue;
+		ok = gp_diag_error(r->diag, &r->map->keys[k]->where,
+				   "'%s' does not apply to a %s icon (%s)", key,
+				   kind_name(icon->kind), r->what);
+		gp_read_node(r, key, false);
+	}
+	return ok;
+}
+
+static int find_block(const struct gp_design *design, const char *name)
+{
+	for (size_t i = 0; i < design->block_count; i++)
+		if (strcmp(design->blocks[i].name, name) == 0)
+			return (int)i;
+	return -1;
+}
+
+/* common: NAME, or {block: NAME, line: N, row: N} to share the common of
+ * a dot-matrix row (line and row count from 1; line defaults to 1). */
+static bool read_common(struct gp_icon *icon, const struct gp_design *design,
+			const struct gp_node *node, struct gp_diag *diag)
+{
+	icon->common_where = node->where;
+	icon->common_block = -1;
+	if (node->kind == GP_NODE_SCALAR) {
+		if (!*node->text)
+			return gp_diag_error(diag, &node->where,
+					     "'common' is empty; expected a "
+					     "name or {block, line, row}");
+		icon->common = node->text;
+		return true;
+	}
+	char what[160];
+	snprintf(what, sizeof(what), "the common of icon '%s'", icon->name);
+	struct gp_reader r;
+	const char *block = NULL;
+	long line = 1, row = 1;
+	gp_reader_begin(&r, node, what, diag);
+	bool ok = gp_read_string(&r, "block", true, &block);
+	ok &= gp_read_int(&r, "line", false, 1, 1000000, &line);
+	ok &= gp_read_int(&r, "row", true, 1, 1000000, &row);
+	if (!gp_reader_end(&r) || !ok)
+		return false;
+	int b = find_block(design, block);
+	if (b < 0)
+		return gp_diag_error(diag, &node->where,
+				     "%s names block '%s', which is not "
+				     "described in 'blocks'", what, block);
+	const struct gp_block *blk = &design->blocks[b];
+	if (line > blk->lines || row > blk->dots_down)
+		return gp_diag_error(diag, &node->where,
+				     "%s: block '%s' has %ld line(s) of %ld "
+				     "dot rows; line %ld row %ld is outside",
+				     what, block, blk->lines, blk->dots_down,
+				     line, row);
+	icon->common_block = b;
+	icon->common_row = (line - 1) * blk->dots_down + (row - 1);
+	return true;
+}
+
+static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
+		      const char *name, const struct gp_node *node,
+		      struct gp_diag *diag)
+{
+	char what[160];
+	snprintf(what, sizeof(what), "icon '%s'", name);
+	struct gp_reader r;
+	int64_t position[2] = { 0, 0 };
+	memset(icon, 0, sizeof(*icon));
+	icon->name = name;
+	icon->where = node->where;
+	icon->common_block = -1;
+	gp_text_style_init(&icon->style);
+	icon->style.chord_tolerance = design->rules.chord_tolerance;
+	gp_reader_begin(&r, node, what, diag);
+	if (!r.map)
+		return gp_reader_end(&r);
+	bool ok = gp_read_pair(&r, "position", true, position);
+	icon->position = (struct gp_point){ position[0], position[1] };
+	ok &= read_rotation(&r, icon);
+	ok &= gp_read_bool(&r, "mirror", false, &icon->mirror);
+	const struct gp_node *common = gp_read_node(&r, "common", true);
+	ok = common && read_common(icon, design, common, diag) && ok;
+	const struct gp_node *segment = gp_read_node(&r, "segment", true);
+	if (segment) {
+		icon->segment_where = segment->where;
+		ok &= gp_read_string(&r, "segment", true, &icon->segment);
+	}
+	const struct gp_node *text = gp_read_node(&r, "text", false);
+	const struct gp_node *shape = gp_read_node(&r, "shape", false);
+	if (text && shape) {
+		ok = gp_diag_error(diag, &shape->where, "give either 'text' or "
+				   "'shape' in %s, not both", what);
+	} else if (!text && !shape) {
+		ok = gp_diag_error(diag, &node->where, "missing 'text' or "
+				   "'shape' in %s", what);
+	} else {
+		ok = (text ? read_text(&r, icon, text)
+			   : read_shape(&r, icon)) && ok;
+		ok = reject_other_keys(&r, icon) && ok;
+	}
+	icon->style.rotation = icon->rotation;
+	icon->style.mirror = icon->mirror;
+	return gp_reader_end(&r) && ok;
+}
+
+static bool same_common(const struct gp_icon *a, const struct gp_icon *b)
+{
+	if (a->common || b->common)
+		return a->common && b->common &&
+		       strcmp(a->common, b->common) == 0;
+	return a->common_block == b->common_block &&
+	       a->common_row == b->common_row;
+}
+
+static void describe_common(const struct gp_design *design,
+			    const struct gp_icon *icon, char *out, size_t size)
+{
+	if (icon->common) {
+		snprintf(out, size, "common '%s'", icon->common);
+		return;
+	}
+	const struct gp_block *b = &design->blocks[icon->common_block];
+	snprintf(out, size, "the common of block '%s' line %ld row %ld",
+		 b->name, icon->common_row / b->dots_down + 1,
+		 icon->common_row % b->dots_down + 1);
+}
+
+/* Each icon lights where its common and segment cross; two icons with the
+ * same pair would always light together. */
+static bool check_pairs(const struct gp_design *design, struct gp_diag *diag)
+{
+	bool ok = true;
+	for (size_t i = 0; i < design->icon_count; i++) {
+		const struct gp_icon *b = &design->icons[i];
+		for (size_t j = 0; j < i; j++) {
+			const struct gp_icon *a = &design->icons[j];
+			if (strcmp(a->segment, b->segment) != 0 ||
+			    !same_common(a, b))
+				continue;
+			char common[160];
+			describe_common(design, b, common, sizeof(common));
+			ok = gp_diag_error(diag, &b->common_where,
+					   "icons '%s' (line %d) and '%s' both "
+					   "use %s with segment '%s'; each icon "
+					   "needs its own (common, segment) "
+					   "pair", a->name, a->where.line,
+					   b->name, common, b->segment);
+			break;
+		}
+	}
+	return ok;
+}
+
+bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
+		   struct gp_diag *diag)
+{
+	if (!gp_node_expect_map(node, diag))
+		return false;
+	if (node->count > GP_MAX_ICONS)
+		return gp_diag_error(diag, &node->where,
+				     "%zu icons; the limit is %d", node->count,
+				     GP_MAX_ICONS);
+	design->icons = calloc(node->count ? node->count : 1,
+			       sizeof(*design->icons));
+	if (!design->icons)
+		return gp_diag_error(diag, &node->where, "out of memory");
+	bool ok = true;
+	for (size_t i = 0; i < node->count; i++) {
+		/* counted before reading, so that a failed icon's points
+		 * are freed too */
+		design->icon_count = i + 1;
+		ok &= read_icon(&design->icons[i], design, node->keys[i]->text,
+				node->items[i], diag);
+	}
+	return ok && check_pairs(design, diag);
+}

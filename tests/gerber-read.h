@@ -1,0 +1,73 @@
+/* Test helper: a strict reader for the Gerber files glassplot writes.
+ *
+ * It accepts only the subset of the Gerber Layer Format Specification
+ * (Ucamco, revision 2024.05) that the writer uses, and rejects with the
+ * section it breaks (numbers from memory) anything that is deprecated or
+ * malformed there:
+ *   3.3/3.4  every word ends with '*', extended commands between '%'
+ *   4.1      G04 comments
+ *   4.2.1    %MOMM*% once, before any coordinate
+ *   4.2.2    %FSLAX46Y46*% once, before any coordinate (only LA is current)
+ *   4.3      %ADDnn C/R apertures, nn >= 10, each defined once, before use
+ *   4.6      Dnn selects a defined aperture (not inside a region)
+ *   4.7      G01 before any D01
+ *   4.8      X..Y..D01/D02/D03 with an explicit operation code (coordinate
+ *            data without one is deprecated, 8.3), at most 4+6 digits
+ *   4.9      %LPD*% only (the writer never uses clear polarity)
+ *   4.10     G36/G37 regions: contours start with D02, are closed exactly,
+ *            have no zero-length segment and no D03 / Dnn inside
+ *   4.13     M02 last
+ *   5.6      %TF file attributes (kept as text)
+ *   8        deprecated: G54/G55, G70/G71, G90/G91, G74, M00/M01, %IN, %IP,
+ *            %AS, %IR, %MI, %OF, %SF, %LN, draws with rectangles
+ * It also rejects zero-length draws, which the writer promises not to
+ * produce.  Coordinates are read as integer nanometres (4.6 in mm). */
+#ifndef GERBER_READ_H
+#define GERBER_READ_H
+
+#include "geom.h"
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+
+struct gr_aperture {
+	int code;
+	char kind;     /* 'C' circle (a = diameter) or 'R' (a x b) */
+	int64_t a, b;  /* nm */
+};
+
+enum gr_kind {
+	GR_REGION, /* one closed contour: points without the closing repeat */
+	GR_DRAW,   /* a polyline: the D02 point then each D01 end point */
+	GR_FLASH,  /* one point */
+};
+
+struct gr_object {
+	enum gr_kind kind;
+	int aperture;      /* D code for draws and flashes, 0 for regions */
+	struct gp_ring points;
+	int line;          /* where it starts in the file, 1-based */
+};
+
+struct gr_file {
+	struct gr_aperture *apertures;
+	size_t aperture_count;
+	struct gr_object *objects;
+	size_t object_count;
+	char **attributes;   /* "TF.FileFunction,Other,front-ito" ... */
+	size_t attribute_count;
+	char error[256];     /* first violation, "line N: ... (spec X)" */
+};
+
+/* Reads text (need not be NUL-terminated).  False with file->error set on
+ * the first violation; file must be finished either way. */
+bool gr_read(const char *text, size_t size, struct gr_file *file);
+void gr_file_finish(struct gr_file *file);
+/* The value of file attribute name (".Part"): the text after "TF.Part,"
+ * ("" for a bare attribute), or NULL when absent. */
+const char *gr_attribute(const struct gr_file *file, const char *name);
+const struct gr_aperture *gr_aperture_find(const struct gr_file *file,
+					   int code);
+
+#endif
