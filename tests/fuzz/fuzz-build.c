@@ -9,9 +9,12 @@
  * so that fuzzing time goes to logic, not to throughput.  The limits
  * themselves are tested in tests/errors and by the benchmarks. */
 #define FUZZ_MAX_DOTS 20000
+#define FUZZ_MAX_ICONS 32
 
 static bool small_enough(const struct gp_design *design)
 {
+	if (design->icon_count > FUZZ_MAX_ICONS)
+		return false;
 	size_t dots = 0;
 	for (size_t i = 0; i < design->block_count; i++) {
 		const struct gp_block *b = &design->blocks[i];
