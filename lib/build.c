@@ -3,6 +3,7 @@
 
 #include "gerber.h"
 #include "output.h"
+#include "proof.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -15,35 +16,9 @@
 #include <string.h>
 #include <time.h>
 
-/* Width of the line that draws a cut outline: a drawing convention of
- * ours; the cut is along the line's centre. */
-#define OUTLINE_LINE_WIDTH (100 * 1000)
-
 GP_EXPORT const char *gp_version(void)
 {
 	return GP_VERSION;
-}
-
-static bool add_outline(struct gp_build *build, enum gp_layer layer,
-			struct gp_box box)
-{
-	struct gp_shape *shape = gp_artwork_add_box(&build->art, layer,
-						    GP_ROLE_OUTLINE,
-						    GP_NET_NONE, box);
-	if (!shape)
-		return false;
-	shape->line_width = OUTLINE_LINE_WIDTH;
-	return true;
-}
-
-bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag)
-{
-	if (!add_outline(build, GP_LAYER_FRONT_OUTLINE,
-			 build->design->front.box) ||
-	    !add_outline(build, GP_LAYER_BACK_OUTLINE,
-			 build->design->back.box))
-		return gp_diag_error(diag, NULL, "out of memory");
-	return true;
 }
 
 static void count_nets(const struct gp_artwork *art, size_t *commons,
@@ -120,6 +95,7 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
 	    !gp_icons_layout(build, diag) ||
+	    !gp_route_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
@@ -145,6 +121,8 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->written);
 	gp_buffer_finish(&build->json);
 	free(build->blocks);
+	free(build->ends);
+	free(build->pins);
 	free(build);
 }
 
@@ -265,6 +243,15 @@ static bool add_gerbers(const struct gp_build *build,
 	return true;
 }
 
+static bool add_proof(const struct gp_build *build,
+		      struct gp_output_set *set, struct gp_diag *diag)
+{
+	if (!gp_build_wants(build, GP_OUTPUT_PROOF))
+		return true;
+	struct gp_buffer *out = gp_output_add(set, "proof.pdf", diag);
+	return out && gp_proof_write(out, build, diag);
+}
+
 /* checksums.sha256 in the form "sha256sum -c" reads: hash, two spaces,
  * name.  Written last, over every other output. */
 static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
@@ -287,9 +274,13 @@ static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
 }
 
 bool gp_build_outputs(const struct gp_build *build,
-		      struct gp_output_set *set, struct gp_diag *diag)
+		      struct gp_output_set *set,
+		      struct gp_diag *diag)
 {
-	return add_gerbers(build, set, diag) && add_checksums(set, diag);
+	return add_gerbers(build, set, diag) &&
+	       add_proof(build, set, diag) &&
+	       gp_route_write(build, set, diag) &&
+	       add_checksums(set, diag);
 }
 
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,

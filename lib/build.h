@@ -8,6 +8,7 @@
 #include "diag.h"
 #include "model.h"
 #include "output.h"
+#include "route.h"
 
 struct gp_block_nets {
 	int first_common;         /* net index of the block's first common */
@@ -33,6 +34,12 @@ struct gp_build {
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;
+	/* Lead ends offered by layout stages (gp_build_add_lead_end). */
+	struct gp_lead_end *ends;
+	size_t end_count, end_capacity;
+	/* Pads made by routing, in ledge order. */
+	struct gp_pin *pins;
+	size_t pin_count;
 	/* Files read besides the description (fonts...), one per line, for
 	 * dependency files. */
 	struct gp_buffer inputs;
@@ -62,10 +69,13 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
 int gp_block_common_net(const struct gp_build *build, size_t block, long row);
 
 /* Renders every output of the build into set, in memory, touching no
- * file: gp_build_write is this followed by gp_output_commit.  The fuzz
+ * file: gp_build_write is this followed by gp_output_commit.  Every
+ * writer is called from here, so that the outputs in memory and on disk
+ * are the same set.  The fuzz
  * harness and tests use it to run the whole pipeline without a disk. */
 bool gp_build_outputs(const struct gp_build *build,
-		      struct gp_output_set *set, struct gp_diag *diag);
+		      struct gp_output_set *set,
+		      struct gp_diag *diag);
 
 /* Lays out every icon: nets, front electrodes and bridges, back patches
  * and bridges, pixels, summary lines (icon-layout.c). */

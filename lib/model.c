@@ -1,5 +1,6 @@
 #include "model.h"
 
+#include "route.h"
 #include "units.h"
 
 #include <stdlib.h>
@@ -114,12 +115,15 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "proof", false)))
+		r.ok &= gp_proof_read(design, node, diag);
 	if ((node = gp_read_node(&r, "icons", false)))
 		r.ok &= gp_icons_read(design, node, diag);
 	if ((node = gp_read_node(&r, "drive", false)))
 		r.ok &= gp_drive_read(design, node, diag);
 	if ((node = gp_read_node(&r, "optics", false)))
 		r.ok &= gp_optics_read(design, node, diag);
+	r.ok &= gp_routing_read(design, &r, diag);
 	return gp_reader_end(&r);
 }
 
@@ -153,6 +157,7 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design)
 	if (!design)
 		return;
 	free(design->blocks);
+	gp_routing_destroy(design->routing);
 	gp_icons_free(design);
 	gp_spec_destroy(design->spec);
 	free(design);

@@ -14,6 +14,8 @@
 #include <stdbool.h>
 #include <stdint.h>
 
+struct gp_routing;
+
 /* Design rules; defaults are common practice, no published source. */
 struct gp_rules {
 	int64_t min_line;         /* narrowest ITO line */
@@ -21,6 +23,18 @@ struct gp_rules {
 	int64_t registration;     /* plate-to-plate misalignment to survive */
 	int64_t edge_clearance;   /* ITO to the plate's cut edge */
 	int64_t chord_tolerance;  /* curve flattening */
+	struct gp_where where;
+};
+
+/* How the PDF proof is drawn (section 'proof', lib/proof.c).  Zero means
+ * "not given": the proof then uses its defaults. */
+struct gp_proof_spec {
+	int paper;                /* 0 = chosen to fit, else table index + 1 */
+	int series;               /* for a chosen paper: 0 ISO A, 1 US */
+	int orientation;          /* 0 = either, 1 portrait, 2 landscape */
+	int64_t span_tolerance;   /* on pattern spans (first to last cell) */
+	int64_t outline_tolerance;/* on plate sizes (cutting) */
+	const char *revision_date;/* as written, or NULL */
 	struct gp_where where;
 };
 
@@ -116,6 +130,8 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_proof_spec proof;
+	struct gp_routing *routing;   /* routing sections, NULL if none */
 	struct gp_icon *icons;
 	size_t icon_count;
 	struct gp_drive_spec drive;   /* sections 'drive' and 'optics' */
@@ -131,6 +147,8 @@ enum gp_plate gp_common_plate(const struct gp_design *design);
 int gp_design_common_count(const struct gp_design *design);
 
 /* Section readers, one per module. */
+bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
+		   struct gp_diag *diag);
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag);
 /* Reads the 'icons' section (after 'blocks' and 'rules'). */

@@ -1,0 +1,1503 @@
+/* Routing every net to a pad: choosing lead ends, the straight lead-outs
+ * inside the seal, common transfers, and per ledge the tracks round the
+ * seal and the 45-degree fan-out to the pads.
+ *
+ * Each ledge is routed in its own "canonical" frame, the glass turned so
+ * that the ledge is at the bottom; the results are turned back (turns by
+ * multiples of 90 degrees are exact in integers). */
+#include "route.h"
+
+#include "build.h"
+#include "geos.h"
+#include "units.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define PI 3.14159265358979323846
+#define SQRT2 1.41421356237309504880
+
+/* --- frames ---------------------------------------------------------------- */
+
+static struct gp_point to_canon(enum gp_side ledge, struct gp_point p)
+{
+	switch (ledge) {
+	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
+	case GP_SIDE_LEFT: return (struct gp_point){ -p.y, p.x };
+	case GP_SIDE_RIGHT: return (struct gp_point){ p.y, -p.x };
+	default: return p;
+	}
+}
+
+static struct gp_point from_canon(enum gp_side ledge, struct gp_point p)
+{
+	switch (ledge) {
+	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
+	case GP_SIDE_LEFT: return (struct gp_point){ p.y, -p.x };
+	case GP_SIDE_RIGHT: return (struct gp_point){ -p.y, p.x };
+	default: return p;
+	}
+}
+
+static struct gp_box box_map(struct gp_box b, enum gp_side ledge, bool in)
+{
+	struct gp_point a = { b.x0, b.y0 }, c = { b.x1, b.y1 };
+	a = in ? to_canon(ledge, a) : from_canon(ledge, a);
+	c = in ? to_canon(ledge, c) : from_canon(ledge, c);
+	return gp_box_make(a.x < c.x ? a.x : c.x, a.y < c.y ? a.y : c.y,
+			   a.x > c.x ? a.x : c.x, a.y > c.y ? a.y : c.y);
+}
+
+static enum gp_side side_to_canon(enum gp_side ledge, enum gp_side s)
+{
+	return (enum gp_side)((s - ledge + GP_SIDE_COUNT) % GP_SIDE_COUNT);
+}
+
+static enum gp_side side_from_canon(enum gp_side ledge, enum gp_side s)
+{
+	return (enum gp_side)((s + ledge) % GP_SIDE_COUNT);
+}
+
+static const char *mm(char *buf, int64_t nm)
+{
+	gp_format_mm_short(buf, 32, nm);
+	return buf;
+}
+
+static int64_t max64(int64_t a, int64_t b) { return a > b ? a : b; }
+static int64_t min64(int64_t a, int64_t b) { return a < b ? a : b; }
+
+/* --- lead ends --------------------------------------------------------------- */
+
+bool gp_build_add_lead_end(struct gp_build *build, int net,
+			   enum gp_side side, struct gp_point at,
+			   int64_t width)
+{
+	if (build->end_count == build->end_capacity) {
+		size_t wanted = build->end_capacity ? build->end_capacity * 2
+						    : 64;
+		struct gp_lead_end *grown =
+			realloc(build->ends, wanted * sizeof(*grown));
+		if (!grown)
+			return false;
+		build->ends = grown;
+		build->end_capacity = wanted;
+	}
+	build->ends[build->end_count++] = (struct gp_lead_end){
+		.net = net, .side = side, .at = at, .width = width,
+	};
+	return true;
+}
+
+/* --- the routing state ------------------------------------------------------- */
+
+struct cand {
+	enum gp_side side;
+	struct gp_point at;
+	int64_t width;
+};
+
+struct netstate {
+	int ledge;                /* -1: not routed */
+	struct cand cands[8];
+	int cand_count;
+	int chosen;
+	bool has_pad;             /* explicit map: pad known before routing */
+	int pin;                  /* index into build->pins, -1 */
+	bool transfer;
+	struct gp_box corridor;   /* electrode plate, real frame */
+	struct gp_box centre;     /* bounds of the net's electrodes */
+	int64_t ext;              /* narrow lead starts this far past the seal */
+	bool block_common;
+	int block_row;            /* row within its block, for the split */
+	int block_rows;
+};
+
+struct route {
+	struct gp_build *build;
+	const struct gp_design *design;
+	const struct gp_routing *g;
+	struct gp_diag *diag;
+	struct gp_box s_in, s_out;
+	struct netstate *nets;
+	size_t net_count;
+	int64_t space;            /* leads.space */
+	int64_t min_space;        /* rules.min_space */
+	size_t pin_first[GP_MAX_LEDGES];  /* first pad of each ledge */
+};
+
+static const char *net_name(const struct route *r, int net)
+{
+	return net >= 0 ? r->build->art.nets[net].name : "NC";
+}
+
+/* Plate box and the other plate's box. */
+static struct gp_box plate_box(const struct gp_design *d, enum gp_plate p)
+{
+	return p == GP_PLATE_FRONT ? d->front.box : d->back.box;
+}
+
+/* --- ledge checks ---------------------------------------------------------- */
+
+static int64_t box_edge(struct gp_box b, enum gp_side s)
+{
+	switch (s) {
+	case GP_SIDE_BOTTOM: return b.y0;
+	case GP_SIDE_TOP: return b.y1;
+	case GP_SIDE_LEFT: return b.x0;
+	default: return b.x1;
+	}
+}
+
+/* How far plate a sticks out past plate b on side s (negative: less). */
+static int64_t overhang(struct gp_box a, struct gp_box b, enum gp_side s)
+{
+	int64_t d = box_edge(a, s) - box_edge(b, s);
+	return s == GP_SIDE_BOTTOM || s == GP_SIDE_LEFT ? -d : d;
+}
+
+static bool resolve_ledge_plate(struct route *r, struct gp_ledge *l)
+{
+	const struct gp_design *d = r->design;
+	int64_t front = overhang(d->front.box, d->back.box, l->side);
+	if (!l->plate_given) {
+		if (front == 0)
+			return gp_diag_error(r->diag, &l->where,
+					     "ledge '%s': the front and back "
+					     "plates end together at the %s; "
+					     "make one plate overhang there "
+					     "for the pads",
+					     l->name, gp_side_name(l->side));
+		l->plate = front > 0 ? GP_PLATE_FRONT : GP_PLATE_BACK;
+	}
+	int64_t out = l->plate == GP_PLATE_FRONT ? front : -front;
+	if (out <= 0)
+		return gp_diag_error(r->diag, &l->where,
+				     "ledge '%s': the %s plate does not "
+				     "overhang the other plate at the %s, so "
+				     "there is no room for pads there",
+				     l->name,
+				     l->plate == GP_PLATE_FRONT ? "front"
+								: "back",
+				     gp_side_name(l->side));
+	return true;
+}
+
+static bool check_connection(struct route *r, const struct gp_ledge *l)
+{
+	char a[32], b[32], c[32];
+	int64_t gap = l->pitch - l->pad_width;
+	if (l->connection == GP_LEDGE_PINS &&
+	    l->pitch != l->connector_pitch)
+		return gp_diag_error(r->diag, &l->where,
+				     "ledge '%s': pad pitch %s mm differs "
+				     "from the pin pitch %s mm; pins need "
+				     "pads at their own pitch",
+				     l->name, mm(a, l->pitch),
+				     mm(b, l->connector_pitch));
+	if (l->connection == GP_LEDGE_HEAT_SEAL && l->connector_pitch &&
+	    l->pitch < l->connector_pitch)
+		return gp_diag_error(r->diag, &l->where,
+				     "ledge '%s': pad pitch %s mm is finer "
+				     "than the heat-seal connector's "
+				     "finest pitch %s mm",
+				     l->name, mm(a, l->pitch),
+				     mm(b, l->connector_pitch));
+	/* Elastomeric strips: at least two conductors on a pad and no
+	 * conductor bridging a gap (common practice, no published source). */
+	if (l->connection == GP_LEDGE_ELASTOMERIC && l->connector_pitch &&
+	    (l->pad_width < 2 * l->connector_pitch ||
+	     gap < l->connector_pitch))
+		return gp_diag_error(r->diag, &l->where,
+				     "ledge '%s': pads %s mm wide with %s mm "
+				     "gaps do not suit a %s mm conductor "
+				     "pitch; expected pads of at least two "
+				     "conductor pitches and gaps of at least "
+				     "one",
+				     l->name, mm(a, l->pad_width),
+				     mm(b, gap), mm(c, l->connector_pitch));
+	if (gap < r->min_space)
+		return gp_diag_error(r->diag, &l->where,
+				     "ledge '%s': pads %s mm wide at %s mm "
+				     "pitch leave %s mm between pads, less "
+				     "than the minimum space %s mm",
+				     l->name, mm(a, l->pad_width),
+				     mm(b, l->pitch), mm(c, gap),
+				     mm(c + 0, r->min_space));
+	return true;
+}
+
+/* --- candidates -------------------------------------------------------------- */
+
+static bool is_block_net(const struct gp_build *b, int net, bool *common,
+			 int *row, int *rows)
+{
+	for (size_t i = 0; i < b->design->block_count; i++) {
+		const struct gp_block_nets *n = &b->blocks[i];
+		if (b->design->blocks[i].commons_from < 0 &&
+		    net >= n->first_common &&
+		    net < n->first_common + n->common_count) {
+			*common = true;
+			*row = net - n->first_common;
+			*rows = (int)n->common_count;
+			return true;
+		}
+		if (net >= n->first_segment &&
+		    net < n->first_segment + n->segment_count) {
+			*common = false;
+			return true;
+		}
+	}
+	return false;
+}
+
+static void add_cand(struct netstate *n, enum gp_side side,
+		     struct gp_point at, int64_t width)
+{
+	if (n->cand_count < 8)
+		n->cands[n->cand_count++] = (struct cand){ side, at, width };
+}
+
+/* Ends of block strips come from the strips themselves. */
+static void block_cands(struct route *r, int net, struct netstate *n)
+{
+	bool common = false;
+	int row = 0, rows = 1;
+	if (!is_block_net(r->build, net, &common, &row, &rows))
+		return;
+	struct gp_box b = n->centre;
+	if (common) {
+		int64_t y = (b.y0 + b.y1) / 2, h = b.y1 - b.y0;
+		n->block_common = true;
+		n->block_row = row;
+		n->block_rows = rows;
+		add_cand(n, GP_SIDE_LEFT, (struct gp_point){ b.x0, y }, h);
+		add_cand(n, GP_SIDE_RIGHT, (struct gp_point){ b.x1, y }, h);
+	} else {
+		int64_t x = (b.x0 + b.x1) / 2, w = b.x1 - b.x0;
+		add_cand(n, GP_SIDE_BOTTOM, (struct gp_point){ x, b.y0 }, w);
+		add_cand(n, GP_SIDE_TOP, (struct gp_point){ x, b.y1 }, w);
+	}
+}
+
+static bool collect_cands(struct route *r)
+{
+	const struct gp_artwork *art = &r->build->art;
+	for (size_t i = 0; i < r->net_count; i++)
+		r->nets[i].centre = gp_box_none();
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net < 0 || (size_t)s->net >= r->net_count ||
+		    s->role == GP_ROLE_PATCH)
+			continue;
+		r->nets[s->net].centre = gp_box_union(
+			r->nets[s->net].centre, gp_polygon_bounds(&s->poly));
+	}
+	for (size_t i = 0; i < r->build->end_count; i++) {
+		const struct gp_lead_end *e = &r->build->ends[i];
+		if (e->net >= 0 && (size_t)e->net < r->net_count)
+			add_cand(&r->nets[e->net], e->side, e->at, e->width);
+	}
+	for (size_t i = 0; i < r->net_count; i++)
+		if (r->nets[i].cand_count == 0)
+			block_cands(r, (int)i, &r->nets[i]);
+	return true;
+}
+
+/* --- corridors ------------------------------------------------------------- */
+
+/* Where the wide part of a lead leaving at `at` towards side ends: the
+ * seal's outer edge pushed out by ext. */
+static struct gp_box corridor_box(const struct route *r, const struct cand *c,
+				  int64_t ext)
+{
+	int64_t h0 = c->width / 2, h1 = c->width - c->width / 2;
+	struct gp_box o = r->s_out;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM:
+		return gp_box_make(c->at.x - h0, o.y0 - ext, c->at.x + h1,
+				   c->at.y);
+	case GP_SIDE_TOP:
+		return gp_box_make(c->at.x - h0, c->at.y, c->at.x + h1,
+				   o.y1 + ext);
+	case GP_SIDE_LEFT:
+		return gp_box_make(o.x0 - ext, c->at.y - h0, c->at.x,
+				   c->at.y + h1);
+	default:
+		return gp_box_make(c->at.x, c->at.y - h0, o.x1 + ext,
+				   c->at.y + h1);
+	}
+}
+
+static bool boxes_overlap(struct gp_box a, struct gp_box b)
+{
+	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
+}
+
+/* Squared distance between boxes, in nm^2 as double. */
+static double box_gap2(struct gp_box a, struct gp_box b)
+{
+	double dx = (double)max64(0, max64(a.x0 - b.x1, b.x0 - a.x1));
+	double dy = (double)max64(0, max64(a.y0 - b.y1, b.y0 - a.y1));
+	return dx * dx + dy * dy;
+}
+
+static bool shape_is_box(const struct gp_shape *s)
+{
+	const struct gp_ring *o = &s->poly.outer;
+	if (s->poly.hole_count || o->count != 4)
+		return false;
+	for (size_t i = 0; i < 4; i++) {
+		struct gp_point a = o->points[i], b = o->points[(i + 1) % 4];
+		if (a.x != b.x && a.y != b.y)
+			return false;
+	}
+	return true;
+}
+
+struct blocker {
+	struct route *r;
+	int net;
+	enum gp_plate plate;
+	struct gp_box box;
+	int hit;                  /* net that blocks, or -1 */
+	bool plate_hit;           /* on the other plate */
+};
+
+static void visit_blocker(void *user, size_t item)
+{
+	struct blocker *k = user;
+	const struct gp_shape *s = &k->r->build->art.shapes[item];
+	if (k->hit >= 0 || s->net == k->net || s->net < 0)
+		return;
+	enum gp_plate plate = s->layer == GP_LAYER_FRONT_ITO ? GP_PLATE_FRONT
+							     : GP_PLATE_BACK;
+	struct gp_box b = gp_polygon_bounds(&s->poly);
+	/* Bounds are exact for boxes and conservative otherwise. */
+	if (plate != k->plate) {
+		struct gp_box inner = k->box;
+		if (!boxes_overlap(inner, k->r->s_in) || !boxes_overlap(b, inner))
+			return;
+		if (!shape_is_box(s) || boxes_overlap(b, inner))
+			k->hit = s->net, k->plate_hit = true;
+	} else {
+		double gap = (double)k->r->min_space;
+		if (box_gap2(b, k->box) < gap * gap)
+			k->hit = s->net, k->plate_hit = false;
+	}
+}
+
+/* Rank of a candidate: towards the ledge first, the far side last. */
+static int cand_rank(const struct route *r, const struct netstate *n,
+		     const struct cand *c)
+{
+	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	enum gp_side s = side_to_canon(l->side, c->side);
+	int rank = s == GP_SIDE_BOTTOM ? 0 : s == GP_SIDE_TOP ? 4 : 2;
+	if (n->block_common && (c->side == GP_SIDE_LEFT ||
+				c->side == GP_SIDE_RIGHT)) {
+		enum gp_commons_exit e = r->g->leads.commons;
+		if (e == GP_COMMONS_AUTO)
+			e = l->side == GP_SIDE_LEFT    ? GP_COMMONS_LEFT
+			    : l->side == GP_SIDE_RIGHT ? GP_COMMONS_RIGHT
+						       : GP_COMMONS_SPLIT;
+		if (e == GP_COMMONS_SPLIT)
+			e = n->block_row < (n->block_rows + 1) / 2
+				    ? GP_COMMONS_LEFT
+				    : GP_COMMONS_RIGHT;
+		bool want_left = e == GP_COMMONS_LEFT;
+		rank = (c->side == GP_SIDE_LEFT) == want_left ? 1 : 3;
+	}
+	if (n->has_pad && (s == GP_SIDE_LEFT || s == GP_SIDE_RIGHT)) {
+		/* with a pin map, leave towards the pad */
+		const struct gp_pin *pin = &r->build->pins[n->pin];
+		struct gp_point pc = to_canon(l->side, pin->centre);
+		struct gp_point ec = to_canon(
+			l->side, (struct gp_point){
+					 (n->centre.x0 + n->centre.x1) / 2,
+					 (n->centre.y0 + n->centre.y1) / 2 });
+		bool left = pc.x < ec.x;
+		rank = (s == GP_SIDE_LEFT) == left ? 1 : 3;
+	}
+	return rank;
+}
+
+static int64_t transfer_zone(const struct route *r)
+{
+	const struct gp_transfer_spec *t = &r->g->transfers;
+	return t->count * (t->size + t->margin) + t->margin;
+}
+
+static bool choose_ends(struct route *r, struct gp_geos_index *index)
+{
+	bool ok = true;
+	for (size_t i = 0; i < r->net_count; i++) {
+		struct netstate *n = &r->nets[i];
+		if (n->ledge < 0)
+			continue;
+		const struct gp_ledge *l = &r->g->ledges[n->ledge];
+		enum gp_plate plate = r->build->art.nets[i].plate;
+		n->transfer = plate != l->plate;
+		n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
+		int order[8];
+		for (int k = 0; k < n->cand_count; k++)
+			order[k] = k;
+		for (int k = 1; k < n->cand_count; k++)
+			for (int j = k; j > 0 &&
+					cand_rank(r, n, &n->cands[order[j]]) <
+						cand_rank(r, n,
+							  &n->cands[order[j - 1]]);
+			     j--) {
+				int t = order[j];
+				order[j] = order[j - 1];
+				order[j - 1] = t;
+			}
+		n->chosen = -1;
+		struct blocker k = { .r = r, .net = (int)i, .plate = plate };
+		for (int c = 0; c < n->cand_count && n->chosen < 0; c++) {
+			k.box = corridor_box(r, &n->cands[order[c]], n->ext);
+			k.hit = -1;
+			struct gp_box q = k.box;
+			q.x0 -= r->min_space, q.y0 -= r->min_space;
+			q.x1 += r->min_space, q.y1 += r->min_space;
+			if (!gp_geos_index_query(index, q, visit_blocker, &k))
+				return false;
+			if (k.hit < 0)
+				n->chosen = order[c];
+		}
+		if (n->cand_count == 0) {
+			ok = gp_diag_error(r->diag, NULL,
+					   "%s: net %s has no place to lead "
+					   "it out",
+					   r->design->spec->file,
+					   net_name(r, (int)i));
+		} else if (n->chosen < 0) {
+			char x[32], y[32];
+			const struct cand *c = &n->cands[order[0]];
+			ok = gp_diag_error(
+				r->diag, NULL,
+				"%s: the lead-out of %s from (%s, %s) mm "
+				"towards the %s is blocked by %s on the %s "
+				"plate, and so is every other way out",
+				r->design->spec->file, net_name(r, (int)i),
+				mm(x, c->at.x), mm(y, c->at.y),
+				gp_side_name(c->side), net_name(r, k.hit),
+				k.plate_hit ? "other" : "same");
+		} else {
+			n->corridor = corridor_box(r, &n->cands[n->chosen],
+						   n->ext);
+		}
+	}
+	return ok;
+}
+
+/* Inside the seal, no two chosen corridors may clash. */
+static bool check_corridors(struct route *r, struct gp_geos *geos)
+{
+	size_t count = 0;
+	int *which = malloc((r->net_count + 1) * sizeof(*which));
+	struct gp_box *boxes = malloc((r->net_count + 1) * sizeof(*boxes));
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0;
+	bool ok = which && boxes;
+	for (size_t i = 0; ok && i < r->net_count; i++) {
+		if (r->nets[i].ledge < 0 || r->nets[i].chosen < 0)
+			continue;
+		which[count] = (int)i;
+		boxes[count++] = r->nets[i].corridor;
+	}
+	ok = ok && gp_geos_box_pairs(geos, boxes, count, r->min_space, &pairs,
+				     &pair_count);
+	for (size_t p = 0; ok && p < pair_count; p++) {
+		int a = which[pairs[p].a], b = which[pairs[p].b];
+		enum gp_plate pa = r->build->art.nets[a].plate;
+		enum gp_plate pb = r->build->art.nets[b].plate;
+		struct gp_box ba = boxes[pairs[p].a], bb = boxes[pairs[p].b];
+		bool clash = pa == pb ? box_gap2(ba, bb) <
+						(double)r->min_space *
+							(double)r->min_space
+				      : boxes_overlap(ba, bb);
+		if (clash) {
+			char x[32], y[32];
+			ok = gp_diag_error(r->diag, NULL,
+					   "%s: the lead-outs of %s and %s "
+					   "clash inside the seal near (%s, "
+					   "%s) mm",
+					   r->design->spec->file,
+					   net_name(r, a), net_name(r, b),
+					   mm(x, max64(ba.x0, bb.x0)),
+					   mm(y, max64(ba.y0, bb.y0)));
+		}
+	}
+	free(pairs);
+	free(which);
+	free(boxes);
+	return ok;
+}
+
+/* --- shapes ------------------------------------------------------------------ */
+
+/* Outline of a path of straight segments of width w with mitred corners
+ * (corners here are 45 or 90 degrees, so mitres stay short). */
+static bool path_polygon(const struct gp_point *p, size_t n, int64_t w,
+			 struct gp_polygon *poly)
+{
+	double h = (double)w / 2;
+	double *nx = malloc(n * sizeof(double)), *ny = malloc(n * sizeof(double));
+	bool ok = nx && ny;
+	for (size_t i = 0; ok && i + 1 < n; i++) {
+		double dx = (double)(p[i + 1].x - p[i].x);
+		double dy = (double)(p[i + 1].y - p[i].y);
+		double len = sqrt(dx * dx + dy * dy);
+		nx[i] = -dy / len;
+		ny[i] = dx / len;
+	}
+	for (int side = 1; ok && side >= -1; side -= 2) {
+		for (size_t k = 0; k < n; k++) {
+			size_t i = side > 0 ? k : n - 1 - k;
+			double ox, oy;
+			if (i == 0) {
+				ox = nx[0], oy = ny[0];
+			} else if (i == n - 1) {
+				ox = nx[n - 2], oy = ny[n - 2];
+			} else {
+				double d = 1 + nx[i - 1] * nx[i] +
+					   ny[i - 1] * ny[i];
+				ox = (nx[i - 1] + nx[i]) / d;
+				oy = (ny[i - 1] + ny[i]) / d;
+			}
+			ok &= gp_ring_push(&poly->outer,
+					   p[i].x + llround(side * h * ox),
+					   p[i].y + llround(side * h * oy));
+		}
+	}
+	free(nx);
+	free(ny);
+	if (ok)
+		gp_polygon_normalize(poly);
+	return ok;
+}
+
+static bool add_path(struct route *r, enum gp_plate plate, int net,
+		     const struct gp_point *p, size_t n, int64_t w)
+{
+	struct gp_polygon poly;
+	gp_polygon_init(&poly);
+	bool ok = n >= 2 && path_polygon(p, n, w, &poly) &&
+		  gp_artwork_add_shape(&r->build->art, gp_plate_ito_layer(plate),
+				       GP_ROLE_LEAD, net, &poly);
+	gp_polygon_finish(&poly);
+	return ok;
+}
+
+/* A flattened circle: vertices on the circle, chord error within tol. */
+static bool circle_polygon(struct gp_point c, int64_t d, int64_t tol,
+			   struct gp_polygon *poly)
+{
+	int quadrant = gp_geos_quadrant_segments(d / 2, tol > 0 ? tol : 1000);
+	int n = 4 * quadrant;
+	bool ok = true;
+	for (int i = 0; ok && i < n; i++) {
+		double a = 2 * PI * i / n;
+		ok = gp_ring_push(&poly->outer,
+				  c.x + llround((double)d / 2 * cos(a)),
+				  c.y + llround((double)d / 2 * sin(a)));
+	}
+	return ok;
+}
+
+/* Dots and their ITO pads for a net that changes plates. */
+static bool add_transfers(struct route *r, int net, const struct netstate *n)
+{
+	const struct gp_transfer_spec *t = &r->g->transfers;
+	const struct cand *c = &n->cands[n->chosen];
+	int64_t zone = transfer_zone(r);
+	/* distance from the seal's outer edge outwards (negative: inwards)
+	 * to the outer end of the zone */
+	int64_t outer = t->outside ? zone : 0;
+	int64_t lat = t->size + 2 * t->margin;
+	for (int i = 0; i < (int)t->count; i++) {
+		int64_t along = outer - t->margin - t->size / 2 -
+				i * (t->size + t->margin);
+		struct gp_point p;
+		switch (c->side) {
+		case GP_SIDE_BOTTOM: p = (struct gp_point){ c->at.x, r->s_out.y0 - along }; break;
+		case GP_SIDE_TOP: p = (struct gp_point){ c->at.x, r->s_out.y1 + along }; break;
+		case GP_SIDE_LEFT: p = (struct gp_point){ r->s_out.x0 - along, c->at.y }; break;
+		default: p = (struct gp_point){ r->s_out.x1 + along, c->at.y }; break;
+		}
+		struct gp_polygon dot;
+		gp_polygon_init(&dot);
+		bool ok = circle_polygon(p, t->size,
+					 r->design->rules.chord_tolerance, &dot) &&
+			  gp_artwork_add_shape(&r->build->art, GP_LAYER_TRANSFER,
+					       GP_ROLE_TRANSFER, net, &dot);
+		gp_polygon_finish(&dot);
+		if (!ok)
+			return false;
+	}
+	/* ITO under the dots on both plates */
+	struct cand pad = *c;
+	pad.width = lat;
+	struct gp_box box = corridor_box(r, &pad, n->ext);
+	int64_t inner = outer - zone;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: box.y1 = r->s_out.y0 - inner; break;
+	case GP_SIDE_TOP: box.y0 = r->s_out.y1 + inner; break;
+	case GP_SIDE_LEFT: box.x1 = r->s_out.x0 - inner; break;
+	default: box.x0 = r->s_out.x1 + inner; break;
+	}
+	return gp_artwork_add_box(&r->build->art, GP_LAYER_FRONT_ITO,
+				  GP_ROLE_TRANSFER, net, box) &&
+	       gp_artwork_add_box(&r->build->art, GP_LAYER_BACK_ITO,
+				  GP_ROLE_TRANSFER, net, box);
+}
+
+static bool check_transfer_room(struct route *r)
+{
+	const struct gp_transfer_spec *t = &r->g->transfers;
+	if (t->outside)
+		return true;
+	int64_t band = r->g->seal.width;
+	int64_t need = transfer_zone(r);
+	if (need <= band)
+		return true;
+	char a[32], b[32], c[32], d[32];
+	return gp_diag_error(r->diag, &t->where,
+			     "%ld transfer dots of %s mm with %s mm margins "
+			     "need %s mm across the seal band, which is %s mm "
+			     "wide; use smaller or fewer dots, a wider seal "
+			     "or 'place: outside'",
+			     t->count, mm(a, t->size), mm(b, t->margin),
+			     mm(c, need), mm(d, band));
+}
+
+/* --- per ledge: order, pads, tracks, fan-out ---------------------------------- */
+
+struct item {
+	int net;
+	enum gp_side side;        /* canonical */
+	int64_t pos;              /* canonical coordinate along the side */
+	int64_t width;            /* narrow lead width */
+	int group;                /* 0 top-left, 1 left, 2 bottom, 3 right, 4 top-right */
+	int64_t key;
+	int pin;                  /* index into build->pins */
+	int64_t pad;              /* canonical pad centre x */
+	int64_t track;            /* track coordinate (x for sides, y for top) */
+	int64_t top_track;        /* y of the track above the seal */
+	int64_t arrive;           /* x where it enters the fan-out */
+	int64_t ytop, ybot;
+};
+
+static int compare_items(const void *a, const void *b)
+{
+	const struct item *x = a, *y = b;
+	if (x->group != y->group)
+		return x->group < y->group ? -1 : 1;
+	if (x->key != y->key)
+		return x->key < y->key ? -1 : 1;
+	return (x->net > y->net) - (x->net < y->net);
+}
+
+struct ledge_ctx {
+	struct route *r;
+	struct gp_ledge *l;
+	int index;
+	struct gp_box out;        /* seal outer edge, canonical */
+	struct gp_box plate;      /* ledge plate, canonical */
+	struct item *items;
+	size_t count;
+	int64_t clear;            /* edge clearance for leads */
+};
+
+/* "COM1-COM8, SEG1-SEG80, COM16-COM9" */
+static void describe_order(const struct route *r, const int *nets, size_t n,
+			   char *out, size_t size)
+{
+	size_t used = 0;
+	out[0] = '\0';
+	for (size_t i = 0; i < n && used + 1 < size;) {
+		size_t j = i;
+		const struct gp_net *a = nets[i] >= 0 ? &r->build->art.nets[nets[i]] : NULL;
+		int step = 0;
+		while (a && j + 1 < n && nets[j + 1] >= 0) {
+			const struct gp_net *b = &r->build->art.nets[nets[j + 1]];
+			const struct gp_net *p = &r->build->art.nets[nets[j]];
+			int d = b->number - p->number;
+			if (b->kind != a->kind || (d != 1 && d != -1) ||
+			    (step && d != step))
+				break;
+			step = d;
+			j++;
+		}
+		if (j > i)
+			used += (size_t)snprintf(out + used, size - used,
+						 "%s%s-%s", i ? ", " : "",
+						 net_name(r, nets[i]),
+						 net_name(r, nets[j]));
+		else
+			used += (size_t)snprintf(out + used, size - used,
+						 "%s%s", i ? ", " : "",
+						 net_name(r, nets[i]));
+		if (used >= size)
+			used = size - 1;
+		i = j + 1;
+	}
+}
+
+static bool make_items(struct ledge_ctx *c)
+{
+	struct route *r = c->r;
+	size_t n = 0;
+	for (size_t i = 0; i < r->net_count; i++)
+		if (r->nets[i].ledge == c->index)
+			n++;
+	c->items = calloc(n ? n : 1, sizeof(*c->items));
+	if (!c->items)
+		return gp_diag_error(r->diag, NULL, "out of memory");
+	int64_t cut = (c->out.x0 + c->out.x1) / 2;
+	for (size_t i = 0; i < r->net_count; i++) {
+		struct netstate *ns = &r->nets[i];
+		if (ns->ledge != c->index)
+			continue;
+		const struct cand *cd = &ns->cands[ns->chosen];
+		struct item *it = &c->items[c->count++];
+		struct gp_point at = to_canon(c->l->side, cd->at);
+		it->net = (int)i;
+		it->side = side_to_canon(c->l->side, cd->side);
+		it->pos = it->side == GP_SIDE_BOTTOM || it->side == GP_SIDE_TOP
+				  ? at.x
+				  : at.y;
+		int64_t w = min64(r->g->leads.width, cd->width);
+		w = min64(w, c->l->pad_width);
+		it->width = max64(w, r->design->rules.min_line);
+		it->pin = ns->pin;
+		switch (it->side) {
+		case GP_SIDE_BOTTOM: it->group = 2, it->key = it->pos; break;
+		case GP_SIDE_LEFT: it->group = 1, it->key = -it->pos; break;
+		case GP_SIDE_RIGHT: it->group = 3, it->key = it->pos; break;
+		default:
+			it->group = it->pos < cut ? 0 : 4;
+			it->key = -it->pos;
+			break;
+		}
+	}
+	qsort(c->items, c->count, sizeof(*c->items), compare_items);
+	return true;
+}
+
+/* Leads leaving one side must be far enough apart outside the seal. */
+static bool check_exit_spacing(struct ledge_ctx *c)
+{
+	for (size_t i = 0; i + 1 < c->count; i++) {
+		struct item *a = &c->items[i], *b = &c->items[i + 1];
+		if (a->side != b->side)
+			continue;
+		int64_t need = (a->width + b->width) / 2 + c->r->space;
+		int64_t have = a->pos > b->pos ? a->pos - b->pos : b->pos - a->pos;
+		if (have < need) {
+			char x[32], y[32];
+			return gp_diag_error(
+				c->r->diag, &c->l->where,
+				"ledge '%s': the leads of %s and %s leave the "
+				"seal %s mm apart (centre to centre); they "
+				"need %s mm (lead width plus space)",
+				c->l->name, net_name(c->r, a->net),
+				net_name(c->r, b->net), mm(x, have),
+				mm(y, need));
+		}
+	}
+	return true;
+}
+
+/* Pads of the ledge in the real frame, numbered; with a pin map the nets
+ * are already on them. */
+static bool make_pads(struct route *r, struct gp_ledge *l, int index,
+		      size_t count, int first_pin)
+{
+	const struct gp_design *d = r->design;
+	struct gp_box plate = plate_box(d, l->plate);
+	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
+	int64_t lo = across ? plate.x0 : plate.y0;
+	int64_t hi = across ? plate.x1 : plate.y1;
+	int64_t clear = d->rules.edge_clearance;
+	int64_t span = (int64_t)(count - 1) * l->pitch;
+	char a[32], b[32], c[32], e[32], f[32];
+	if ((int64_t)count * l->pitch > hi - lo - 2 * clear + l->pitch - l->pad_width)
+		return gp_diag_error(
+			r->diag, &l->where,
+			"ledge '%s' is too short: %zu pads need %zu x (%s + "
+			"%s) = %s mm along the %s of the %s plate, but only "
+			"%s mm is available between %s %s and %s mm",
+			l->name, count, count, mm(a, l->pad_width),
+			mm(b, l->pitch - l->pad_width),
+			mm(c, (int64_t)count * l->pitch), gp_side_name(l->side),
+			l->plate == GP_PLATE_FRONT ? "front" : "back",
+			mm(e, hi - lo - 2 * clear + l->pitch - l->pad_width),
+			across ? "x" : "y", mm(f, lo + clear), mm(a, hi - clear));
+	if (!l->pin1_given)
+		l->pin1 = (lo + hi) / 2 - l->direction * (span / 2);
+	int64_t first = l->pin1, last = l->pin1 + l->direction * span;
+	int64_t low = min64(first, last) - l->pad_width / 2;
+	int64_t high = max64(first, last) + l->pad_width - l->pad_width / 2;
+	if (low < lo + clear || high > hi - clear)
+		return gp_diag_error(
+			r->diag, &l->where,
+			"ledge '%s': the pad row runs from %s to %s mm but "
+			"the ledge, less the edge clearance, is from %s to "
+			"%s mm; move 'pin1'",
+			l->name, mm(a, low), mm(b, high), mm(c, lo + clear),
+			mm(e, hi - clear));
+	/* across the ledge: from the edge clearance inwards */
+	int64_t edge = box_edge(plate, l->side);
+	int sign = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_LEFT ? 1 : -1;
+	int64_t near = edge + sign * l->edge_clearance;
+	int64_t far = near + sign * l->pad_length;
+	struct gp_box other = plate_box(d, l->plate == GP_PLATE_FRONT
+						   ? GP_PLATE_BACK
+						   : GP_PLATE_FRONT);
+	int64_t other_edge = box_edge(other, l->side);
+	if ((sign > 0 && far > other_edge) || (sign < 0 && far < other_edge))
+		return gp_diag_error(
+			r->diag, &l->where,
+			"ledge '%s': pads end at %s mm, under the other plate "
+			"(its edge is at %s mm); shorten 'pad_length' or "
+			"'edge_clearance'",
+			l->name, mm(a, far), mm(b, other_edge));
+	for (size_t k = 0; k < count; k++) {
+		/* the span is the datum: pad k from pin 1 directly */
+		int64_t along = l->pin1 + l->direction * (int64_t)k * l->pitch;
+		int64_t w0 = l->pad_width / 2, w1 = l->pad_width - w0;
+		struct gp_box box = across
+			? gp_box_make(along - w0, min64(near, far), along + w1,
+				      max64(near, far))
+			: gp_box_make(min64(near, far), along - w0,
+				      max64(near, far), along + w1);
+		struct gp_pin *p = &r->build->pins[r->build->pin_count++];
+		p->number = first_pin + (int)k;
+		p->ledge = index;
+		p->box = box;
+		p->centre = (struct gp_point){ (box.x0 + box.x1) / 2,
+					       (box.y0 + box.y1) / 2 };
+		if (across)
+			p->centre.x = along;
+		else
+			p->centre.y = along;
+		p->net = GP_NET_NONE;
+	}
+	return true;
+}
+
+/* Tracks of the leads that go round the left (or, mirrored, right) of the
+ * seal: the first in walking order is outermost. */
+static bool side_tracks(struct ledge_ctx *c, size_t from, size_t to,
+			bool left)
+{
+	struct route *r = c->r;
+	if (from == to)
+		return true;
+	int64_t edge = left ? c->out.x0 : c->out.x1;
+	int64_t sign = left ? -1 : 1;
+	int64_t at = edge + sign * (c->r->nets[c->items[from].net].ext +
+				    r->space);
+	int64_t need = 0;
+	/* inner to outer */
+	for (size_t k = 0; k < to - from; k++) {
+		size_t i = left ? to - 1 - k : from + k;
+		struct item *it = &c->items[i];
+		it->track = at + sign * (it->width / 2);
+		at += sign * (it->width + r->space);
+		need += it->width + r->space;
+	}
+	int64_t limit = left ? c->plate.x0 + c->clear : c->plate.x1 - c->clear;
+	int64_t last = at - sign * r->space;
+	if ((left && last >= limit) || (!left && last <= limit))
+		return true;
+	char a[32], b[32], d[32], e[32];
+	enum gp_side real = side_from_canon(c->l->side,
+					    left ? GP_SIDE_LEFT : GP_SIDE_RIGHT);
+	int64_t have = left ? edge - limit : limit - edge;
+	have -= r->nets[c->items[from].net].ext + r->space;
+	return gp_diag_error(
+		r->diag, &c->l->where,
+		"ledge '%s': %zu leads (%s to %s) pass the %s of the seal "
+		"outside it; they need %zu x (%s + %s) = %s mm but only %s "
+		"mm is free there between the seal and the edge clearance",
+		c->l->name, to - from, net_name(r, c->items[from].net),
+		net_name(r, c->items[to - 1].net), gp_side_name(real),
+		to - from, mm(a, c->items[from].width), mm(b, r->space),
+		mm(d, need), mm(e, have > 0 ? have : 0));
+}
+
+static bool top_tracks(struct ledge_ctx *c, size_t from, size_t to,
+		       bool left)
+{
+	struct route *r = c->r;
+	if (from == to)
+		return true;
+	int64_t at = c->out.y1 + r->nets[c->items[from].net].ext + r->space;
+	int64_t need = 0;
+	for (size_t k = 0; k < to - from; k++) {
+		/* left part: the first (nearest the cut) is outermost */
+		size_t i = left ? to - 1 - k : from + k;
+		struct item *it = &c->items[i];
+		it->top_track = at + it->width / 2;
+		at += it->width + r->space;
+		need += it->width + r->space;
+	}
+	if (at - r->space <= c->plate.y1 - c->clear)
+		return true;
+	char a[32], b[32], d[32], e[32];
+	enum gp_side real = side_from_canon(c->l->side, GP_SIDE_TOP);
+	int64_t have = c->plate.y1 - c->clear - c->out.y1 -
+		       r->nets[c->items[from].net].ext - r->space;
+	return gp_diag_error(
+		r->diag, &c->l->where,
+		"ledge '%s': %zu leads (%s to %s) leave the %s of the seal "
+		"and go round it; they need %zu x (%s + %s) = %s mm but only "
+		"%s mm is free there",
+		c->l->name, to - from, net_name(r, c->items[from].net),
+		net_name(r, c->items[to - 1].net), gp_side_name(real),
+		to - from, mm(a, c->items[from].width), mm(b, r->space),
+		mm(d, need), mm(e, have > 0 ? have : 0));
+}
+
+/* 45-degree fan-out from the arrivals to the pads (see DEVELOPERS.md):
+ * leads moving the same way start their diagonals in a staircase so that
+ * parallel diagonals keep lead width plus space between them. */
+static bool fan_out(struct ledge_ctx *c, int64_t y_gather, int64_t y_pad)
+{
+	struct route *r = c->r;
+	size_t n = c->count;
+	struct item *it = c->items;
+	for (size_t i = 0; i < n; i++)
+		it[i].ytop = y_gather;
+	for (size_t i = n; i-- > 1;) {
+		struct item *a = &it[i - 1], *b = &it[i];
+		if (!(a->pad > a->arrive && b->pad > b->arrive))
+			continue;
+		int64_t g = (a->width + b->width) / 2 + r->space;
+		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
+		a->ytop = min64(y_gather, b->ytop + (b->arrive - a->arrive) - need);
+	}
+	for (size_t i = 1; i < n; i++) {
+		struct item *a = &it[i - 1], *b = &it[i];
+		if (!(a->pad < a->arrive && b->pad < b->arrive))
+			continue;
+		int64_t g = (a->width + b->width) / 2 + r->space;
+		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
+		b->ytop = min64(y_gather, a->ytop + (b->arrive - a->arrive) - need);
+	}
+	size_t worst = 0;
+	int64_t lowest = INT64_MAX;
+	for (size_t i = 0; i < n; i++) {
+		int64_t shift = it[i].pad - it[i].arrive;
+		it[i].ybot = it[i].ytop - (shift < 0 ? -shift : shift);
+		int64_t low = it[i].ybot - it[i].width;
+		if (low < lowest)
+			lowest = low, worst = i;
+	}
+	if (n == 0 || lowest >= y_pad)
+		return true;
+	char a[32], b[32], d[32];
+	int64_t shift = it[worst].pad - it[worst].arrive;
+	return gp_diag_error(
+		r->diag, &c->l->where,
+		"ledge '%s': the leads need %s mm between the seal and the "
+		"pads to fan out to the pad pitch but there is %s mm; %s "
+		"moves %s mm sideways on its way; make the ledge deeper, "
+		"move the seal or bring the pad pitch closer to the "
+		"electrode pitch",
+		c->l->name, mm(a, y_gather - lowest),
+		mm(b, y_gather - y_pad), net_name(r, it[worst].net),
+		mm(d, shift < 0 ? -shift : shift));
+}
+
+struct pathbuf {
+	struct gp_point p[16];
+	size_t n;
+};
+
+static int sgn(int64_t v)
+{
+	return (v > 0) - (v < 0);
+}
+
+static void push(struct pathbuf *b, int64_t x, int64_t y)
+{
+	struct gp_point q = { x, y };
+	if (b->n && b->p[b->n - 1].x == x && b->p[b->n - 1].y == y)
+		return;
+	if (b->n >= 2) {
+		struct gp_point u = b->p[b->n - 2], v = b->p[b->n - 1];
+		/* drop v when u->v and v->q run the same way (segments
+		 * here are horizontal, vertical or at 45 degrees) */
+		if (sgn(v.x - u.x) == sgn(q.x - v.x) &&
+		    sgn(v.y - u.y) == sgn(q.y - v.y)) {
+			b->p[b->n - 1] = q;
+			return;
+		}
+	}
+	if (b->n < 16)
+		b->p[b->n++] = q;
+}
+
+static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
+{
+	struct route *r = c->r;
+	enum gp_plate plate = c->l->plate;
+	for (size_t i = 0; i < c->count; i++) {
+		struct item *it = &c->items[i];
+		struct netstate *ns = &r->nets[it->net];
+		int64_t ov = it->width / 2;   /* overlap into the wide part */
+		int64_t start_out = ns->ext;
+		struct pathbuf b = { .n = 0 };
+		switch (it->side) {
+		case GP_SIDE_BOTTOM:
+			push(&b, it->pos, c->out.y0 - start_out + ov);
+			break;
+		case GP_SIDE_LEFT:
+			push(&b, c->out.x0 - start_out + ov, it->pos);
+			break;
+		case GP_SIDE_RIGHT:
+			push(&b, c->out.x1 + start_out - ov, it->pos);
+			break;
+		default:
+			push(&b, it->pos, c->out.y1 + start_out - ov);
+			push(&b, it->pos, it->top_track);
+			break;
+		}
+		if (it->side != GP_SIDE_BOTTOM) {
+			if (it->side == GP_SIDE_TOP)
+				push(&b, it->track, it->top_track);
+			else
+				push(&b, it->track, it->pos);
+		}
+		push(&b, it->arrive, it->ytop);
+		push(&b, it->pad, it->ybot);
+		push(&b, it->pad, y_pad_centre);
+		for (size_t k = 0; k < b.n; k++)
+			b.p[k] = from_canon(c->l->side, b.p[k]);
+		if (!add_path(r, plate, it->net, b.p, b.n, it->width))
+			return gp_diag_error(r->diag, NULL, "out of memory");
+	}
+	return true;
+}
+
+/* Pins of a ledge from its explicit map: nets onto pads. */
+static int find_net(const struct route *r, const char *name)
+{
+	for (size_t i = 0; i < r->net_count; i++)
+		if (strcmp(r->build->art.nets[i].name, name) == 0)
+			return (int)i;
+	return -1;
+}
+
+static int first_pin_number(const struct route *r, int ledge)
+{
+	int best = 0;
+	for (size_t i = 0; i < r->build->pin_count; i++)
+		if (r->build->pins[i].ledge == ledge &&
+		    (best == 0 || r->build->pins[i].number < best))
+			best = r->build->pins[i].number;
+	return best;
+}
+
+static bool check_planar(struct ledge_ctx *c)
+{
+	struct route *r = c->r;
+	for (size_t i = 0; i + 1 < c->count; i++) {
+		struct item *a = &c->items[i], *b = &c->items[i + 1];
+		if (a->pad < b->pad)
+			continue;
+		/* suggest: the same pads in walking order */
+		size_t n = c->count;
+		int64_t *pads = malloc(n * sizeof(*pads));
+		int *order = malloc(n * sizeof(*order));
+		char text[2048];
+		if (!pads || !order) {
+			free(pads);
+			free(order);
+			return gp_diag_error(r->diag, NULL, "out of memory");
+		}
+		for (size_t k = 0; k < n; k++)
+			pads[k] = c->items[k].pad;
+		for (size_t k = 1; k < n; k++)
+			for (size_t j = k; j > 0 && pads[j] < pads[j - 1]; j--) {
+				int64_t t = pads[j];
+				pads[j] = pads[j - 1];
+				pads[j - 1] = t;
+			}
+		/* pads sorted by canonical x get items in walking order;
+		 * list them by pin number */
+		size_t m = 0;
+		struct gp_pin *pins = r->build->pins;
+		for (size_t p = 0; p < r->build->pin_count; p++) {
+			if (pins[p].ledge != c->index)
+				continue;
+			int64_t x = to_canon(c->l->side, pins[p].centre).x;
+			int net = GP_NET_NONE;
+			for (size_t k = 0; k < n; k++)
+				if (pads[k] == x)
+					net = c->items[k].net;
+			order[m++] = net;
+			if (m == n)
+				break;
+		}
+		describe_order(r, order, m, text, sizeof(text));
+		free(pads);
+		free(order);
+		const struct gp_node *map = c->l->map;
+		return gp_diag_error(
+			r->diag, map ? &map->where : &c->l->where,
+			"pin map of ledge '%s' makes the leads of %s (pin %d) "
+			"and %s (pin %d) cross: they leave the seal in the "
+			"order %s, %s walking round it towards the ledge; a "
+			"routable order from pin %d is: %s",
+			c->l->name, net_name(r, a->net),
+			r->build->pins[a->pin].number, net_name(r, b->net),
+			r->build->pins[b->pin].number, net_name(r, a->net),
+			net_name(r, b->net),
+			first_pin_number(r, c->index), text);
+	}
+	return true;
+}
+
+static bool route_ledge(struct route *r, int index)
+{
+	struct ledge_ctx c = {
+		.r = r,
+		.l = (struct gp_ledge *)&r->g->ledges[index],
+		.index = index,
+		.clear = r->design->rules.edge_clearance,
+	};
+	c.out = box_map(r->s_out, c.l->side, true);
+	c.plate = box_map(plate_box(r->design, c.l->plate), c.l->side, true);
+	bool ok = make_items(&c) && check_exit_spacing(&c);
+	if (!ok)
+		goto out;
+	/* pads: by map, or in walking order */
+	if (c.l->map) {
+		for (size_t i = 0; i < c.count; i++)
+			c.items[i].pad = to_canon(c.l->side,
+						  r->build->pins[c.items[i].pin].centre)
+						 .x;
+		if (!(ok = check_planar(&c)))
+			goto out;
+	} else {
+		size_t first = r->pin_first[index];
+		int64_t *xs = malloc((c.count ? c.count : 1) * sizeof(*xs));
+		size_t *idx = malloc((c.count ? c.count : 1) * sizeof(*idx));
+		if (!xs || !idx) {
+			free(xs);
+			free(idx);
+			ok = gp_diag_error(r->diag, NULL, "out of memory");
+			goto out;
+		}
+		for (size_t k = 0; k < c.count; k++) {
+			xs[k] = to_canon(c.l->side, r->build->pins[first + k].centre).x;
+			idx[k] = first + k;
+		}
+		for (size_t k = 1; k < c.count; k++)
+			for (size_t j = k; j > 0 && xs[j] < xs[j - 1]; j--) {
+				int64_t t = xs[j];
+				size_t u = idx[j];
+				xs[j] = xs[j - 1], idx[j] = idx[j - 1];
+				xs[j - 1] = t, idx[j - 1] = u;
+			}
+		for (size_t k = 0; k < c.count; k++) {
+			c.items[k].pad = xs[k];
+			c.items[k].pin = (int)idx[k];
+			r->build->pins[idx[k]].net = c.items[k].net;
+			r->nets[c.items[k].net].pin = (int)idx[k];
+		}
+		free(xs);
+		free(idx);
+	}
+	/* groups: [0, nl) go round the left, [nr, count) round the right */
+	size_t nl = 0, nt = 0, nr = c.count, nt2 = c.count;
+	while (nl < c.count && c.items[nl].group <= 1)
+		nl++;
+	while (nt < c.count && c.items[nt].group == 0)
+		nt++;
+	while (nr > 0 && c.items[nr - 1].group >= 3)
+		nr--;
+	while (nt2 > 0 && c.items[nt2 - 1].group == 4)
+		nt2--;
+	ok = side_tracks(&c, 0, nl, true) && side_tracks(&c, nr, c.count, false) &&
+	     top_tracks(&c, 0, nt, true) && top_tracks(&c, nt2, c.count, false);
+	if (!ok)
+		goto out;
+	int64_t bottom_ext = 0, maxw = 0;
+	for (size_t i = 0; i < c.count; i++) {
+		struct item *it = &c.items[i];
+		it->arrive = it->side == GP_SIDE_BOTTOM ? it->pos : it->track;
+		maxw = max64(maxw, it->width);
+		if (it->side == GP_SIDE_BOTTOM)
+			bottom_ext = max64(bottom_ext, r->nets[it->net].ext);
+	}
+	int64_t y_gather = c.out.y0 - bottom_ext - r->space - maxw;
+	int64_t y_pad = c.plate.y0 + c.l->edge_clearance + c.l->pad_length;
+	int64_t y_pad_centre = c.plate.y0 + c.l->edge_clearance +
+			       c.l->pad_length / 2;
+	ok = fan_out(&c, y_gather, y_pad) && build_paths(&c, y_pad_centre);
+out:
+	free(c.items);
+	return ok;
+}
+
+/* --- pins: which ledge carries which net --------------------------------------- */
+
+static bool carried(const struct gp_ledge *l, const struct gp_net *net)
+{
+	return l->carries == GP_CARRIES_ALL ||
+	       (l->carries == GP_CARRIES_COMMONS && net->kind == GP_NET_COMMON) ||
+	       (l->carries == GP_CARRIES_SEGMENTS && net->kind == GP_NET_SEGMENT);
+}
+
+/* Reads the explicit pin map: pins.LEDGE: [NET or NC, ...] in pin order. */
+static bool read_map(struct route *r)
+{
+	const struct gp_node *pins = r->g->pins;
+	struct gp_routing *g = (struct gp_routing *)r->g;
+	const char *names[GP_MAX_LEDGES];
+	for (size_t i = 0; i < g->ledge_count; i++)
+		names[i] = g->ledges[i].name;
+	bool ok = true;
+	for (size_t k = 0; k < pins->count; k++) {
+		const char *key = pins->keys[k]->text;
+		size_t li = 0;
+		while (li < g->ledge_count && strcmp(names[li], key) != 0)
+			li++;
+		if (li == g->ledge_count) {
+			const char *near = gp_nearest_word(key, names, g->ledge_count);
+			ok = gp_diag_error(r->diag, &pins->keys[k]->where,
+					   "'pins' names ledge '%s', which is "
+					   "not in 'ledges'%s%s%s",
+					   key, near ? "; did you mean '" : "",
+					   near ? near : "", near ? "'?" : "");
+			continue;
+		}
+		if (!gp_node_expect_sequence(pins->items[k], 0, r->diag)) {
+			ok = false;
+			continue;
+		}
+		g->ledges[li].map = pins->items[k];
+	}
+	if (ok)
+		for (size_t i = 0; i < g->ledge_count; i++)
+			if (!g->ledges[i].map)
+				ok = gp_diag_error(r->diag, &pins->where,
+						   "'pins' gives no map for "
+						   "ledge '%s'; with a pin map "
+						   "every ledge needs one",
+						   g->ledges[i].name);
+	return ok;
+}
+
+static int next_first_pin(const struct route *r, const struct gp_ledge *l)
+{
+	if (l->first_pin)
+		return (int)l->first_pin;
+	int last = 0;
+	for (size_t i = 0; i < r->build->pin_count; i++)
+		if (r->build->pins[i].number > last)
+			last = r->build->pins[i].number;
+	return last + 1;
+}
+
+static bool assign_nets(struct route *r)
+{
+	const struct gp_routing *g = r->g;
+	size_t total = 0;
+	bool ok = true;
+	if (g->pins && !read_map(r))
+		return false;
+	for (size_t i = 0; i < g->ledge_count; i++)
+		total += g->ledges[i].map ? g->ledges[i].map->count : r->net_count;
+	r->build->pins = calloc(total ? total : 1, sizeof(*r->build->pins));
+	if (!r->build->pins)
+		return gp_diag_error(r->diag, NULL, "out of memory");
+	for (size_t i = 0; i < r->net_count; i++)
+		r->nets[i].ledge = -1, r->nets[i].pin = -1;
+	for (size_t li = 0; li < g->ledge_count; li++) {
+		struct gp_ledge *l = (struct gp_ledge *)&g->ledges[li];
+		size_t first = r->build->pin_count;
+		r->pin_first[li] = first;
+		if (l->map) {
+			if (!make_pads(r, l, (int)li, l->map->count,
+				       next_first_pin(r, l)))
+				return false;
+			for (size_t k = 0; k < l->map->count; k++) {
+				const struct gp_node *item = l->map->items[k];
+				if (!gp_node_expect_scalar(item, r->diag)) {
+					ok = false;
+					continue;
+				}
+				if (strcmp(item->text, "NC") == 0)
+					continue;
+				int net = find_net(r, item->text);
+				if (net < 0) {
+					ok = gp_diag_error(r->diag, &item->where,
+							   "pin map names net "
+							   "'%s', which the "
+							   "glass does not have",
+							   item->text);
+					continue;
+				}
+				if (r->nets[net].ledge >= 0) {
+					ok = gp_diag_error(r->diag, &item->where,
+							   "pin map gives net "
+							   "%s a second pin",
+							   item->text);
+					continue;
+				}
+				r->nets[net].ledge = (int)li;
+				r->nets[net].pin = (int)(first + k);
+				r->nets[net].has_pad = true;
+				r->build->pins[first + k].net = net;
+			}
+			continue;
+		}
+		size_t count = 0;
+		for (size_t i = 0; i < r->net_count; i++) {
+			if (r->nets[i].ledge < 0 &&
+			    carried(l, &r->build->art.nets[i])) {
+				r->nets[i].ledge = (int)li;
+				count++;
+			}
+		}
+		if (count && !make_pads(r, l, (int)li, count,
+					next_first_pin(r, l)))
+			return false;
+	}
+	for (size_t i = 0; ok && i < r->net_count; i++)
+		if (r->nets[i].ledge < 0)
+			ok = gp_diag_error(r->diag, g->pins ? &g->pins->where
+							    : &g->ledges[0].where,
+					   "net %s has no pin: %s",
+					   net_name(r, (int)i),
+					   g->pins ? "add it to the pin map"
+						   : "no ledge 'carries' it");
+	return ok;
+}
+
+/* --- the stage --------------------------------------------------------------- */
+
+static bool check_seal_fits(struct route *r)
+{
+	const struct gp_design *d = r->design;
+	struct gp_box f = d->front.box, b = d->back.box;
+	struct gp_box both = gp_box_make(max64(f.x0, b.x0), max64(f.y0, b.y0),
+					 min64(f.x1, b.x1), min64(f.y1, b.y1));
+	struct gp_box o = r->s_out;
+	char a[32], c[32], e[32], g[32];
+	if (o.x0 < both.x0 || o.y0 < both.y0 || o.x1 > both.x1 || o.y1 > both.y1)
+		return gp_diag_error(r->diag, &r->g->seal.where,
+				     "the seal's outer edge (x %s..%s, y "
+				     "%s..%s mm) must lie where the two plates "
+				     "overlap; reduce its 'distance' or "
+				     "'width'",
+				     mm(a, o.x0), mm(c, o.x1), mm(e, o.y0),
+				     mm(g, o.y1));
+	const struct gp_artwork *art = &r->build->art;
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net < 0 || (s->layer != GP_LAYER_FRONT_ITO &&
+				   s->layer != GP_LAYER_BACK_ITO))
+			continue;
+		struct gp_box bb = gp_polygon_bounds(&s->poly);
+		if (bb.x0 < r->s_in.x0 || bb.y0 < r->s_in.y0 ||
+		    bb.x1 > r->s_in.x1 || bb.y1 > r->s_in.y1)
+			return gp_diag_error(
+				r->diag, &r->g->seal.where,
+				"the %s electrode of %s (x %s..%s, y %s..%s mm) "
+				"reaches into the seal; the seal must keep "
+				"'distance' from the viewing area and every "
+				"electrode inside it",
+				gp_role_name(s->role), net_name(r, s->net),
+				mm(a, bb.x0), mm(c, bb.x1), mm(e, bb.y0),
+				mm(g, bb.y1));
+	}
+	return true;
+}
+
+bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
+{
+	const struct gp_design *d = build->design;
+	const struct gp_routing *g = d->routing;
+	if (!g)
+		return true;
+	struct route r = {
+		.build = build,
+		.design = d,
+		.g = g,
+		.diag = diag,
+		.net_count = build->art.net_count,
+		.space = g->leads.space,
+		.min_space = d->rules.min_space,
+	};
+	gp_seal_boxes(d, &r.s_in, &r.s_out);
+	struct gp_geos *geos = gp_geos_create(diag);
+	struct gp_geos_index *index = NULL;
+	r.nets = calloc(r.net_count ? r.net_count : 1, sizeof(*r.nets));
+	bool ok = geos && r.nets;
+	if (!ok) {
+		gp_diag_error(diag, NULL, "out of memory");
+		goto out;
+	}
+	if (!(ok = check_seal_fits(&r)))
+		goto out;
+	for (size_t i = 0; ok && i < g->ledge_count; i++)
+		ok = resolve_ledge_plate(&r, (struct gp_ledge *)&g->ledges[i]) &&
+		     check_connection(&r, &g->ledges[i]);
+	if (!ok || g->ledge_count == 0)
+		goto seal;
+	ok = check_transfer_room(&r) && assign_nets(&r) && collect_cands(&r);
+	if (!ok)
+		goto out;
+	index = gp_geos_index_create(geos);
+	ok = index != NULL;
+	const struct gp_artwork *art = &build->art;
+	for (size_t i = 0; ok && i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net >= 0 && (s->layer == GP_LAYER_FRONT_ITO ||
+				    s->layer == GP_LAYER_BACK_ITO))
+			ok = gp_geos_index_add(index, gp_polygon_bounds(&s->poly), i);
+	}
+	ok = ok && choose_ends(&r, index) && check_corridors(&r, geos);
+	if (!ok)
+		goto out;
+	for (size_t i = 0; ok && i < r.net_count; i++) {
+		struct netstate *n = &r.nets[i];
+		if (n->ledge < 0)
+			continue;
+		enum gp_plate plate = build->art.nets[i].plate;
+		ok = gp_artwork_add_box(&build->art, gp_plate_ito_layer(plate),
+					GP_ROLE_LEAD, (int)i, n->corridor) &&
+		     (!n->transfer || add_transfers(&r, (int)i, n));
+		if (!ok)
+			gp_diag_error(diag, NULL, "out of memory");
+	}
+	for (size_t i = 0; ok && i < g->ledge_count; i++)
+		ok = route_ledge(&r, (int)i);
+	for (size_t i = 0; ok && i < build->pin_count; i++) {
+		struct gp_pin *p = &build->pins[i];
+		const struct gp_ledge *l = &g->ledges[p->ledge];
+		if (p->net >= 0)
+			build->art.nets[p->net].pin = p->number;
+		ok = gp_artwork_add_box(&build->art, gp_plate_ito_layer(l->plate),
+					GP_ROLE_PAD, p->net, p->box) != NULL;
+	}
+	if (!ok)
+		goto out;
+seal:
+	ok = gp_seal_layout(build, &r.s_in, &r.s_out, geos, diag);
+out:
+	gp_geos_index_destroy(index);
+	gp_geos_destroy(geos);
+	free(r.nets);
+	return ok;
+}

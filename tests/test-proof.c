@@ -1,0 +1,419 @@
+/* Tests of the PDF proof, read back with the independent tools of
+ * poppler-utils: pdfinfo (page count and sizes), pdftotext (the text a
+ * reviewer reads, and with -bbox where it is), pdftoppm (the sheet as
+ * printed, to measure the scale in pixels). */
+#include <stdarg.h>
+#include <stddef.h>
+#include <setjmp.h>
+#include <cmocka.h>
+
+#include "build.h"
+#include "model.h"
+#include "proof.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* A glass of our own: one line of 12 cells, large dots so that the
+ * rendered strips are many pixels wide. */
+static const char sample[] =
+	"glass: {part: PRF-012, revision: C, title: proof test glass}\n"
+	"front: {size: [60, 30]}\n"
+	"back: {size: [60, 24], position: [0, 6]}\n"
+	"viewing_area: {position: [4, 10], size: [52, 16]}\n"
+	"proof: {revision_date: 2031-04-05, span_tolerance: 0.03}\n"
+	"blocks:\n"
+	"  main:\n"
+	"    origin: [6.5, 22]\n"
+	"    cells: [12, 1]\n"
+	"    dots: [3, 5]\n"
+	"    dot_size: [0.8, 0.9]\n"
+	"    dot_pitch: [1.0, 1.1]\n"
+	"    cell_pitch: 4.05\n";
+
+struct fixture {
+	struct gp_diag diag;
+	struct gp_design *design;
+	struct gp_build *build;
+	char path[512];
+};
+
+static const char *tmp_dir(void)
+{
+	const char *dir = getenv("GP_TEST_TMP");
+	return dir ? dir : "/tmp";
+}
+
+static void load(struct fixture *f, const char *text, const char *name)
+{
+	gp_diag_init(&f->diag);
+	f->design = gp_design_load_buffer("test.yaml", text, strlen(text), NULL,
+					  0, &f->diag);
+	if (!f->design)
+		fail_msg("%s", f->diag.count ? f->diag.entries[0].message : "?");
+	f->build = gp_build_create(f->design, &f->diag);
+	assert_non_null(f->build);
+	snprintf(f->path, sizeof(f->path), "%s/test-proof-%s.pdf", tmp_dir(),
+		 name);
+}
+
+static void unload(struct fixture *f)
+{
+	gp_build_destroy(f->build);
+	gp_design_destroy(f->design);
+	gp_diag_finish(&f->diag);
+	remove(f->path);
+}
+
+static void write_proof(struct fixture *f, struct gp_buffer *out)
+{
+	gp_buffer_init(out);
+	if (!gp_proof_write(out, f->build, &f->diag))
+		fail_msg("%s", f->diag.count ? f->diag.entries[0].message : "?");
+	FILE *file = fopen(f->path, "wb");
+	assert_non_null(file);
+	assert_int_equal(fwrite(out->data, 1, out->size, file), out->size);
+	assert_int_equal(fclose(file), 0);
+}
+
+/* Output of a command, NUL-terminated; the caller frees it. */
+static char *run(const char *format, ...)
+	__attribute__((format(printf, 1, 2)));
+static char *run(const char *format, ...)
+{
+	char command[1024];
+	va_list args;
+	va_start(args, format);
+	vsnprintf(command, sizeof(command), format, args);
+	va_end(args);
+	FILE *pipe = popen(command, "r");
+	assert_non_null(pipe);
+	size_t size = 0, capacity = 65536;
+	char *text = malloc(capacity);
+	assert_non_null(text);
+	size_t n;
+	while ((n = fread(text + size, 1, capacity - size - 1, pipe)) > 0) {
+		size += n;
+		if (capacity - size < 4096) {
+			capacity *= 2;
+			text = realloc(text, capacity);
+			assert_non_null(text);
+		}
+	}
+	text[size] = '\0';
+	if (pclose(pipe) != 0)
+		fail_msg("command failed: %s", command);
+	return text;
+}
+
+/* pdfinfo: pages and the size of every page, against the paper the plan
+ * chose (A4 is 210 x 297 mm, ISO 216 = 595.276 x 841.89 pt). */
+static void test_pages(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	load(&f, sample, "pages");
+	write_proof(&f, &out);
+	struct gp_proof_plan plan;
+	gp_proof_plan(f.build, &plan);
+	assert_string_equal(plan.paper_name, "A4");
+	assert_true(plan.landscape);
+	assert_int_equal(plan.scale_den, 1);
+
+	char *info = run("pdfinfo '%s'", f.path);
+	char expect[64];
+	snprintf(expect, sizeof(expect), "Pages:           %d\n",
+		 plan.sheet_count);
+	assert_non_null(strstr(info, expect));
+	free(info);
+	info = run("pdfinfo -f 1 -l %d '%s'", plan.sheet_count, f.path);
+	int sizes = 0;
+	for (const char *s = info; (s = strstr(s, "\nPage ")); s++) {
+		double w, h;
+		int page;
+		if (sscanf(s, "\nPage %d size: %lf x %lf", &page, &w, &h) != 3)
+			continue;       /* "Page N rot:" */
+		assert_int_equal(page, sizes + 1);
+		assert_true(fabs(w - 841.89) < 0.01);   /* A4 landscape */
+		assert_true(fabs(h - 595.276) < 0.01);
+		sizes++;
+	}
+	assert_int_equal(sizes, plan.sheet_count);
+	free(info);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
+/* pdftotext: the reviewer can read the part, revision, span with its
+ * tolerance, the pitch as a reference, and every net of the pin table. */
+static void test_text(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	load(&f, sample, "text");
+	write_proof(&f, &out);
+	char *text = run("pdftotext -layout '%s' -", f.path);
+	assert_non_null(strstr(text, "PRF-012"));
+	assert_non_null(strstr(text, "2031-04-05"));
+	/* 11 pitches of 4.05 = 44.55, tolerance from the description */
+	assert_non_null(strstr(text, "44.55 \xc2\xb1" "0.03"));
+	assert_non_null(strstr(text, "cell pitch (4.05)"));
+	assert_non_null(strstr(text, "front plate 60 \xc2\xb1" "0.2"));
+	assert_non_null(strstr(text, "ledge 6"));
+	assert_non_null(strstr(text, "Cautions"));
+	assert_non_null(strstr(text, "safety data sheets"));
+	free(text);
+
+	/* revision on the title block of sheet 1 */
+	text = run("pdftotext -f 1 -l 1 '%s' -", f.path);
+	assert_non_null(strstr(text, "Revision\nC") ?
+				strstr(text, "Revision\nC") :
+				strstr(text, "\nC\n"));
+	free(text);
+
+	/* every net in the pin table sheets */
+	struct gp_proof_plan plan;
+	gp_proof_plan(f.build, &plan);
+	text = run("pdftotext -layout -f %d -l %d '%s' -", plan.sheet_pins,
+		   plan.sheet_pins + plan.pin_sheets - 1, f.path);
+	const struct gp_artwork *art = &f.build->art;
+	assert_int_equal(art->net_count, 5 + 36);
+	for (size_t i = 0; i < art->net_count; i++) {
+		char word[40];
+		snprintf(word, sizeof(word), " %s ", art->nets[i].name);
+		if (!strstr(text, word))
+			fail_msg("net %s not in the pin table",
+				 art->nets[i].name);
+	}
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
+static bool contains(const char *data, size_t size, const char *word)
+{
+	size_t n = strlen(word);
+	for (size_t i = 0; i + n <= size; i++)
+		if (memcmp(data + i, word, n) == 0)
+			return true;
+	return false;
+}
+
+/* Two runs give the same bytes; no date unless SOURCE_DATE_EPOCH (which
+ * the tool hands to the build). */
+static void test_deterministic(void **state)
+{
+	struct fixture f;
+	struct gp_buffer a, b;
+	load(&f, sample, "same");
+	write_proof(&f, &a);
+	write_proof(&f, &b);
+	assert_int_equal(a.size, b.size);
+	assert_memory_equal(a.data, b.data, a.size);
+	assert_false(contains(a.data, a.size, "CreationDate"));
+	gp_buffer_finish(&a);
+	gp_buffer_finish(&b);
+
+	/* 1700000000 s is 2023-11-14 22:13:20 UTC */
+	gp_build_set_epoch(f.build, 1700000000);
+	write_proof(&f, &a);
+	char *info = run("pdfinfo '%s'", f.path);
+	assert_non_null(strstr(info, "CreationDate:    Tue Nov 14 22:13:20 "
+				     "2023 UTC"));
+	assert_non_null(strstr(info, "Creator:         glassplot"));
+	assert_non_null(strstr(info, "Title:           PRF-012 revision C"));
+	free(info);
+	gp_buffer_finish(&a);
+	unload(&f);
+}
+
+/* --- scale, measured on the rendered sheet ---------------------------------- */
+
+struct image {
+	int w, h;
+	unsigned char *pixels;    /* grey, 0 black .. 255 white */
+};
+
+static void render(const char *pdf, int page, int dpi, struct image *image)
+{
+	char base[600], path[640], command[1400];
+	snprintf(base, sizeof(base), "%s-p%d", pdf, page);
+	snprintf(command, sizeof(command),
+		 "pdftoppm -r %d -f %d -l %d -gray -singlefile '%s' '%s'", dpi,
+		 page, page, pdf, base);
+	assert_int_equal(system(command), 0);
+	snprintf(path, sizeof(path), "%s.pgm", base);
+	FILE *file = fopen(path, "rb");
+	assert_non_null(file);
+	int max;
+	assert_int_equal(fscanf(file, "P5 %d %d %d", &image->w, &image->h,
+				&max), 3);
+	fgetc(file);
+	size_t n = (size_t)image->w * (size_t)image->h;
+	image->pixels = malloc(n);
+	assert_non_null(image->pixels);
+	assert_int_equal(fread(image->pixels, 1, n, file), n);
+	fclose(file);
+	remove(path);
+}
+
+/* Starts and ends (exclusive) of runs darker than threshold along row y
+ * between x0 and x1; returns the count. */
+static int runs(const struct image *image, int y, int x0, int x1,
+		int threshold, int *starts, int *ends, int max)
+{
+	int n = 0;
+	bool in = false;
+	for (int x = x0; x < x1; x++) {
+		bool dark = image->pixels[(size_t)y * image->w + x] < threshold;
+		if (dark && !in && n < max)
+			starts[n] = x;
+		if (!dark && in && n < max)
+			ends[n++] = x;
+		in = dark;
+	}
+	if (in && n < max)
+		ends[n++] = x1;
+	return n;
+}
+
+#define DPI 600
+static double px(double mm)
+{
+	return mm / 25.4 * DPI;
+}
+
+static void test_scale(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	load(&f, sample, "scale");
+	write_proof(&f, &out);
+	struct gp_proof_plan plan;
+	gp_proof_plan(f.build, &plan);
+	struct image image;
+	render(f.path, plan.sheet_overview, DPI, &image);
+
+	/* Between the first and second dot rows only the front plate's
+	 * segment strips (dot columns) are drawn: 12 cells x 3 columns. */
+	double y_mm = 22 - 0.9 - 0.1;        /* in the 0.2 mm gap */
+	int y = (int)lround(px(plan.oy - plan.scale * y_mm));
+	int x0 = (int)px(plan.ox + plan.scale * 6.0);
+	int x1 = (int)px(plan.ox + plan.scale * (6.5 + 11 * 4.05 + 3)) + 1;
+	int starts[64], ends[64];
+	int n = runs(&image, y, x0, x1, 235, starts, ends, 64);
+	assert_int_equal(n, 36);
+	/* described span: 11 x 4.05 = 44.55 mm, to within one pixel */
+	double measured = starts[33] - starts[0];
+	double expected = px(44.55);
+	if (fabs(measured - expected) > 1.0)
+		fail_msg("span %.1f px, expected %.1f px", measured, expected);
+
+	/* the ruler: ticks 0, 50 and 100 reach below its baseline */
+	y = (int)lround(px(plan.ruler_y + 1.5));
+	n = runs(&image, y, (int)px(plan.ruler_x - 3),
+		 (int)px(plan.ruler_x + 103), 128, starts, ends, 64);
+	assert_int_equal(n, 3);
+	double first = (starts[0] + ends[0]) / 2.0;
+	double last = (starts[2] + ends[2]) / 2.0;
+	if (fabs(last - first - px(100)) > 1.0)
+		fail_msg("ruler %.1f px, expected %.1f px", last - first,
+			 px(100));
+	free(image.pixels);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
+/* --- paper choice ---------------------------------------------------------- */
+
+static void plan_of(const char *extra, double width, double height,
+		    struct gp_proof_plan *plan)
+{
+	char text[1024];
+	snprintf(text, sizeof(text),
+		 "glass: {part: PRF-900}\n"
+		 "front: {size: [%g, %g]}\n"
+		 "back: {size: [%g, %g], position: [0, 5]}\n"
+		 "viewing_area: {position: [5, 10], size: [%g, %g]}\n%s",
+		 width, height, width, height - 5, width - 10, height - 20,
+		 extra);
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_design *design = gp_design_load_buffer(
+		"plan.yaml", text, strlen(text), NULL, 0, &diag);
+	if (!design)
+		fail_msg("%s", diag.count ? diag.entries[0].message : "?");
+	struct gp_build *build = gp_build_create(design, &diag);
+	assert_non_null(build);
+	gp_proof_plan(build, plan);
+	gp_build_destroy(build);
+	gp_design_destroy(design);
+	gp_diag_finish(&diag);
+}
+
+static void test_paper(void **state)
+{
+	struct gp_proof_plan plan;
+	/* small glass: A4 at 1:1 */
+	plan_of("", 66, 30, &plan);
+	assert_string_equal(plan.paper_name, "A4");
+	assert_int_equal(plan.scale_den, 1);
+	/* US sizes when asked for */
+	plan_of("proof: {series: us}\n", 66, 30, &plan);
+	assert_string_equal(plan.paper_name, "Letter");
+	/* forced portrait */
+	plan_of("proof: {orientation: portrait}\n", 66, 30, &plan);
+	assert_false(plan.landscape);
+	assert_true(plan.paper_w < plan.paper_h);
+	/* a wider glass needs a larger sheet, still 1:1 */
+	plan_of("", 300, 120, &plan);
+	assert_string_equal(plan.paper_name, "A3");
+	assert_true(plan.landscape);
+	assert_int_equal(plan.scale_den, 1);
+	/* forced to A4: too large at 1:1, so reduced (ISO 5455 scale) */
+	plan_of("proof: {paper: a4}\n", 300, 120, &plan);
+	assert_string_equal(plan.paper_name, "A4");
+	assert_int_equal(plan.scale_den, 2);
+	/* larger than A0 at 1:1: the smallest sheet that takes it at 1:2 */
+	plan_of("", 1500, 900, &plan);
+	assert_string_equal(plan.paper_name, "A1");
+	assert_int_equal(plan.scale_den, 2);
+	/* the glass lies inside the sheet */
+	assert_true(plan.ox + 1500 * plan.scale < plan.paper_w);
+	assert_true(plan.oy - 900 * plan.scale > 0);
+}
+
+/* The scale stated on a reduced sheet. */
+static void test_reduced_scale_stated(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	load(&f,
+	     "glass: {part: PRF-901}\n"
+	     "front: {size: [300, 120]}\n"
+	     "back: {size: [300, 115], position: [0, 5]}\n"
+	     "viewing_area: {position: [5, 10], size: [290, 100]}\n"
+	     "proof: {paper: a4, orientation: landscape}\n",
+	     "reduced");
+	write_proof(&f, &out);
+	char *text = run("pdftotext -f 1 -l 1 '%s' -", f.path);
+	assert_non_null(strstr(text, "1:2"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
+int main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(test_pages),
+		cmocka_unit_test(test_text),
+		cmocka_unit_test(test_deterministic),
+		cmocka_unit_test(test_scale),
+		cmocka_unit_test(test_paper),
+		cmocka_unit_test(test_reduced_scale_stated),
+	};
+	return cmocka_run_group_tests(tests, NULL, NULL);
+}
