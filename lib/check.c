@@ -1525,8 +1525,9 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 		else if (report->findings[i].severity == GP_SEVERITY_WARNING)
 			report->warnings++;
 	}
-	qsort(report->findings, report->count, sizeof(*report->findings),
-	      compare_findings);
+	if (report->count > 1) /* findings is NULL when there are none */
+		qsort(report->findings, report->count,
+		      sizeof(*report->findings), compare_findings);
 	return true;
 }
 

@@ -784,7 +784,8 @@ static bool make_items(struct ledge_ctx *c)
 			break;
 		}
 	}
-	qsort(c->items, c->count, sizeof(*c->items), compare_items);
+	if (c->count > 1) /* items is NULL when empty */
+		qsort(c->items, c->count, sizeof(*c->items), compare_items);
 	return true;
 }
 

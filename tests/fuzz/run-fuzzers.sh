@@ -3,7 +3,8 @@
 # the samples and the broken descriptions; fails on any finding.  New
 # inputs go to a scratch folder, never into the repository.
 # usage: tests/fuzz/run-fuzzers.sh BUILD_DIR [SECONDS_PER_HARNESS]
-# BUILD_DIR was set up with: CC=clang meson setup BUILD_DIR -Dfuzzing=true -Db_lundef=false
+# BUILD_DIR was set up with: CC=clang meson setup BUILD_DIR -Dfuzzing=true
+#   -Db_sanitize=address,undefined -Db_lundef=false
 set -u
 build=$1
 seconds=${2:-60}
