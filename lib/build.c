@@ -91,12 +91,21 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	gp_buffer_init(&build->inputs);
 	gp_buffer_init(&build->written);
 	gp_buffer_init(&build->json);
+	gp_check_report_init(&build->checks);
+	gp_buffer_init(&build->check_text);
+	gp_buffer_init(&build->check_json);
 	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
 	stage(build, "layout");
 	if (!gp_blocks_layout(build, diag) ||
+	    !gp_digits_layout(build, diag) ||
 	    !gp_icons_layout(build, diag) ||
 	    !gp_route_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag)) {
+		gp_build_destroy(build);
+		return NULL;
+	}
+	stage(build, "checks");
+	if (!gp_build_check(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
 	}
@@ -120,7 +129,11 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_buffer_finish(&build->inputs);
 	gp_buffer_finish(&build->written);
 	gp_buffer_finish(&build->json);
+	gp_check_report_finish(&build->checks);
+	gp_buffer_finish(&build->check_text);
+	gp_buffer_finish(&build->check_json);
 	free(build->blocks);
+	gp_digit_rows_free(build->digit_rows, build->design->digit_count);
 	free(build->ends);
 	free(build->pins);
 	free(build);
@@ -273,13 +286,14 @@ static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
 	return !out->failed || gp_diag_error(diag, NULL, "out of memory");
 }
 
-bool gp_build_outputs(const struct gp_build *build,
+bool gp_build_outputs(struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag)
 {
 	return add_gerbers(build, set, diag) &&
 	       add_proof(build, set, diag) &&
 	       gp_route_write(build, set, diag) &&
+	       gp_build_add_check_reports(build, set, diag) &&
 	       add_checksums(set, diag);
 }
 

@@ -5,6 +5,7 @@
 
 #include "artwork.h"
 #include "buffer.h"
+#include "check.h"
 #include "diag.h"
 #include "model.h"
 #include "output.h"
@@ -31,6 +32,8 @@ struct gp_build {
 	const struct gp_design *design;
 	struct gp_artwork art;
 	struct gp_block_nets *blocks;   /* one per design block */
+	struct gp_digit_row *digit_rows; /* one per design digit row */
+	size_t digit_row_count;         /* rows laid out */
 	struct gp_buffer summary;
 	/* Lines for the summary added by stages ("font: ..."), newline-ended. */
 	struct gp_buffer notes;
@@ -49,6 +52,10 @@ struct gp_build {
 	unsigned outputs;               /* enum gp_output_kind bits */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
+	/* findings of the check stage (lib/check.h) */
+	struct gp_check_report checks;
+	bool checked;
+	struct gp_buffer check_text, check_json;
 	void (*progress)(const char *stage, void *data);
 	void *progress_data;
 };
@@ -73,7 +80,7 @@ int gp_block_common_net(const struct gp_build *build, size_t block, long row);
  * writer is called from here, so that the outputs in memory and on disk
  * are the same set.  The fuzz
  * harness and tests use it to run the whole pipeline without a disk. */
-bool gp_build_outputs(const struct gp_build *build,
+bool gp_build_outputs(struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag);
 

@@ -75,7 +75,10 @@ void gp_check_limits_default(struct gp_check_limits *l)
 	l->registration = 100 * 1000;
 	l->edge_clearance = 500 * 1000;
 	l->chord_tolerance = 1000;
-	l->registration_loss = 0.01;   /* our own choice: 1% of a pixel */
+	/* our own choice, no published source: 5% of a pixel, lost at its
+	 * edge, is hard to see; notches where leads and bridges cross a
+	 * back patch cost a few per cent of a small icon */
+	l->registration_loss = 0.05;
 	l->min_overlap_mm2 = 1e-6;     /* 1 um^2: far above 1 nm snapping */
 	/* ITO sheet resistance: common practice, no published source
 	 * (passive LCD glass is usually ordered at 10 to 100 ohm/square) */
@@ -92,6 +95,7 @@ void gp_check_limits_default(struct gp_check_limits *l)
 	l->rc_error = 3;
 	l->spread_warning = 2;
 	l->plate[0] = l->plate[1] = l->viewing = gp_box_none();
+	l->seal_inside = gp_box_none();
 	l->min_conductors = 2;
 }
 
@@ -523,7 +527,12 @@ static bool find_inside(struct checker *c)
 	}
 	gp_polyset_finish(&holes);
 	c->inside_is_box = true;
-	if (!gp_box_is_empty(c->lim->viewing)) {
+	if (c->has_seal && !gp_box_is_empty(c->lim->seal_inside)) {
+		c->inside_box = c->lim->seal_inside;
+		gp_buffer_puts(&c->rep->notes,
+			       "parasitic overlaps: inside the seal's inner "
+			       "edge\n");
+	} else if (!gp_box_is_empty(c->lim->viewing)) {
 		c->inside_box = c->lim->viewing;
 		gp_buffer_puts(&c->rep->notes,
 			       c->has_seal
@@ -546,20 +555,44 @@ static bool find_inside(struct checker *c)
 
 /* --- parasitic overlap -------------------------------------------------- */
 
+static bool copy_take(struct gp_polyset *set, const struct gp_polygon *p)
+{
+	struct gp_polygon copy;
+	if (!gp_polygon_copy(&copy, p))
+		return false;
+	if (gp_polyset_take(set, &copy))
+		return true;
+	gp_polygon_finish(&copy);
+	return false;
+}
+
+/* The intended lit region of a pixel (shape and its further parts, or
+ * the box) appended to set. */
+static bool pixel_region(const struct gp_pixel *px, struct gp_polyset *set)
+{
+	if (px->shape.outer.count < 3) {
+		struct gp_polygon poly;
+		gp_polygon_init(&poly);
+		bool ok = gp_polygon_set_box(&poly, px->box) &&
+			  gp_polyset_take(set, &poly);
+		gp_polygon_finish(&poly);
+		return ok;
+	}
+	if (!copy_take(set, &px->shape))
+		return false;
+	for (size_t i = 0; i < px->more.count; i++)
+		if (!copy_take(set, &px->more.items[i]))
+			return false;
+	return true;
+}
+
 /* The intended lit region of every pixel of the pair, as one shape. */
 static struct gp_geos_shape *pair_region(struct checker *c, size_t first)
 {
 	struct gp_polyset set;
 	gp_polyset_init(&set);
 	for (size_t p = first; p; p = c->pair_next[p - 1]) {
-		const struct gp_pixel *px = &c->art->pixels[p - 1];
-		struct gp_polygon poly;
-		bool ok = px->shape.outer.count >= 3
-				  ? gp_polygon_copy(&poly, &px->shape)
-				  : (gp_polygon_init(&poly),
-				     gp_polygon_set_box(&poly, px->box));
-		if (!ok || !gp_polyset_take(&set, &poly)) {
-			gp_polygon_finish(&poly);
+		if (!pixel_region(&c->art->pixels[p - 1], &set)) {
 			gp_polyset_finish(&set);
 			oom(c);
 			return NULL;
@@ -727,6 +760,11 @@ static double box_distance(struct gp_box a, struct gp_box b,
 	return hypot((double)dx, (double)dy);
 }
 
+/* Coordinates are snapped to 1 nm: a slanted edge drawn exactly at a
+ * limit may come out up to a nanometre short of it.  Measures within
+ * this of their limit pass. */
+#define SNAP_SLACK 1.0
+
 static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 {
 	int na = c->art->shapes[a->shape].net, nb = c->art->shapes[b->shape].net;
@@ -743,7 +781,7 @@ static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 			c->failed = true;
 			return;
 		}
-		if (d >= (double)c->lim->min_space)
+		if (d >= (double)c->lim->min_space - SNAP_SLACK)
 			return;
 		if (!gp_geos_shape_nearest(c->geos, ga, gb, &pa, &pb)) {
 			c->failed = true;
@@ -751,7 +789,7 @@ static void spacing_pair(struct checker *c, struct item *a, struct item *b)
 		}
 		mid = (struct gp_point){ (pa.x + pb.x) / 2, (pa.y + pb.y) / 2 };
 	}
-	if (d >= (double)c->lim->min_space)
+	if (d >= (double)c->lim->min_space - SNAP_SLACK)
 		return;
 	int lo = na < nb ? na : nb, hi = na < nb ? nb : na;
 	struct gp_finding f = finding(GP_CHECK_SPACING, GP_SEVERITY_ERROR, lo,
@@ -834,7 +872,8 @@ static void thin_finding(struct checker *c, const struct item *it,
  * than the minimum line. */
 static void line_width_shape(struct checker *c, struct item *it)
 {
-	int64_t half = c->lim->min_line / 2;
+	/* a stroke within a nanometre or two of the limit (snapping) passes */
+	int64_t half = c->lim->min_line / 2 - (int64_t)SNAP_SLACK;
 	struct gp_geos_shape *g = item_shape(c, it);
 	struct gp_geos_shape *eroded =
 		g ? gp_geos_shape_offset(c->geos, g, -half, GP_JOIN_MITRE,
@@ -862,7 +901,7 @@ static void line_width_shape(struct checker *c, struct item *it)
 			if (area / 1e12 < floor_mm2)
 				continue;
 			double w = strip_width(area, polygon_perimeter(p));
-			if (w < (double)c->lim->min_line)
+			if (w < (double)c->lim->min_line - 2 * SNAP_SLACK)
 				thin_finding(c, it, w,
 					     box_centre(gp_polygon_bounds(p)));
 		}
@@ -892,10 +931,12 @@ static bool check_line_width(struct checker *c)
 
 /* --- registration -------------------------------------------------------- */
 
+/* What counts for a pixel's lit area: its front electrode only (a front
+ * lead or bridge lit by a shift is a gain, not the pixel), and every back
+ * shape of its back net (patches, their bridges, strips). */
 static bool lit_role(enum gp_plate plate, enum gp_role role)
 {
-	return role == GP_ROLE_ELECTRODE ||
-	       (plate == GP_PLATE_BACK && role == GP_ROLE_PATCH);
+	return role == GP_ROLE_ELECTRODE || plate == GP_PLATE_BACK;
 }
 
 /* Items of net on plate with a lit role whose box meets near. */
@@ -991,8 +1032,10 @@ static bool pixel_lit(struct checker *c, size_t p, enum lit_mode mode,
 
 static double pixel_nominal_mm2(const struct gp_pixel *px)
 {
-	return px->shape.outer.count >= 3 ? gp_polygon_area_mm2(&px->shape)
-					  : box_mm2(px->box);
+	/* an icon's further parts (its other letters) count too */
+	if (px->shape.outer.count < 3)
+		return box_mm2(px->box);
+	return gp_polygon_area_mm2(&px->shape) + gp_polyset_area_mm2(&px->more);
 }
 
 static bool check_registration(struct checker *c)
@@ -1202,7 +1245,11 @@ static void check_connector(struct checker *c)
 		const struct gp_shape *s = &c->art->shapes[it->shape];
 		if (s->role != GP_ROLE_PAD)
 			continue;
-		int64_t w = gp_box_width(it->box);
+		/* the pad's width is its narrow side; the gap is measured
+		 * along the row, which runs along its width */
+		int64_t w = gp_box_width(it->box), h = gp_box_height(it->box);
+		if (h < w)
+			w = h;
 		if (w < need) {
 			struct gp_finding f = finding(
 				GP_CHECK_CONNECTOR, GP_SEVERITY_ERROR, s->net,
@@ -1211,18 +1258,27 @@ static void check_connector(struct checker *c)
 			f.shape = (int)it->shape;
 			add_finding(c, &f);
 		}
+		int64_t gap = -1;
+		struct gp_point mid = box_centre(it->box);
 		if (prev && prev->box.y0 < it->box.y1 &&
-		    it->box.y0 < prev->box.y1 && prev->box.x1 <= it->box.x0 &&
-		    it->box.x0 - prev->box.x1 < need) {
-			struct gp_point mid = {
-				prev->box.x1 + (it->box.x0 - prev->box.x1) / 2,
-				box_centre(it->box).y
-			};
+		    it->box.y0 < prev->box.y1) {
+			bool right = prev->box.x1 <= it->box.x0;
+			gap = right ? it->box.x0 - prev->box.x1
+				    : prev->box.x0 - it->box.x1;
+			mid.x = right ? prev->box.x1 + gap / 2
+				      : it->box.x1 + gap / 2;
+		} else if (prev && prev->box.x0 < it->box.x1 &&
+			   it->box.x0 < prev->box.x1) {
+			bool up = prev->box.y1 <= it->box.y0;
+			gap = up ? it->box.y0 - prev->box.y1
+				 : prev->box.y0 - it->box.y1;
+			mid.y = up ? prev->box.y1 + gap / 2 : it->box.y1 + gap / 2;
+		}
+		if (gap >= 0 && gap < need) {
 			struct gp_finding f = finding(
 				GP_CHECK_CONNECTOR, GP_SEVERITY_ERROR,
 				c->art->shapes[prev->shape].net, s->net, mid,
-				gp_mm(it->box.x0 - prev->box.x1), gp_mm(need),
-				GP_UNIT_MM);
+				gp_mm(gap), gp_mm(need), GP_UNIT_MM);
 			add_finding(c, &f);
 		}
 		prev = it;
@@ -1335,17 +1391,37 @@ static void check_seal(struct checker *c)
 		}
 		gp_geos_shape_destroy(c->geos, sg);
 	}
-	if (c->inside && !gp_box_is_empty(c->lim->viewing)) {
-		struct gp_geos_shape *v =
-			gp_geos_shape_from_box(c->geos, c->lim->viewing);
-		if (v && !gp_geos_shape_covers(c->geos, c->inside, v)) {
-			struct gp_finding f = finding(
-				GP_CHECK_SEAL, GP_SEVERITY_ERROR, GP_NET_NONE,
-				GP_NET_NONE, box_centre(c->lim->viewing), 0, 0,
-				GP_UNIT_MM2);
-			add_finding(c, &f);
-		}
-		gp_geos_shape_destroy(c->geos, v);
+	struct gp_box v = c->lim->viewing;
+	bool view_inside = true;
+	if (c->inside && !gp_box_is_empty(v)) {
+		struct gp_geos_shape *vs = gp_geos_shape_from_box(c->geos, v);
+		view_inside = !vs || gp_geos_shape_covers(c->geos, c->inside, vs);
+		gp_geos_shape_destroy(c->geos, vs);
+	} else if (c->inside_is_box && !gp_box_is_empty(v) &&
+		   !gp_box_is_empty(c->lim->seal_inside)) {
+		view_inside = box_inside(v, c->inside_box);
+	}
+	if (!view_inside) {
+		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
+					      GP_NET_NONE, GP_NET_NONE,
+					      box_centre(v), 0, 0,
+					      GP_UNIT_MM2);
+		add_finding(c, &f);
+	}
+	/* pads belong on the ledge, outside the seal */
+	for (size_t k = 0; k < c->item_count; k++) {
+		const struct item *it = &c->items[k];
+		const struct gp_shape *s = &c->art->shapes[it->shape];
+		struct gp_box m = box_meet(it->box, c->inside_box);
+		if (s->role != GP_ROLE_PAD || !box_has_area(m))
+			continue;
+		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
+					      s->net, GP_NET_NONE,
+					      box_centre(m), box_mm2(m), 0,
+					      GP_UNIT_MM2);
+		f.shape = (int)it->shape;
+		f.detail = 1;
+		add_finding(c, &f);
 	}
 }
 
@@ -1430,11 +1506,16 @@ static void describe(const struct gp_artwork *art, struct gp_finding *f)
 			 a, b, f->value);
 		break;
 	case GP_CHECK_SEAL:
-		snprintf(f->text, sizeof(f->text),
-			 f->nets[0] >= 0 ? "%s lies under the seal (%.6f mm2)"
-					 : "the viewing area is not inside the "
-					   "seal%s",
-			 f->nets[0] >= 0 ? a : "", f->value);
+		if (f->nets[0] < 0)
+			snprintf(f->text, sizeof(f->text),
+				 "the viewing area is not inside the seal");
+		else
+			snprintf(f->text, sizeof(f->text),
+				 f->detail == 1 ? "the pad of %s lies inside "
+						  "the seal (%.6f mm2)"
+						: "%s lies under the seal "
+						  "(%.6f mm2)",
+				 a, f->value);
 		break;
 	case GP_CHECK_RULE_COUNT:
 		break;
@@ -1508,6 +1589,7 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 		  struct gp_check_report *report, struct gp_diag *diag)
 {
 	struct checker c;
+	report->limits = *limits;
 	report->nets = calloc(art->net_count ? art->net_count : 1,
 			      sizeof(*report->nets));
 	report->net_count = art->net_count;
@@ -1525,7 +1607,7 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 		else if (report->findings[i].severity == GP_SEVERITY_WARNING)
 			report->warnings++;
 	}
-	if (report->count > 1) /* findings is NULL when there are none */
+	if (report->count > 1)
 		qsort(report->findings, report->count,
 		      sizeof(*report->findings), compare_findings);
 	return true;

@@ -103,12 +103,29 @@ struct gp_check_limits {
 	/* places; a box with x0 > x1 is absent */
 	struct gp_box plate[2];   /* by enum gp_plate */
 	struct gp_box viewing;
+	/* inside edge of the seal when the design knows it (the seal band
+	 * drawn with a fill port has no closed inner ring) */
+	struct gp_box seal_inside;
 	/* connector: pads checked when pad_pitch > 0 */
 	int64_t conductor_pitch;  /* elastomeric strip, 0 = none */
 	int64_t min_conductors;   /* per pad and per gap */
 };
 
 void gp_check_limits_default(struct gp_check_limits *limits);
+
+struct gp_design;
+struct gp_build;
+/* Limits from a design: its rules, plates, viewing area, 'electrical'
+ * section and drive (row time 1/(N f) when a frame rate is given). */
+void gp_check_limits_from_design(struct gp_check_limits *limits,
+				 const struct gp_design *design);
+/* The check stage of the pipeline: runs every check on build->art into
+ * build->checks and adds a summary line.  False only on failure. */
+bool gp_build_check(struct gp_build *build, struct gp_diag *diag);
+struct gp_output_set;
+/* report.txt and report.json into set, when the build writes reports. */
+bool gp_build_add_check_reports(struct gp_build *build,
+				struct gp_output_set *set, struct gp_diag *diag);
 
 /* Vacuum permittivity, CODATA 2018 recommended value, F/m. */
 #define GP_EPSILON_0 8.8541878128e-12
@@ -128,6 +145,7 @@ struct gp_check_report {
 	size_t pixels_checked;
 	/* What was skipped or stood in, one line each. */
 	struct gp_buffer notes;
+	struct gp_check_limits limits; /* as used by the run */
 };
 
 void gp_check_report_init(struct gp_check_report *report);
@@ -147,5 +165,22 @@ bool gp_check_pixel_lit_geos(struct gp_geos *geos,
 			     int64_t shift, double lit[9]);
 bool gp_check_pixel_lit_exact(const struct gp_artwork *art, size_t pixel,
 			      int64_t shift, double lit[9]);
+
+/* --- reports (lib/check-report.c) --------------------------------------- */
+
+/* Text report: the limits, the notes, one line per finding
+ * ("error parasitic-overlap COM2 SEG1 at (0.7000, 1.2000) mm: ..."),
+ * then the nets with the longest RC times. */
+void gp_check_format_text(const struct gp_check_report *report,
+			  const struct gp_artwork *art, const char *part,
+			  const char *revision, struct gp_buffer *out);
+/* The same as one JSON document (json-c) following
+ * doc/report.schema.json. */
+void gp_check_format_json(const struct gp_check_report *report,
+			  const struct gp_artwork *art, const char *part,
+			  const char *revision, struct gp_buffer *out);
+/* Exit status for a command: 1 with errors (or, when strict, warnings),
+ * else 0. */
+int gp_check_exit_status(const struct gp_check_report *report, bool strict);
 
 #endif

@@ -1139,7 +1139,7 @@ bool gp_geos_box_pairs(struct gp_geos *geos, const struct gp_box *boxes,
 		free(list.items);
 		return false;
 	}
-	if (list.count) /* qsort(NULL, 0, ...) is undefined */
+	if (list.count) /* qsort must not see the NULL of an empty list */
 		qsort(list.items, list.count, sizeof(*list.items),
 		      compare_pairs);
 	*pairs = list.items;

@@ -60,6 +60,18 @@ GP_EXPORT struct gp_design *gp_design_load_buffer(const char *name,
 						  struct gp_diag *diag);
 GP_EXPORT void gp_design_destroy(struct gp_design *design);
 
+/* --- design-rule and electrical checks (run by every build) ------------- */
+/* Findings of the checks. */
+GP_EXPORT size_t gp_build_check_errors(const struct gp_build *build);
+GP_EXPORT size_t gp_build_check_warnings(const struct gp_build *build);
+/* The check report as text (one line per finding) or as JSON (the
+ * content of report.json); owned by the build. */
+GP_EXPORT const char *gp_build_check_text(struct gp_build *build);
+GP_EXPORT const char *gp_build_check_json(struct gp_build *build);
+/* 1 when there are errors (with strict, also warnings), else 0. */
+GP_EXPORT int gp_build_check_status(const struct gp_build *build,
+				    bool strict);
+
 /* --- building ------------------------------------------------------------ */
 /* Lays out and routes the design.  Returns NULL on failure. */
 GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,

@@ -10,6 +10,7 @@
 #include "patch.h"
 #include "units.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -462,6 +463,109 @@ static bool drop_floating(struct layout *l, const struct gp_polyset *front,
 	return ok;
 }
 
+/* How far a plate can move under the registration tolerance, which holds
+ * in x and in y at once: the diagonal of the tolerance box, so that a
+ * front trace stays off every patch (and a back bridge off the front)
+ * under any shift the glass maker may make. */
+static int64_t shift_reach(const struct gp_rules *r)
+{
+	return (int64_t)ceil((double)r->registration * sqrt(2.0));
+}
+
+/* Front ITO that is not icon i's: earlier stages' shapes, other icons'
+ * electrodes and bridges. */
+static bool foreign_front(struct layout *l, size_t self,
+			  struct gp_polyset *out)
+{
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_polygon copy;
+		if (s->layer != layer || s->open_path)
+			continue;
+		if (!gp_polygon_copy(&copy, &s->poly) ||
+		    !gp_polyset_take(out, &copy))
+			return false;
+	}
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		if (i != self && (!copy_into(out, &l->icons[i].front) ||
+				  !copy_into(out, &l->icons[i].bridges)))
+			return false;
+	return true;
+}
+
+static bool other_patches_set(struct layout *l, size_t group,
+			      struct gp_polyset *out)
+{
+	for (size_t g = 0; g < l->group_count; g++)
+		if (g != group && !copy_into(out, &l->patches[g]))
+			return false;
+	return true;
+}
+
+/* Where a bridge leaves one of the icon's own letters, the notch would
+ * take the letter's registration margin with it, and any plate shift
+ * would bite into the letter there.  The margin is given back: the patch
+ * keeps the letters grown by the margin box wherever the icon's own
+ * bridges pass, except near anything else on the front and near other
+ * commons' patches.  The first margin's length of each bridge then lights
+ * with its letter (a spur no wider than the bridge, recorded with the
+ * pixel); beyond it the bridge stays dark under any shift. */
+static bool reclaim_margin(struct layout *l, size_t i)
+{
+	struct icon_work *w = &l->icons[i];
+	if (w->bridges.count == 0)
+		return true;
+	const struct gp_rules *r = &l->design->rules;
+	int64_t reach = shift_reach(r) + r->chord_tolerance;
+	struct gp_polyset ring, near, want, foreign, away, others, apart, add,
+		step, merged;
+	struct gp_polyset *all[] = { &ring, &near, &want, &foreign, &away,
+				     &others, &apart, &add, &step, &merged };
+	for (size_t k = 0; k < 10; k++)
+		gp_polyset_init(all[k]);
+	struct gp_polyset *patch = &l->patches[w->group];
+	bool ok =
+		gp_geos_dilate_box(l->geos, &w->front, r->registration,
+				   r->registration, &ring) &&
+		gp_geos_offset(l->geos, &w->bridges, reach, GP_JOIN_ROUND,
+			       r->chord_tolerance, &near) &&
+		gp_geos_intersection(l->geos, &ring, &near, &want) &&
+		foreign_front(l, i, &foreign) &&
+		gp_geos_offset(l->geos, &foreign, reach, GP_JOIN_ROUND,
+			       r->chord_tolerance, &away) &&
+		other_patches_set(l, w->group, &others) &&
+		gp_geos_offset(l->geos, &others, r->min_space, GP_JOIN_ROUND,
+			       r->chord_tolerance, &apart) &&
+		gp_geos_difference(l->geos, &want, &away, &step) &&
+		gp_geos_difference(l->geos, &step, &apart, &add) &&
+		copy_into(&add, patch) &&
+		gp_geos_union_set(l->geos, &add, &merged);
+	if (ok) {
+		gp_polyset_finish(patch);
+		*patch = merged;
+		gp_polyset_init(&merged);
+	}
+	for (size_t k = 0; k < 10; k++)
+		gp_polyset_finish(all[k]);
+	return ok;
+}
+
+/* The parts of icon i's bridges that light with it: over its patch. */
+static bool lit_spurs(struct layout *l, size_t i, struct gp_polyset *out)
+{
+	struct icon_work *w = &l->icons[i];
+	struct gp_polyset over;
+	gp_polyset_init(&over);
+	bool ok = w->bridges.count == 0 ||
+		  (gp_geos_intersection(l->geos, &w->bridges,
+					&l->patches[w->group], &over) &&
+		   gp_geos_difference(l->geos, &over, &w->front, out));
+	gp_polyset_finish(&over);
+	return ok;
+}
+
 static bool make_patches(struct layout *l)
 {
 	const struct gp_rules *r = &l->design->rules;
@@ -484,15 +588,15 @@ static bool make_patches(struct layout *l)
 	struct gp_patch_rules rules = {
 		.margin = r->registration,
 		.min_space = r->min_space,
-		/* a front trace stays off the patch under any shift up to the
-		 * registration margin */
-		.clearance = r->registration,
+		.clearance = shift_reach(r),
 		.chord_tolerance = r->chord_tolerance,
 	};
 	ok = ok && gp_patch_make(l->geos, groups, l->group_count, traces.items,
 				 traces.count, &rules, l->patches, l->diag);
 	for (size_t g = 0; ok && g < l->group_count; g++)
 		ok = drop_floating(l, &fronts[g], &l->patches[g]);
+	for (size_t i = 0; ok && i < l->design->icon_count; i++)
+		ok = reclaim_margin(l, i);
 	for (size_t g = 0; fronts && g < l->group_count; g++)
 		gp_polyset_finish(&fronts[g]);
 	free(fronts);
@@ -502,14 +606,17 @@ static bool make_patches(struct layout *l)
 	return ok || oom(l);
 }
 
-/* The front plate's ITO as one shape, and the other groups' patches. */
-static struct gp_geos_shape *all_front(struct layout *l)
+/* The front plate's ITO but icon i's own electrode: what a back bridge of
+ * icon i must stay off under any shift.  (Back ITO over its own electrode
+ * changes nothing: the patch covers that under every shift already.) */
+static struct gp_geos_shape *front_except(struct layout *l, size_t self)
 {
 	struct gp_polyset all;
 	gp_polyset_init(&all);
 	bool ok = front_traces(l, &all);
 	for (size_t i = 0; ok && i < l->design->icon_count; i++)
-		ok = copy_into(&all, &l->icons[i].front);
+		if (i != self)
+			ok = copy_into(&all, &l->icons[i].front);
 	struct gp_geos_shape *s =
 		ok ? gp_geos_shape_from_polyset(l->geos, &all) : NULL;
 	gp_polyset_finish(&all);
@@ -552,8 +659,7 @@ static bool patch_pieces(struct layout *l, size_t i, struct gp_polyset *out)
 	return ok;
 }
 
-static bool back_bridges(struct layout *l, struct gp_geos_shape *front,
-			 size_t i)
+static bool back_bridges(struct layout *l, size_t i)
 {
 	struct gp_polyset pieces;
 	gp_polyset_init(&pieces);
@@ -564,16 +670,20 @@ static bool back_bridges(struct layout *l, struct gp_geos_shape *front,
 	}
 	const struct gp_rules *r = &l->design->rules;
 	struct gp_keepout keep[2] = {
-		{ front, r->registration },
+		{ front_except(l, i), shift_reach(r) },
 		{ other_patches(l, l->icons[i].group), r->min_space },
 	};
-	size_t missing = 0;
+	size_t missing = 0, n = 0;
 	struct gp_point at = { 0, 0 };
-	ok = keep[1].shape &&
-	     gp_bridges_join(l->geos, &pieces, r->min_line, keep,
-			     gp_geos_shape_is_empty(l->geos, keep[1].shape)
-				     ? 1 : 2,
+	struct gp_keepout used[2];
+	for (int k = 0; k < 2; k++)
+		if (keep[k].shape &&
+		    !gp_geos_shape_is_empty(l->geos, keep[k].shape))
+			used[n++] = keep[k];
+	ok = keep[0].shape && keep[1].shape &&
+	     gp_bridges_join(l->geos, &pieces, r->min_line, used, n,
 			     &l->icons[i].back_bridges, &missing, &at);
+	gp_geos_shape_destroy(l->geos, keep[0].shape);
 	gp_geos_shape_destroy(l->geos, keep[1].shape);
 	gp_polyset_finish(&pieces);
 	if (ok && missing)
@@ -600,25 +710,37 @@ static bool add_set(struct layout *l, struct gp_polyset *set,
 	return true;
 }
 
+/* One pixel per icon.  Its nominal lit region is the electrode and the
+ * spurs of its bridges over the patch, united (so that its parts neither
+ * overlap nor touch): shape holds the first part, more the rest. */
 static bool add_pixel(struct layout *l, size_t i)
 {
 	struct icon_work *w = &l->icons[i];
+	struct gp_polyset parts, region;
+	gp_polyset_init(&parts);
+	gp_polyset_init(&region);
+	bool ok = copy_into(&parts, &w->front) && lit_spurs(l, i, &parts) &&
+		  gp_geos_union_set(l->geos, &parts, &region) &&
+		  region.count > 0;
 	struct gp_box box = gp_box_none();
-	for (size_t k = 0; k < w->front.count; k++)
-		box = gp_box_union(box, gp_polygon_bounds(&w->front.items[k]));
-	struct gp_pixel *p = gp_artwork_add_pixel(&l->build->art, w->common,
-						  w->segment, box);
-	if (!p || !gp_polygon_copy(&p->shape, &w->front.items[0]))
-		return false;
-	p->owner_kind = GP_OWNER_ICON;
-	p->owner = (int)i;
-	for (size_t k = 1; k < w->front.count; k++) {
-		struct gp_polygon copy;
-		if (!gp_polygon_copy(&copy, &w->front.items[k]) ||
-		    !gp_polyset_take(&p->more, &copy))
-			return false;
+	for (size_t k = 0; ok && k < region.count; k++)
+		box = gp_box_union(box, gp_polygon_bounds(&region.items[k]));
+	struct gp_pixel *p = ok ? gp_artwork_add_pixel(&l->build->art,
+						       w->common, w->segment,
+						       box)
+				: NULL;
+	ok = p != NULL;
+	if (ok) {
+		p->owner_kind = GP_OWNER_ICON;
+		p->owner = (int)i;
+		p->shape = region.items[0];
+		gp_polygon_init(&region.items[0]);
+		for (size_t k = 1; ok && k < region.count; k++)
+			ok = gp_polyset_take(&p->more, &region.items[k]);
 	}
-	return true;
+	gp_polyset_finish(&parts);
+	gp_polyset_finish(&region);
+	return ok;
 }
 
 /* Summary: nets, area and what the registration margin keeps lit. */
@@ -707,12 +829,8 @@ static bool make_all_bridges(struct layout *l)
 		ok &= front_bridges(l, i);
 	if (!ok || !make_patches(l))
 		return false;
-	struct gp_geos_shape *front = all_front(l);
-	if (!front)
-		return oom(l);
 	for (size_t i = 0; i < l->design->icon_count; i++)
-		ok &= back_bridges(l, front, i);
-	gp_geos_shape_destroy(l->geos, front);
+		ok &= back_bridges(l, i);
 	return ok;
 }
 

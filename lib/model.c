@@ -12,6 +12,7 @@
 #define DEFAULT_REGISTRATION (100 * 1000)     /* 0.100 mm */
 #define DEFAULT_EDGE_CLEARANCE (500 * 1000)   /* 0.500 mm */
 #define DEFAULT_CHORD_TOLERANCE (1000)        /* 0.001 mm */
+#define DEFAULT_REGISTRATION_LOSS 0.05        /* our own choice: 5% */
 
 static bool read_glass(struct gp_design *design, const struct gp_node *node,
 		       struct gp_diag *diag)
@@ -71,6 +72,8 @@ static bool read_rules(struct gp_rules *rules, const struct gp_node *node,
 	gp_read_size(&r, "registration", false, &rules->registration);
 	gp_read_size(&r, "edge_clearance", false, &rules->edge_clearance);
 	gp_read_size(&r, "chord_tolerance", false, &rules->chord_tolerance);
+	gp_read_double(&r, "registration_loss", false, 0, 1,
+		       &rules->registration_loss);
 	return gp_reader_end(&r);
 }
 
@@ -81,6 +84,7 @@ static void set_default_rules(struct gp_rules *rules)
 	rules->registration = DEFAULT_REGISTRATION;
 	rules->edge_clearance = DEFAULT_EDGE_CLEARANCE;
 	rules->chord_tolerance = DEFAULT_CHORD_TOLERANCE;
+	rules->registration_loss = DEFAULT_REGISTRATION_LOSS;
 }
 
 /* The plates must overlap; that overlap is where any pixel can be. */
@@ -115,6 +119,8 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 		r.ok &= read_rules(&design->rules, node, diag);
 	if ((node = gp_read_node(&r, "blocks", false)))
 		r.ok &= gp_blocks_read(design, node, diag);
+	if ((node = gp_read_node(&r, "digits", false)))
+		r.ok &= gp_digits_read(design, node, diag);
 	if ((node = gp_read_node(&r, "proof", false)))
 		r.ok &= gp_proof_read(design, node, diag);
 	if ((node = gp_read_node(&r, "icons", false)))
@@ -124,6 +130,8 @@ static bool read_sections(struct gp_design *design, struct gp_diag *diag)
 	if ((node = gp_read_node(&r, "optics", false)))
 		r.ok &= gp_optics_read(design, node, diag);
 	r.ok &= gp_routing_read(design, &r, diag);
+	if ((node = gp_read_node(&r, "electrical", false)))
+		r.ok &= gp_electrical_read(design, node, diag);
 	return gp_reader_end(&r);
 }
 
@@ -138,6 +146,7 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 	}
 	design->spec = spec;
 	set_default_rules(&design->rules);
+	gp_electrical_defaults(&design->electrical);
 	size_t errors = diag->errors;
 	if (!read_sections(design, diag) || diag->errors > errors) {
 		gp_design_destroy(design);
@@ -157,6 +166,7 @@ GP_EXPORT void gp_design_destroy(struct gp_design *design)
 	if (!design)
 		return;
 	free(design->blocks);
+	gp_digits_free(design->digits, design->digit_count);
 	gp_routing_destroy(design->routing);
 	gp_icons_free(design);
 	gp_spec_destroy(design->spec);

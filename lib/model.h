@@ -6,6 +6,7 @@
 
 #include "artwork.h"
 #include "diag.h"
+#include "digits.h"
 #include "drive.h"
 #include "font.h"
 #include "geom.h"
@@ -23,7 +24,20 @@ struct gp_rules {
 	int64_t registration;     /* plate-to-plate misalignment to survive */
 	int64_t edge_clearance;   /* ITO to the plate's cut edge */
 	int64_t chord_tolerance;  /* curve flattening */
+	double registration_loss; /* lit-area loss allowed under misalignment */
 	struct gp_where where;
+};
+
+/* Section 'electrical' (read by lib/check-design.c): what the electrical
+ * checks need.  Defaults in lib/check.c (gp_check_limits_default). */
+struct gp_electrical {
+	bool given;
+	struct gp_where where;
+	double sheet_resistance[2]; /* ohm/square, by enum gp_plate */
+	int64_t cell_gap;           /* nm */
+	double permittivity;        /* relative, of the fluid */
+	double max_lead_resistance; /* ohm; 0 = no limit */
+	int64_t conductor_pitch;    /* elastomeric connector, nm; 0 = none */
 };
 
 /* How the PDF proof is drawn (section 'proof', lib/proof.c).  Zero means
@@ -130,11 +144,14 @@ struct gp_design {
 	struct gp_rules rules;
 	struct gp_block *blocks;
 	size_t block_count;
+	struct gp_digits *digits;     /* rows of segment digits */
+	size_t digit_count;
 	struct gp_proof_spec proof;
 	struct gp_routing *routing;   /* routing sections, NULL if none */
 	struct gp_icon *icons;
 	size_t icon_count;
 	struct gp_drive_spec drive;   /* sections 'drive' and 'optics' */
+	struct gp_electrical electrical;
 };
 
 /* Reads every section of spec; takes ownership of spec (also on failure). */
@@ -147,6 +164,9 @@ enum gp_plate gp_common_plate(const struct gp_design *design);
 int gp_design_common_count(const struct gp_design *design);
 
 /* Section readers, one per module. */
+bool gp_electrical_read(struct gp_design *design, const struct gp_node *node,
+			struct gp_diag *diag);
+void gp_electrical_defaults(struct gp_electrical *electrical);
 bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag);
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,

@@ -699,7 +699,10 @@ static void draw_detail(struct proof *p, const struct detail *d)
 	proof_textf(p, d->x, d->y + 8.5, ALIGN_LEFT, "scale %d:1", d->scale);
 	double s = d->scale;
 	struct proof_view v;
+	memset(&v, 0, sizeof(v));
 	v.s = s;
+	v.windowed = true;
+	v.window = d->window;
 	v.ox = d->x + side_room(&d->dims, LEFT) - s * gp_mm(d->window.x0);
 	v.oy = d->y + DETAIL_TITLE + side_room(&d->dims, TOP) +
 	       s * gp_mm(d->window.y1);

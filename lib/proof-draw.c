@@ -14,8 +14,16 @@
 #include <stdlib.h>
 #include <string.h>
 
-static const struct rgb lit_colour = { 0.10, 0.12, 0.14 };
-static const struct rgb lcd_colour = { 0.80, 0.84, 0.76 };
+/* Positive mode: dark pixels on a light field; negative: the reverse. */
+static const struct rgb lit_colours[2] = { { 0.10, 0.12, 0.14 },
+					   { 0.86, 0.92, 0.80 } };
+static const struct rgb lcd_colours[2] = { { 0.80, 0.84, 0.76 },
+					   { 0.10, 0.12, 0.16 } };
+
+static int negative(const struct proof *p)
+{
+	return p->design->drive.mode == GP_MODE_NEGATIVE;
+}
 static const struct rgb glass_colour = { 0.93, 0.94, 0.95 };
 static const struct rgb viewing_colour = { 0.45, 0.20, 0.70 };
 
@@ -60,11 +68,18 @@ void proof_add_box(struct proof *p, const struct proof_view *v,
 			y0 < y1 ? y1 - y0 : y0 - y1);
 }
 
-static bool shape_selected(const struct gp_shape *s, enum gp_layer layer,
+static bool shape_selected(const struct proof_view *v,
+			   const struct gp_shape *s, enum gp_layer layer,
 			   unsigned role_mask)
 {
-	return s->layer == layer && (role_mask & ROLE_BIT(s->role)) &&
-	       s->line_width == 0;
+	if (s->layer != layer || !(role_mask & ROLE_BIT(s->role)) ||
+	    s->line_width != 0)
+		return false;
+	if (!v->windowed)
+		return true;
+	struct gp_box b = gp_polygon_bounds(&s->poly);
+	return b.x1 >= v->window.x0 && b.x0 <= v->window.x1 &&
+	       b.y1 >= v->window.y0 && b.y0 <= v->window.y1;
 }
 
 bool proof_has_layer(const struct proof *p, enum gp_layer layer,
@@ -92,7 +107,7 @@ size_t proof_path_layer(struct proof *p, const struct proof_view *v,
 	size_t count = 0;
 	for (size_t i = 0; i < p->art->shape_count; i++) {
 		const struct gp_shape *s = &p->art->shapes[i];
-		if (!shape_selected(s, layer, role_mask))
+		if (!shape_selected(v, s, layer, role_mask))
 			continue;
 		proof_add_polygon(p, v, &s->poly);
 		count++;
@@ -110,6 +125,54 @@ void proof_fill_layer(struct proof *p, const struct proof_view *v,
 	proof_set_colour(p, c, alpha);
 	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
 	cairo_fill(p->cr);
+}
+
+static struct rgb layer_colour(enum gp_layer layer)
+{
+	switch (layer) {
+	case GP_LAYER_FRONT_ITO:
+		return proof_front_colour;
+	case GP_LAYER_BACK_ITO:
+		return proof_back_colour;
+	case GP_LAYER_SEAL:
+		return proof_seal_colour;
+	case GP_LAYER_TRANSFER:
+		return proof_transfer_colour;
+	default:
+		return (struct rgb){ 0, 0, 0 };
+	}
+}
+
+void proof_paint_layer(struct proof *p, enum gp_layer layer, double alpha)
+{
+	if (!proof_has_layer(p, layer, ALL_ROLES))
+		return;
+	if (!p->layers[layer]) {
+		cairo_rectangle_t extents = { 0, 0, p->plan.paper_w,
+					      p->plan.paper_h };
+		cairo_surface_t *surface = cairo_recording_surface_create(
+			CAIRO_CONTENT_COLOR_ALPHA, &extents);
+		cairo_t *page = p->cr;
+		p->cr = cairo_create(surface);
+		proof_fill_layer(p, &p->view, layer, ALL_ROLES,
+				 layer_colour(layer), 1.0);
+		cairo_destroy(p->cr);
+		p->cr = page;
+		p->layers[layer] = surface;
+	}
+	cairo_set_source_surface(p->cr, p->layers[layer], 0, 0);
+	if (alpha >= 1.0)
+		cairo_paint(p->cr);
+	else
+		cairo_paint_with_alpha(p->cr, alpha);
+}
+
+void proof_layers_destroy(struct proof *p)
+{
+	for (int i = 0; i < GP_LAYER_COUNT; i++) {
+		cairo_surface_destroy(p->layers[i]);
+		p->layers[i] = NULL;
+	}
 }
 
 void proof_stroke_lines(struct proof *p, const struct proof_view *v,
@@ -248,7 +311,7 @@ void proof_pin1(struct proof *p, const struct proof_view *v)
 /* --- dot-matrix cells ------------------------------------------------------ */
 
 static cairo_surface_t *cell_surface(const struct gp_block *b, double s,
-				     int parity)
+				     int parity, struct rgb lit)
 {
 	int64_t cw = (b->dots_across - 1) * b->dot_pitch_x + b->dot_width;
 	int64_t ch = (b->dots_down - 1) * b->dot_pitch_y + b->dot_height;
@@ -264,7 +327,7 @@ static cairo_surface_t *cell_surface(const struct gp_block *b, double s,
 						s * gp_mm(row * b->dot_pitch_y),
 						s * gp_mm(b->dot_width),
 						s * gp_mm(b->dot_height));
-	cairo_set_source_rgb(cr, lit_colour.r, lit_colour.g, lit_colour.b);
+	cairo_set_source_rgb(cr, lit.r, lit.g, lit.b);
 	cairo_fill(cr);
 	cairo_destroy(cr);
 	return surface;
@@ -280,9 +343,10 @@ bool proof_cells_create(struct proof *p)
 		const struct gp_block *b = &p->design->blocks[i];
 		struct proof_cells *c = &p->cells[i];
 		c->scale = p->view.s;
-		c->all = cell_surface(b, c->scale, -1);
-		c->even = cell_surface(b, c->scale, 0);
-		c->odd = cell_surface(b, c->scale, 1);
+		struct rgb lit = lit_colours[negative(p)];
+		c->all = cell_surface(b, c->scale, -1, lit);
+		c->even = cell_surface(b, c->scale, 0, lit);
+		c->odd = cell_surface(b, c->scale, 1, lit);
 		if (cairo_surface_status(c->all) || cairo_surface_status(c->even) ||
 		    cairo_surface_status(c->odd))
 			return false;
@@ -339,11 +403,13 @@ void proof_pixels(struct proof *p, const struct proof_view *v,
 			proof_add_polygon(p, v, &px->shape);
 		else
 			proof_add_box(p, v, px->box);
+		for (size_t k = 0; k < px->more.count; k++)
+			proof_add_polygon(p, v, &px->more.items[k]);
 		any = true;
 	}
 	if (!any)
 		return;
-	proof_set_colour(p, lit_colour, 1.0);
+	proof_set_colour(p, lit_colours[negative(p)], 1.0);
 	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
 	cairo_fill(p->cr);
 }
@@ -352,10 +418,8 @@ void proof_pixels(struct proof *p, const struct proof_view *v,
 
 static void fill_seal_and_transfers(struct proof *p, double alpha)
 {
-	proof_fill_layer(p, &p->view, GP_LAYER_SEAL, ALL_ROLES,
-			 proof_seal_colour, alpha);
-	proof_fill_layer(p, &p->view, GP_LAYER_TRANSFER, ALL_ROLES,
-			 proof_transfer_colour, 1.0);
+	proof_paint_layer(p, GP_LAYER_SEAL, alpha);
+	proof_paint_layer(p, GP_LAYER_TRANSFER, 1.0);
 }
 
 static void overview_legend(struct proof *p)
@@ -377,10 +441,8 @@ void proof_sheet_overview(struct proof *p)
 {
 	proof_begin_sheet(p, "Overview: both plates");
 	fill_seal_and_transfers(p, 0.45);
-	proof_fill_layer(p, &p->view, GP_LAYER_FRONT_ITO, ALL_ROLES,
-			 proof_front_colour, 0.5);
-	proof_fill_layer(p, &p->view, GP_LAYER_BACK_ITO, ALL_ROLES,
-			 proof_back_colour, 0.5);
+	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.5);
+	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.5);
 	proof_viewing_area(p, &p->view);
 	proof_plate_outlines(p, &p->view, true, true);
 	proof_pin1(p, &p->view);
@@ -406,8 +468,7 @@ static void layer_sheet(struct proof *p, enum gp_plate plate)
 	proof_begin_sheet(p, front ? "Front plate ITO" : "Back plate ITO");
 	note(p, front ? "As seen from the viewer."
 		      : "As seen from the viewer, through the front plate.");
-	proof_fill_layer(p, &p->view, layer, ALL_ROLES,
-			 front ? proof_front_colour : proof_back_colour, 1.0);
+	proof_paint_layer(p, layer, 1.0);
 	proof_plate_outlines(p, &p->view, front, !front);
 	if (proof_has_layer(p, layer, ROLE_BIT(GP_ROLE_PAD)))
 		proof_pin1(p, &p->view);
@@ -462,13 +523,16 @@ void proof_sheet_lit(struct proof *p, bool checkerboard)
 				     ? "Lit preview: checkerboard over the "
 				       "matrix blocks"
 				     : "Lit preview: all pixels on");
-	note(p, "The glass as the viewer sees it (positive mode).");
+	note(p, negative(p) ? "The glass as the viewer sees it (negative "
+			      "mode, as the optics section says)."
+			    : "The glass as the viewer sees it (positive "
+			      "mode).");
 	const struct proof_view *v = &p->view;
 	proof_set_colour(p, glass_colour, 1.0);
 	proof_add_box(p, v, p->design->front.box);
 	proof_add_box(p, v, p->design->back.box);
 	cairo_fill(p->cr);
-	proof_set_colour(p, lcd_colour, 1.0);
+	proof_set_colour(p, lcd_colours[negative(p)], 1.0);
 	proof_add_box(p, v, p->design->viewing);
 	cairo_fill(p->cr);
 	proof_pixels(p, v, checkerboard);

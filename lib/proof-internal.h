@@ -14,6 +14,10 @@
  * paper y = oy - s * y_mm. */
 struct proof_view {
 	double ox, oy, s;
+	/* when set, shapes wholly outside window are left out (the view is
+	 * clipped to it anyway) */
+	bool windowed;
+	struct gp_box window;
 };
 
 struct rgb {
@@ -51,8 +55,14 @@ struct proof {
 	struct proof_view view;     /* the overview's glass placement */
 	int sheet;                  /* current sheet, 1-based */
 	struct proof_cells *cells;  /* one per block */
+	/* Each layer drawn once at the overview's view, painted on every
+	 * sheet that shows it whole (the PDF holds it once). */
+	cairo_surface_t *layers[GP_LAYER_COUNT];
 	struct proof_net_use *use;  /* one per net */
 	int *pin_order;             /* net indices in pin table order */
+	struct gp_buffer pins_csv;  /* pins.csv, when routed */
+	const char **pin_lines;     /* its rows, header excluded */
+	size_t pin_line_count;
 };
 
 /* --- paper, text and primitives (proof.c) ------------------------------ */
@@ -66,6 +76,7 @@ enum proof_align { ALIGN_LEFT, ALIGN_CENTRE, ALIGN_RIGHT };
 
 void proof_set_colour(struct proof *p, struct rgb c, double alpha);
 void proof_font(struct proof *p, double size, bool bold);
+void proof_font_mono(struct proof *p, double size);
 /* Text with its baseline at y; returns its width in mm. */
 double proof_text(struct proof *p, double x, double y, enum proof_align align,
 		  const char *text);
@@ -103,6 +114,10 @@ size_t proof_path_layer(struct proof *p, const struct proof_view *v,
 void proof_fill_layer(struct proof *p, const struct proof_view *v,
 		      enum gp_layer layer, unsigned role_mask, struct rgb c,
 		      double alpha);
+/* Paints a whole layer (all roles) at the overview's view in its own
+ * colour with alpha. */
+void proof_paint_layer(struct proof *p, enum gp_layer layer, double alpha);
+void proof_layers_destroy(struct proof *p);
 /* Strokes the line shapes (outlines) of layer. */
 void proof_stroke_lines(struct proof *p, const struct proof_view *v,
 			enum gp_layer layer, double width);
@@ -141,12 +156,16 @@ void proof_dim_room(const struct gp_build *build, double *left,
 int proof_pin_sheet_count(const struct gp_build *build,
 			  const struct gp_proof_plan *plan);
 void proof_sheets_pins(struct proof *p);
-void proof_sheet_spec(struct proof *p);
+void proof_sheets_spec(struct proof *p);
+int proof_spec_sheet_count(const struct gp_build *build,
+			   const struct gp_proof_plan *plan);
 int proof_finding_sheet_count(const struct gp_build *build,
 			      const struct gp_proof_plan *plan);
 void proof_sheets_findings(struct proof *p);
 void proof_cautions(struct proof *p);
 bool proof_net_use_create(struct proof *p);
+bool proof_pins_create(struct proof *p);
+void proof_pins_destroy(struct proof *p);
 /* "block main line 1 row 3", describing what a net drives. */
 void proof_net_drives(const struct proof *p, int net, char *buffer,
 		      size_t size);

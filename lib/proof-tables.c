@@ -3,6 +3,7 @@
 #include "proof-internal.h"
 
 #include "drive.h"
+#include "route.h"
 #include "units.h"
 
 #include <stdarg.h>
@@ -10,7 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define ROW_H 4.5          /* table row height, mm */
+#define ROW_H 3.8          /* table row height, mm */
 #define TABLE_TOP 16.0     /* below the sheet title */
 
 /* --- what each net drives ---------------------------------------------------- */
@@ -92,9 +93,36 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 
 /* --- table layout -------------------------------------------------------------- */
 
-static const double pin_columns[] = { 12, 16, 14, 18, 62 };
-#define PIN_COLUMNS 5
-#define PIN_TABLE_W 126.0
+#define MAX_COLUMNS 8
+
+struct table {
+	const char *const *header;
+	const double *widths;
+	int columns;
+	double width;             /* sum of widths */
+};
+
+/* Without routing: the nets in their numbering order. */
+static const char *const net_header[] = { "Pin", "Net", "Plate", "Kind",
+					  "Drives" };
+static const double net_widths[] = { 12, 16, 14, 18, 66 };
+/* With routing: pins.csv's columns. */
+static const char *const pin_header[] = { "Pin", "Ledge", "x", "y", "Net",
+					  "Role", "Drives" };
+static const double pin_widths[] = { 11, 16, 20, 20, 15, 16, 66 };
+
+static struct table pin_table(const struct gp_build *build)
+{
+	struct table t;
+	bool pins = build->pin_count > 0;
+	t.header = pins ? pin_header : net_header;
+	t.widths = pins ? pin_widths : net_widths;
+	t.columns = pins ? 7 : 5;
+	t.width = 0;
+	for (int i = 0; i < t.columns; i++)
+		t.width += t.widths[i];
+	return t;
+}
 
 static void table_capacity(const struct gp_proof_plan *plan, double width,
 			   int *rows, int *columns)
@@ -102,7 +130,7 @@ static void table_capacity(const struct gp_proof_plan *plan, double width,
 	double w = plan->paper_w - 2 * PROOF_MARGIN - 8;
 	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
 		   TABLE_TOP - ROW_H;
-	*columns = (int)(w / (width + 4));
+	*columns = (int)((w + 4) / (width + 4));
 	if (*columns < 1)
 		*columns = 1;
 	*rows = (int)(h / ROW_H);
@@ -110,25 +138,31 @@ static void table_capacity(const struct gp_proof_plan *plan, double width,
 		*rows = 1;
 }
 
+static size_t pin_rows(const struct gp_build *build)
+{
+	return build->pin_count ? build->pin_count : build->art.net_count;
+}
+
 int proof_pin_sheet_count(const struct gp_build *build,
 			  const struct gp_proof_plan *plan)
 {
 	int rows, columns;
-	table_capacity(plan, PIN_TABLE_W, &rows, &columns);
+	struct table t = pin_table(build);
+	table_capacity(plan, t.width, &rows, &columns);
 	size_t per = (size_t)rows * (size_t)columns;
-	size_t n = build->art.net_count;
+	size_t n = pin_rows(build);
 	return n ? (int)((n + per - 1) / per) : 1;
 }
 
 static void table_row(struct proof *p, double x, double y,
-		      const double *widths, int count,
-		      const char *const *cells, bool header)
+		      const struct table *t, const char *const *cells,
+		      bool header)
 {
-	proof_font(p, 2.3, header);
+	proof_font(p, 2.2, header);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	for (int i = 0; i < count; i++) {
-		proof_text(p, x + 1, y + ROW_H - 1.2, ALIGN_LEFT, cells[i]);
-		x += widths[i];
+	for (int i = 0; i < t->columns; i++) {
+		proof_text(p, x + 1, y + ROW_H - 1.1, ALIGN_LEFT, cells[i]);
+		x += t->widths[i];
 	}
 }
 
@@ -138,7 +172,8 @@ static void table_rule(struct proof *p, double x, double y, double w)
 	proof_line(p, x, y, x + w, y, 0.1);
 }
 
-static void pin_row(struct proof *p, double x, double y, int net)
+static void net_row(struct proof *p, const struct table *t, double x,
+		    double y, int net)
 {
 	const struct gp_net *n = &p->art->nets[net];
 	char pin[16], drives[128];
@@ -147,22 +182,66 @@ static void pin_row(struct proof *p, double x, double y, int net)
 	else
 		snprintf(pin, sizeof(pin), "-");
 	proof_net_drives(p, net, drives, sizeof(drives));
-	const char *cells[PIN_COLUMNS] = {
+	const char *cells[5] = {
 		pin, n->name, n->plate == GP_PLATE_FRONT ? "front" : "back",
 		n->kind == GP_NET_COMMON ? "common" : "segment", drives,
 	};
-	table_row(p, x, y, pin_columns, PIN_COLUMNS, cells, false);
+	table_row(p, x, y, t, cells, false);
+}
+
+/* One line of pins.csv: six fields, then the rest (what the net drives,
+ * which may hold commas). */
+static void csv_row(struct proof *p, const struct table *t, double x,
+		    double y, const char *line)
+{
+	char copy[512];
+	snprintf(copy, sizeof(copy), "%s", line);
+	const char *cells[7] = { "", "", "", "", "", "", "" };
+	char *c = copy;
+	for (int i = 0; i < 7 && c; i++) {
+		cells[i] = c;
+		char *comma = i < 6 ? strchr(c, ',') : NULL;
+		if (comma)
+			*comma = '\0';
+		c = comma ? comma + 1 : NULL;
+	}
+	table_row(p, x, y, t, cells, false);
+}
+
+bool proof_pins_create(struct proof *p)
+{
+	gp_buffer_init(&p->pins_csv);
+	if (!p->build->pin_count)
+		return true;
+	if (!gp_pins_csv(p->build, &p->pins_csv) || !p->pins_csv.data)
+		return false;
+	/* lines after the header, NUL-terminated in place */
+	p->pin_lines = calloc(p->build->pin_count, sizeof(*p->pin_lines));
+	if (!p->pin_lines)
+		return false;
+	char *line = strchr(p->pins_csv.data, '\n');
+	while (line && *++line && p->pin_line_count < p->build->pin_count) {
+		p->pin_lines[p->pin_line_count++] = line;
+		line = strchr(line, '\n');
+		if (line)
+			*line = '\0';
+	}
+	return true;
+}
+
+void proof_pins_destroy(struct proof *p)
+{
+	free(p->pin_lines);
+	gp_buffer_finish(&p->pins_csv);
 }
 
 void proof_sheets_pins(struct proof *p)
 {
-	static const char *const header[PIN_COLUMNS] = {
-		"Pin", "Net", "Plate", "Kind", "Drives",
-	};
 	int rows, columns;
-	table_capacity(&p->plan, PIN_TABLE_W, &rows, &columns);
-	size_t n = p->art->net_count, next = 0;
-	bool pins = n && p->art->nets[p->pin_order[0]].pin > 0;
+	struct table t = pin_table(p->build);
+	table_capacity(&p->plan, t.width, &rows, &columns);
+	bool pins = p->build->pin_count > 0;
+	size_t n = pins ? p->pin_line_count : p->art->net_count, next = 0;
 	for (int sheet = 0; sheet < p->plan.pin_sheets; sheet++) {
 		char title[64];
 		snprintf(title, sizeof(title), "Pin table (%d of %d)",
@@ -172,18 +251,22 @@ void proof_sheets_pins(struct proof *p)
 		proof_area(p, &x0, &y0, &x1, &y1);
 		proof_font(p, 2.3, false);
 		proof_text(p, x0, y0 + 11, ALIGN_LEFT,
-			   pins ? "Pins in order; the same data as pins.csv."
-				: "No pins assigned in this artwork (nothing "
-				  "routed): nets in their numbering order.");
+			   pins ? "Pins in order: the same data as pins.csv "
+				  "(pad centres x, y in mm)."
+				: "No pins in this artwork (nothing routed): "
+				  "the nets in their numbering order.");
 		for (int c = 0; c < columns && next < n; c++) {
-			double x = x0 + c * (PIN_TABLE_W + 4);
+			double x = x0 + c * (t.width + 4);
 			double y = y0 + TABLE_TOP;
-			table_row(p, x, y, pin_columns, PIN_COLUMNS, header,
-				  true);
+			table_row(p, x, y, &t, t.header, true);
 			y += ROW_H;
-			table_rule(p, x, y, PIN_TABLE_W);
-			for (int r = 0; r < rows && next < n; r++) {
-				pin_row(p, x, y, p->pin_order[next++]);
+			table_rule(p, x, y, t.width);
+			for (int r = 0; r < rows && next < n; r++, next++) {
+				if (pins)
+					csv_row(p, &t, x, y, p->pin_lines[next]);
+				else
+					net_row(p, &t, x, y,
+						p->pin_order[next]);
 				y += ROW_H;
 			}
 		}
@@ -193,16 +276,20 @@ void proof_sheets_pins(struct proof *p)
 
 /* --- the drive and ordering spec ------------------------------------------------ */
 
-struct spec_table {
-	struct proof *p;
-	double x, y, key_w;
-};
+/* Set in a monospaced face, as the drive report's text is laid out in
+ * columns: the glass first, then the report 'glassplot drive' prints. */
+#define SPEC_SIZE 2.0
+#define SPEC_CHAR (0.6 * SPEC_SIZE)   /* advance of a monospaced em/0.6 */
+#define SPEC_LINE 2.9
+#define SPEC_COLUMN 100               /* characters */
+#define SPEC_GAP 6.0
+#define SPEC_INDENT 29                /* the report's value column */
 
-static void spec_line(struct spec_table *t, const char *key,
+static void spec_pair(struct gp_buffer *out, const char *key,
 		      const char *format, ...)
 	__attribute__((format(printf, 3, 4)));
 
-static void spec_line(struct spec_table *t, const char *key,
+static void spec_pair(struct gp_buffer *out, const char *key,
 		      const char *format, ...)
 {
 	char value[256];
@@ -210,19 +297,7 @@ static void spec_line(struct spec_table *t, const char *key,
 	va_start(args, format);
 	vsnprintf(value, sizeof(value), format, args);
 	va_end(args);
-	proof_font(t->p, 2.5, true);
-	proof_text(t->p, t->x, t->y, ALIGN_LEFT, key);
-	proof_font(t->p, 2.5, false);
-	proof_text(t->p, t->x + t->key_w, t->y, ALIGN_LEFT, value);
-	t->y += ROW_H + 0.5;
-}
-
-static void spec_heading(struct spec_table *t, const char *text)
-{
-	t->y += 2;
-	proof_font(t->p, 3.0, true);
-	proof_text(t->p, t->x, t->y, ALIGN_LEFT, text);
-	t->y += ROW_H + 1;
+	gp_buffer_printf(out, "  %-26s %s\n", key, value);
 }
 
 static void size_text(char *buffer, size_t size, struct gp_box box)
@@ -232,75 +307,225 @@ static void size_text(char *buffer, size_t size, struct gp_box box)
 	proof_mm(h, sizeof(h), gp_box_height(box));
 	proof_mm(x, sizeof(x), box.x0);
 	proof_mm(y, sizeof(y), box.y0);
-	snprintf(buffer, size, "%s x %s mm, lower-left corner at (%s, %s)", w,
-		 h, x, y);
+	snprintf(buffer, size, "%s x %s mm at (%s, %s)", w, h, x, y);
 }
 
-static void spec_glass(struct spec_table *t)
+static void spec_glass(const struct gp_build *build, struct gp_buffer *out)
 {
-	const struct gp_design *d = t->p->design;
-	char text[160];
-	spec_heading(t, "Glass");
-	spec_line(t, "Part number", "%s", d->part);
-	spec_line(t, "Revision", "%s", d->revision);
-	spec_line(t, "Title", "%s", d->title);
+	const struct gp_design *d = build->design;
+	const struct gp_rules *r = &d->rules;
+	char text[160], a[32], b[32];
+	gp_buffer_printf(out, "Glass\n");
+	spec_pair(out, "part number", "%s", d->part);
+	spec_pair(out, "revision", "%s", d->revision);
+	spec_pair(out, "title", "%s", d->title);
 	size_text(text, sizeof(text), d->front.box);
-	spec_line(t, "Front plate", "%s", text);
+	spec_pair(out, "front plate", "%s", text);
 	size_text(text, sizeof(text), d->back.box);
-	spec_line(t, "Back plate", "%s", text);
+	spec_pair(out, "back plate", "%s", text);
 	size_text(text, sizeof(text), d->viewing);
-	spec_line(t, "Viewing area", "%s", text);
-	spec_line(t, "Segment electrodes on", "%s plate",
+	spec_pair(out, "viewing area", "%s", text);
+	spec_pair(out, "segment electrodes on", "%s plate",
 		  d->segment_plate == GP_PLATE_FRONT ? "front" : "back");
+	spec_pair(out, "nets", "%d commons, %d segments, %zu pixels",
+		  build->art.common_count, build->art.segment_count,
+		  build->art.pixel_count);
+	proof_mm(a, sizeof(a), r->min_line);
+	proof_mm(b, sizeof(b), r->min_space);
+	spec_pair(out, "ITO line, space", "%s mm, %s mm", a, b);
+	proof_mm(a, sizeof(a), r->registration);
+	proof_mm(b, sizeof(b), r->edge_clearance);
+	spec_pair(out, "registration", "\xc2\xb1%s mm", a);
+	spec_pair(out, "edge clearance", "%s mm", b);
+	gp_buffer_puts(out, "\n");
 }
 
-static void spec_drive(struct spec_table *t)
+/* Without a drive section: what the multiplex arithmetic says for the
+ * design's commons. */
+static void spec_multiplex(const struct gp_build *build,
+			   struct gp_buffer *out)
 {
-	const struct gp_artwork *art = t->p->art;
-	long n = art->common_count;
-	spec_heading(t, "Multiplex drive");
-	spec_line(t, "Commons, segments", "%d, %d", art->common_count,
-		  art->segment_count);
-	spec_line(t, "Pixels", "%zu", art->pixel_count);
+	long n = build->art.common_count;
+	gp_buffer_printf(out, "Multiplex (no 'drive' or 'optics' section in "
+			      "the description)\n");
 	if (n < 1)
 		return;
 	if (n == 1) {
-		spec_line(t, "Duty", "static (1 common)");
+		spec_pair(out, "duty", "static (1 common)");
 		return;
 	}
 	long a = gp_drive_best_whole_bias(n);
-	spec_line(t, "Duty", "1/%ld", n);
-	spec_line(t, "Bias (best whole)", "1/%ld, selection ratio %.3f", a,
+	spec_pair(out, "commons N", "%ld (duty 1/%ld)", n, n);
+	spec_pair(out, "best whole-number bias", "1/%ld (ratio %.3f)", a,
 		  gp_drive_ratio(n, (double)a));
-	spec_line(t, "Alt-Pleshko limit", "ratio %.3f at bias 1/%.2f",
+	spec_pair(out, "Alt-Pleshko maximum", "%.3f at bias 1/%.3f",
 		  gp_drive_ratio_max(n), gp_drive_best_bias(n));
 }
 
-static void spec_rules(struct spec_table *t)
+static void spec_text(const struct gp_build *build, struct gp_buffer *out)
 {
-	const struct gp_rules *r = &t->p->design->rules;
-	char a[32], b[32], c[32], d[32];
-	proof_mm(a, sizeof(a), r->min_line);
-	proof_mm(b, sizeof(b), r->min_space);
-	proof_mm(c, sizeof(c), r->registration);
-	proof_mm(d, sizeof(d), r->edge_clearance);
-	spec_heading(t, "Design rules");
-	spec_line(t, "ITO line, space", "%s mm, %s mm", a, b);
-	spec_line(t, "Registration", "\xc2\xb1%s mm", c);
-	spec_line(t, "Edge clearance", "%s mm", d);
+	const struct gp_design *d = build->design;
+	spec_glass(build, out);
+	if (!d->drive.has_drive && !d->drive.has_optics) {
+		spec_multiplex(build, out);
+		return;
+	}
+	/* the build has reported any problem already: keep these quiet */
+	struct gp_diag quiet;
+	gp_diag_init(&quiet);
+	struct gp_drive_report report;
+	memset(&report, 0, sizeof(report));
+	if (gp_drive_resolve(d, &report, &quiet))
+		gp_drive_format(&report, out);
+	else
+		gp_buffer_printf(out, "Drive: not computed, the drive or "
+				      "optics section has errors.\n");
+	gp_diag_finish(&quiet);
 }
 
-void proof_sheet_spec(struct proof *p)
+static size_t utf8_length(const char *s, size_t bytes)
 {
-	proof_begin_sheet(p, "Drive and ordering spec");
-	double x0, y0, x1, y1;
-	proof_area(p, &x0, &y0, &x1, &y1);
-	struct spec_table t = { p, x0, y0 + TABLE_TOP, 55 };
-	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	spec_glass(&t);
-	spec_drive(&t);
-	spec_rules(&t);
-	proof_end_sheet(p);
+	size_t n = 0;
+	for (size_t i = 0; i < bytes; i++)
+		n += ((unsigned char)s[i] & 0xc0) != 0x80;
+	return n;
+}
+
+/* Bytes of s that hold at most chars characters. */
+static size_t utf8_prefix(const char *s, size_t bytes, size_t chars)
+{
+	size_t i = 0, n = 0;
+	while (i < bytes) {
+		if (((unsigned char)s[i] & 0xc0) != 0x80 && n++ == chars)
+			break;
+		i++;
+	}
+	return i;
+}
+
+/* Appends line to out in lines of at most chars characters, breaking at
+ * spaces; continuations are indented to the value column. */
+static void wrap_line(struct gp_buffer *out, const char *line, size_t bytes,
+		      size_t chars)
+{
+	bool first = true;
+	size_t indent = bytes > 2 && line[0] == ' ' ? SPEC_INDENT : 2;
+	while (first || bytes) {
+		size_t room = first ? chars : chars - indent;
+		size_t take = bytes;
+		if (utf8_length(line, bytes) > room) {
+			take = utf8_prefix(line, bytes, room);
+			size_t space = take;
+			while (space > 0 && line[space] != ' ')
+				space--;
+			if (space > 0)
+				take = space;
+		}
+		gp_buffer_printf(out, "%*s%.*s\n", first ? 0 : (int)indent, "",
+				 (int)take, line);
+		line += take;
+		bytes -= take;
+		while (bytes && *line == ' ')
+			line++, bytes--;
+		first = false;
+	}
+}
+
+struct spec_layout {
+	int columns, lines;       /* per sheet */
+	size_t chars;             /* per line */
+};
+
+static void spec_layout(const struct gp_proof_plan *plan,
+			struct spec_layout *l)
+{
+	double w = plan->paper_w - 2 * PROOF_MARGIN - 8;
+	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
+		   TABLE_TOP;
+	double column = SPEC_COLUMN * SPEC_CHAR;
+	l->columns = (int)((w + SPEC_GAP) / (column + SPEC_GAP));
+	if (l->columns < 1) {
+		l->columns = 1;
+		l->chars = (size_t)(w / SPEC_CHAR);
+	} else {
+		l->chars = SPEC_COLUMN;
+	}
+	l->lines = (int)(h / SPEC_LINE);
+	if (l->lines < 1)
+		l->lines = 1;
+}
+
+/* The spec as wrapped lines; returns their count. */
+static size_t spec_lines(const struct gp_build *build, size_t chars,
+			 struct gp_buffer *out)
+{
+	struct gp_buffer text;
+	gp_buffer_init(&text);
+	spec_text(build, &text);
+	size_t count = 0;
+	const char *s = text.data ? text.data : "";
+	while (*s) {
+		const char *end = strchr(s, '\n');
+		size_t bytes = end ? (size_t)(end - s) : strlen(s);
+		wrap_line(out, s, bytes, chars);
+		s += bytes + (end != NULL);
+	}
+	gp_buffer_finish(&text);
+	for (const char *c = out->data; c && *c; c++)
+		count += *c == '\n';
+	return count;
+}
+
+int proof_spec_sheet_count(const struct gp_build *build,
+			   const struct gp_proof_plan *plan)
+{
+	struct spec_layout l;
+	spec_layout(plan, &l);
+	struct gp_buffer lines;
+	gp_buffer_init(&lines);
+	size_t n = spec_lines(build, l.chars, &lines);
+	gp_buffer_finish(&lines);
+	size_t per = (size_t)l.columns * (size_t)l.lines;
+	return n ? (int)((n + per - 1) / per) : 1;
+}
+
+void proof_sheets_spec(struct proof *p)
+{
+	struct spec_layout l;
+	spec_layout(&p->plan, &l);
+	struct gp_buffer lines;
+	gp_buffer_init(&lines);
+	spec_lines(p->build, l.chars, &lines);
+	const char *s = lines.data ? lines.data : "";
+	for (int sheet = 0; sheet < p->plan.spec_sheets; sheet++) {
+		char title[64];
+		if (p->plan.spec_sheets > 1)
+			snprintf(title, sizeof(title),
+				 "Drive and ordering spec (%d of %d)",
+				 sheet + 1, p->plan.spec_sheets);
+		else
+			snprintf(title, sizeof(title),
+				 "Drive and ordering spec");
+		proof_begin_sheet(p, title);
+		double x0, y0, x1, y1;
+		proof_area(p, &x0, &y0, &x1, &y1);
+		cairo_set_source_rgb(p->cr, 0, 0, 0);
+		proof_font_mono(p, SPEC_SIZE);
+		for (int c = 0; c < l.columns; c++) {
+			double x = x0 + c * (l.chars * SPEC_CHAR + SPEC_GAP);
+			for (int r = 0; r < l.lines && *s; r++) {
+				const char *end = strchr(s, '\n');
+				char line[512];
+				size_t n = end ? (size_t)(end - s) : strlen(s);
+				snprintf(line, sizeof(line), "%.*s", (int)n, s);
+				proof_text(p, x, y0 + TABLE_TOP + r * SPEC_LINE,
+					   ALIGN_LEFT, line);
+				s += n + (end != NULL);
+			}
+		}
+		proof_end_sheet(p);
+	}
+	gp_buffer_finish(&lines);
 }
 
 /* --- check results ---------------------------------------------------------------- */
@@ -318,10 +543,8 @@ void proof_sheets_findings(struct proof *p)
 	proof_begin_sheet(p, "Check results");
 	double x0, y0, x1, y1;
 	proof_area(p, &x0, &y0, &x1, &y1);
-	proof_fill_layer(p, &p->view, GP_LAYER_FRONT_ITO, ~0u,
-			 proof_front_colour, 0.2);
-	proof_fill_layer(p, &p->view, GP_LAYER_BACK_ITO, ~0u,
-			 proof_back_colour, 0.2);
+	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.2);
+	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.2);
 	proof_plate_outlines(p, &p->view, true, true);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
 	proof_font(p, 3.0, true);

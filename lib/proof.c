@@ -204,7 +204,9 @@ void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
 	plan->pin_sheets = proof_pin_sheet_count(build, plan);
 	plan->sheet_pins = sheet;
 	sheet += plan->pin_sheets;
-	plan->sheet_spec = sheet++;
+	plan->spec_sheets = proof_spec_sheet_count(build, plan);
+	plan->sheet_spec = sheet;
+	sheet += plan->spec_sheets;
 	plan->sheet_lit = sheet;
 	sheet += 2;
 	plan->sheet_count = sheet - 1;
@@ -229,15 +231,16 @@ void proof_set_colour(struct proof *p, struct rgb c, double alpha)
  * font faces in caches of its own beyond any one document, so they must
  * outlive every surface.  Found through fontconfig by our font module
  * (cairo 1.16's own fontconfig lookup for toy fonts leaks patterns). */
-static const char *const font_names[2][2] = {
+static const char *const font_names[3][2] = {
 	{ "Liberation Sans", "DejaVu Sans" },
 	{ "Liberation Sans:bold", "DejaVu Sans:bold" },
+	{ "Liberation Mono", "DejaVu Sans Mono" },
 };
 
 static struct {
 	pthread_once_t once;
 	FT_Library library;
-	cairo_font_face_t *faces[2];
+	cairo_font_face_t *faces[3];
 	bool ok;
 } fonts = { .once = PTHREAD_ONCE_INIT };
 
@@ -246,13 +249,13 @@ static void done_face(void *face)
 	FT_Done_Face(face);
 }
 
-static cairo_font_face_t *open_face(int bold)
+static cairo_font_face_t *open_face(int kind)
 {
 	static const cairo_user_data_key_t key;
 	for (int i = 0; i < 2; i++) {
 		struct gp_diag diag;
 		gp_diag_init(&diag);
-		struct gp_font *font = gp_font_open(font_names[bold][i], NULL,
+		struct gp_font *font = gp_font_open(font_names[kind][i], NULL,
 						    NULL, &diag);
 		gp_diag_finish(&diag);
 		FT_Face face = NULL;
@@ -280,7 +283,8 @@ static void open_fonts(void)
 		return;
 	fonts.faces[0] = open_face(0);
 	fonts.faces[1] = open_face(1);
-	fonts.ok = fonts.faces[0] && fonts.faces[1];
+	fonts.faces[2] = open_face(2);
+	fonts.ok = fonts.faces[0] && fonts.faces[1] && fonts.faces[2];
 }
 
 static bool have_fonts(void)
@@ -292,6 +296,12 @@ static bool have_fonts(void)
 void proof_font(struct proof *p, double size, bool bold)
 {
 	cairo_set_font_face(p->cr, fonts.faces[bold]);
+	cairo_set_font_size(p->cr, size);
+}
+
+void proof_font_mono(struct proof *p, double size)
+{
+	cairo_set_font_face(p->cr, fonts.faces[2]);
 	cairo_set_font_size(p->cr, size);
 }
 
@@ -367,8 +377,14 @@ static void title_cell(struct proof *p, double x, double y, double w,
 
 static void glass_thickness(const struct proof *p, char *buffer, size_t size)
 {
-	(void)p;
-	snprintf(buffer, size, "not given");
+	const struct gp_drive_spec *d = &p->design->drive;
+	char mm[32];
+	if (!d->has_thickness) {
+		snprintf(buffer, size, "not given");
+		return;
+	}
+	proof_mm(mm, sizeof(mm), d->glass_thickness);
+	snprintf(buffer, size, "%s mm", mm);
 }
 
 /* As written in the description, else the build's date (from
@@ -502,7 +518,7 @@ static void draw_sheets(struct proof *p)
 	proof_sheets_details(p);
 	proof_sheets_findings(p);
 	proof_sheets_pins(p);
-	proof_sheet_spec(p);
+	proof_sheets_spec(p);
 	proof_sheet_lit(p, false);
 	proof_sheet_lit(p, true);
 }
@@ -510,6 +526,8 @@ static void draw_sheets(struct proof *p)
 static void proof_finish(struct proof *p)
 {
 	proof_cells_destroy(p);
+	proof_layers_destroy(p);
+	proof_pins_destroy(p);
 	free(p->use);
 	free(p->pin_order);
 }
@@ -524,7 +542,8 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	p.art = &build->art;
 	p.sheet = 1;
 	gp_proof_plan(build, &p.plan);
-	p.view = (struct proof_view){ p.plan.ox, p.plan.oy, p.plan.scale };
+	p.view = (struct proof_view){ .ox = p.plan.ox, .oy = p.plan.oy,
+				      .s = p.plan.scale };
 
 	if (!have_fonts())
 		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
@@ -537,7 +556,8 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	cairo_pdf_surface_restrict_to_version(surface, CAIRO_PDF_VERSION_1_5);
 	set_metadata(surface, build);
 	p.cr = cairo_create(surface);
-	if (!proof_net_use_create(&p) || !proof_cells_create(&p)) {
+	if (!proof_net_use_create(&p) || !proof_cells_create(&p) ||
+	    !proof_pins_create(&p)) {
 		gp_diag_error(diag, NULL, "proof.pdf: out of memory");
 		goto cleanup;
 	}

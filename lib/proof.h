@@ -33,6 +33,7 @@ struct gp_proof_plan {
 	int sheet_overview, sheet_findings, sheet_pins, sheet_spec;
 	int sheet_lit, sheet_count;
 	int sheet_details, detail_sheets, pin_sheets, finding_sheets;
+	int spec_sheets;
 };
 
 /* The 100 mm ruler: length and the tick spacing. */

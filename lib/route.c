@@ -441,7 +441,7 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index)
 		enum gp_plate plate = r->build->art.nets[i].plate;
 		n->transfer = plate != l->plate;
 		n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-		int order[8];
+		int order[8] = { 0 };
 		for (int k = 0; k < n->cand_count; k++)
 			order[k] = k;
 		for (int k = 1; k < n->cand_count; k++)
@@ -688,7 +688,9 @@ struct item {
 	int64_t track;            /* track coordinate (x for sides, y for top) */
 	int64_t top_track;        /* y of the track above the seal */
 	int64_t arrive;           /* x where it enters the fan-out */
-	int64_t ytop, ybot;
+	int64_t ytop, ybot;      /* diagonal fan-out */
+	bool orth;               /* fan-out with a horizontal run */
+	int64_t level_y, chamfer;
 };
 
 static int compare_items(const void *a, const void *b)
@@ -813,6 +815,30 @@ static bool check_exit_spacing(struct ledge_ctx *c)
 	return true;
 }
 
+/* Pad boxes of pins first.. first + count - 1 from the ledge's pin 1:
+ * the span is the datum, pad k sits at pin1 + k * pitch directly. */
+static void place_pads(struct route *r, const struct gp_ledge *l,
+		       size_t first, size_t count)
+{
+	struct gp_box plate = plate_box(r->design, l->plate);
+	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
+	int64_t edge = box_edge(plate, l->side);
+	int sign = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_LEFT ? 1 : -1;
+	int64_t near = edge + sign * l->edge_clearance;
+	int64_t far = near + sign * l->pad_length;
+	for (size_t k = 0; k < count; k++) {
+		int64_t along = l->pin1 + l->direction * (int64_t)k * l->pitch;
+		int64_t w0 = l->pad_width / 2, w1 = l->pad_width - w0;
+		struct gp_pin *p = &r->build->pins[first + k];
+		p->box = across ? gp_box_make(along - w0, min64(near, far),
+					      along + w1, max64(near, far))
+				: gp_box_make(min64(near, far), along - w0,
+					      max64(near, far), along + w1);
+		p->centre = across ? (struct gp_point){ along, (near + far) / 2 }
+				   : (struct gp_point){ (near + far) / 2, along };
+	}
+}
+
 /* Pads of the ledge in the real frame, numbered; with a pin map the nets
  * are already on them. */
 static bool make_pads(struct route *r, struct gp_ledge *l, int index,
@@ -825,19 +851,21 @@ static bool make_pads(struct route *r, struct gp_ledge *l, int index,
 	int64_t hi = across ? plate.x1 : plate.y1;
 	int64_t clear = d->rules.edge_clearance;
 	int64_t span = (int64_t)(count - 1) * l->pitch;
-	char a[32], b[32], c[32], e[32], f[32];
+	char a[32], b[32], c[32], e[32], f[32], g[32];
 	if ((int64_t)count * l->pitch > hi - lo - 2 * clear + l->pitch - l->pad_width)
 		return gp_diag_error(
 			r->diag, &l->where,
 			"ledge '%s' is too short: %zu pads need %zu x (%s + "
 			"%s) = %s mm along the %s of the %s plate, but only "
-			"%s mm is available between %s %s and %s mm",
+			"%s mm is available (%s mm between the edge "
+			"clearances and the %s mm gap the last pad does not "
+			"need)",
 			l->name, count, count, mm(a, l->pad_width),
 			mm(b, l->pitch - l->pad_width),
 			mm(c, (int64_t)count * l->pitch), gp_side_name(l->side),
 			l->plate == GP_PLATE_FRONT ? "front" : "back",
 			mm(e, hi - lo - 2 * clear + l->pitch - l->pad_width),
-			across ? "x" : "y", mm(f, lo + clear), mm(a, hi - clear));
+			mm(f, hi - lo - 2 * clear), mm(g, l->pitch - l->pad_width));
 	if (!l->pin1_given)
 		l->pin1 = (lo + hi) / 2 - l->direction * (span / 2);
 	int64_t first = l->pin1, last = l->pin1 + l->direction * span;
@@ -868,26 +896,12 @@ static bool make_pads(struct route *r, struct gp_ledge *l, int index,
 			"'edge_clearance'",
 			l->name, mm(a, far), mm(b, other_edge));
 	for (size_t k = 0; k < count; k++) {
-		/* the span is the datum: pad k from pin 1 directly */
-		int64_t along = l->pin1 + l->direction * (int64_t)k * l->pitch;
-		int64_t w0 = l->pad_width / 2, w1 = l->pad_width - w0;
-		struct gp_box box = across
-			? gp_box_make(along - w0, min64(near, far), along + w1,
-				      max64(near, far))
-			: gp_box_make(min64(near, far), along - w0,
-				      max64(near, far), along + w1);
 		struct gp_pin *p = &r->build->pins[r->build->pin_count++];
 		p->number = first_pin + (int)k;
 		p->ledge = index;
-		p->box = box;
-		p->centre = (struct gp_point){ (box.x0 + box.x1) / 2,
-					       (box.y0 + box.y1) / 2 };
-		if (across)
-			p->centre.x = along;
-		else
-			p->centre.y = along;
 		p->net = GP_NET_NONE;
 	}
+	place_pads(r, l, r->build->pin_count - count, count);
 	return true;
 }
 
@@ -965,55 +979,136 @@ static bool top_tracks(struct ledge_ctx *c, size_t from, size_t to,
 		mm(d, need), mm(e, have > 0 ? have : 0));
 }
 
-/* 45-degree fan-out from the arrivals to the pads (see DEVELOPERS.md):
- * leads moving the same way start their diagonals in a staircase so that
- * parallel diagonals keep lead width plus space between them. */
-static bool fan_out(struct ledge_ctx *c, int64_t y_gather, int64_t y_pad)
+/* The fan-out from the arrivals to the pads works on runs: maximal
+ * stretches of neighbours that move the same way.  Leads of different runs
+ * never share an x (a lead moving right lies in [arrive, pad], the next
+ * one moving left in [pad', arrive'] with pad' >= pad + w + s), so each run
+ * takes whichever form fits. */
+static int direction(const struct item *it)
+{
+	return (it->pad > it->arrive) - (it->pad < it->arrive);
+}
+
+/* 45-degree form: leads moving the same way start their diagonals in a
+ * staircase so that parallel diagonals keep lead width plus space between
+ * them (their centre lines x + y = const then differ by at least
+ * sqrt(2) (w + s)).  False when some lead would reach below y_pad. */
+static bool fan_diagonal(struct ledge_ctx *c, size_t from, size_t to,
+			 int64_t y_gather, int64_t y_pad)
 {
 	struct route *r = c->r;
-	size_t n = c->count;
 	struct item *it = c->items;
-	for (size_t i = 0; i < n; i++)
-		it[i].ytop = y_gather;
-	for (size_t i = n; i-- > 1;) {
+	for (size_t i = from; i < to; i++)
+		it[i].ytop = y_gather, it[i].orth = false;
+	for (size_t i = to; i-- > from + 1;) {
 		struct item *a = &it[i - 1], *b = &it[i];
-		if (!(a->pad > a->arrive && b->pad > b->arrive))
-			continue;
 		int64_t g = (a->width + b->width) / 2 + r->space;
 		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
-		a->ytop = min64(y_gather, b->ytop + (b->arrive - a->arrive) - need);
+		if (direction(a) > 0)
+			a->ytop = min64(y_gather, b->ytop + (b->arrive - a->arrive) - need);
 	}
-	for (size_t i = 1; i < n; i++) {
+	for (size_t i = from + 1; i < to; i++) {
 		struct item *a = &it[i - 1], *b = &it[i];
-		if (!(a->pad < a->arrive && b->pad < b->arrive))
-			continue;
 		int64_t g = (a->width + b->width) / 2 + r->space;
 		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
-		b->ytop = min64(y_gather, a->ytop + (b->arrive - a->arrive) - need);
+		if (direction(b) < 0)
+			b->ytop = min64(y_gather, a->ytop + (b->arrive - a->arrive) - need);
 	}
-	size_t worst = 0;
-	int64_t lowest = INT64_MAX;
-	for (size_t i = 0; i < n; i++) {
+	bool fits = true;
+	for (size_t i = from; i < to; i++) {
 		int64_t shift = it[i].pad - it[i].arrive;
 		it[i].ybot = it[i].ytop - (shift < 0 ? -shift : shift);
-		int64_t low = it[i].ybot - it[i].width;
-		if (low < lowest)
-			lowest = low, worst = i;
+		fits &= it[i].ybot - it[i].width >= y_pad;
 	}
-	if (n == 0 || lowest >= y_pad)
+	return fits;
+}
+
+/* Form with horizontal runs, for shifts too long to make at 45 degrees:
+ * each lead goes down, along its level, and down to its pad, with its
+ * corners cut at 45 degrees.  Of two neighbours whose runs overlap, the
+ * one ahead takes the higher level, so no run crosses a neighbour's drop.
+ * Levels are (widest lead + space) apart; corner cuts are at most half
+ * that, so cut corners of neighbours stay more than sqrt(2) (w + s) apart
+ * along their diagonals. */
+static bool fan_levels(struct ledge_ctx *c, size_t from, size_t to,
+		       int64_t y_gather, int64_t y_pad)
+{
+	struct route *r = c->r;
+	struct item *it = c->items;
+	int64_t maxw = 0;
+	for (size_t i = 0; i < c->count; i++)
+		maxw = max64(maxw, it[i].width);
+	int64_t step = maxw + r->space, cut = step / 2;
+	int dir = direction(&it[from]);
+	long *level = calloc(to - from, sizeof(*level));
+	if (!level)
+		return gp_diag_error(r->diag, NULL, "out of memory");
+	if (dir > 0) {
+		for (size_t i = to; i-- > from + 1;)
+			if (it[i - 1].pad + step > it[i].arrive)
+				level[i - 1 - from] = level[i - from] + 1;
+	} else {
+		for (size_t i = from + 1; i < to; i++)
+			if (it[i].pad - step < it[i - 1].arrive)
+				level[i - from] = level[i - 1 - from] + 1;
+	}
+	long most = 0;
+	size_t deepest = from;
+	for (size_t i = from; i < to; i++) {
+		int64_t shift = it[i].pad - it[i].arrive;
+		int64_t mag = shift < 0 ? -shift : shift;
+		if (level[i - from] > most)
+			most = level[i - from], deepest = i;
+		it[i].orth = true;
+		it[i].level_y = y_gather - cut - level[i - from] * step;
+		it[i].chamfer = min64(cut, mag / 2);
+	}
+	free(level);
+	/* room: levels from y_gather - cut down, the lowest still a corner
+	 * cut and a lead width above the pads */
+	int64_t need = (most + 1) * step;
+	int64_t have = y_gather - y_pad - 2 * cut - maxw + step;
+	if (need <= have)
 		return true;
-	char a[32], b[32], d[32];
-	int64_t shift = it[worst].pad - it[worst].arrive;
+	/* the chain of leads stacked with the deepest */
+	size_t first = deepest, last = deepest;
+	while (dir > 0 && last + 1 < to &&
+	       it[last].pad + step > it[last + 1].arrive)
+		last++;
+	while (dir < 0 && first > from &&
+	       it[first].pad - step < it[first - 1].arrive)
+		first--;
+	char a[32], b[32], d[32], e[32];
 	return gp_diag_error(
 		r->diag, &c->l->where,
-		"ledge '%s': the leads need %s mm between the seal and the "
-		"pads to fan out to the pad pitch but there is %s mm; %s "
-		"moves %s mm sideways on its way; make the ledge deeper, "
-		"move the seal or bring the pad pitch closer to the "
-		"electrode pitch",
-		c->l->name, mm(a, y_gather - lowest),
-		mm(b, y_gather - y_pad), net_name(r, it[worst].net),
-		mm(d, shift < 0 ? -shift : shift));
+		"ledge '%s': to fan out to the pads, %ld leads (%s to %s) must "
+		"run sideways one above the other between the seal and the "
+		"pads; they need %ld x (%s + %s) = %s mm but only %s mm is "
+		"free there; make the ledge deeper, move the seal or bring "
+		"the pad pitch closer to the electrode pitch",
+		c->l->name, most + 1, net_name(r, it[first].net),
+		net_name(r, it[last].net), most + 1, mm(a, maxw),
+		mm(b, r->space), mm(d, need), mm(e, have > 0 ? have : 0));
+}
+
+static bool fan_out(struct ledge_ctx *c, int64_t y_gather, int64_t y_pad)
+{
+	struct item *it = c->items;
+	for (size_t from = 0; from < c->count;) {
+		size_t to = from + 1;
+		int dir = direction(&it[from]);
+		while (dir != 0 && to < c->count && direction(&it[to]) == dir)
+			to++;
+		if (dir == 0) {
+			it[from].orth = false;
+			it[from].ytop = it[from].ybot = y_gather;
+		} else if (!fan_diagonal(c, from, to, y_gather, y_pad) &&
+			   !fan_levels(c, from, to, y_gather, y_pad)) {
+			return false;
+		}
+		from = to;
+	}
+	return true;
 }
 
 struct pathbuf {
@@ -1076,8 +1171,17 @@ static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
 			else
 				push(&b, it->track, it->pos);
 		}
-		push(&b, it->arrive, it->ytop);
-		push(&b, it->pad, it->ybot);
+		if (it->orth) {
+			int64_t k = it->chamfer;
+			int s = sgn(it->pad - it->arrive);
+			push(&b, it->arrive, it->level_y + k);
+			push(&b, it->arrive + s * k, it->level_y);
+			push(&b, it->pad - s * k, it->level_y);
+			push(&b, it->pad, it->level_y - k);
+		} else {
+			push(&b, it->arrive, it->ytop);
+			push(&b, it->pad, it->ybot);
+		}
 		push(&b, it->pad, y_pad_centre);
 		for (size_t k = 0; k < b.n; k++)
 			b.p[k] = from_canon(c->l->side, b.p[k]);
@@ -1166,6 +1270,48 @@ static bool check_planar(struct ledge_ctx *c)
 	return true;
 }
 
+/* With no pin 1 given, the pad row goes where it makes the leads that
+ * leave the seal towards the ledge move sideways least: under the middle
+ * of (arrival - k * pitch), k counted along the row, kept on the ledge.
+ * (Leads coming round the seal arrive bunched in tracks; they take the
+ * form with horizontal runs whatever their shift.) */
+static void centre_row(struct ledge_ctx *c, size_t first)
+{
+	struct route *r = c->r;
+	struct gp_ledge *l = c->l;
+	size_t n = c->count;
+	if (n == 0)
+		return;
+	int64_t lo = INT64_MAX, hi = INT64_MIN;
+	bool any = false;
+	for (size_t k = 0; k < n; k++)
+		any |= c->items[k].side == GP_SIDE_BOTTOM;
+	for (size_t k = 0; k < n; k++) {
+		if (any && c->items[k].side != GP_SIDE_BOTTOM)
+			continue;
+		int64_t v = c->items[k].arrive - (int64_t)k * l->pitch;
+		lo = min64(lo, v);
+		hi = max64(hi, v);
+	}
+	int64_t q0 = lo + (hi - lo) / 2;   /* canonical x of the lowest pad */
+	/* canonical x runs with real x (bottom), -x (top), -y (left), y */
+	int sgnc = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_RIGHT ? 1 : -1;
+	int64_t span = (int64_t)(n - 1) * l->pitch;
+	int64_t low_end = sgnc > 0 ? q0 : -(q0 + span);   /* real, lowest pad */
+	struct gp_box plate = plate_box(r->design, l->plate);
+	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
+	int64_t clear = r->design->rules.edge_clearance;
+	int64_t min_c = (across ? plate.x0 : plate.y0) + clear + l->pad_width / 2;
+	int64_t max_c = (across ? plate.x1 : plate.y1) - clear -
+			(l->pad_width - l->pad_width / 2) - span;
+	if (low_end > max_c)
+		low_end = max_c;
+	if (low_end < min_c)
+		low_end = min_c;
+	l->pin1 = l->direction > 0 ? low_end : low_end + span;
+	place_pads(r, l, first, n);
+}
+
 static bool route_ledge(struct route *r, int index)
 {
 	struct ledge_ctx c = {
@@ -1179,6 +1325,32 @@ static bool route_ledge(struct route *r, int index)
 	bool ok = make_items(&c) && check_exit_spacing(&c);
 	if (!ok)
 		goto out;
+	/* groups: [0, nl) go round the left, [nr, count) round the right */
+	size_t nl = 0, nt = 0, nr = c.count, nt2 = c.count;
+	while (nl < c.count && c.items[nl].group <= 1)
+		nl++;
+	while (nt < c.count && c.items[nt].group == 0)
+		nt++;
+	while (nr > 0 && c.items[nr - 1].group >= 3)
+		nr--;
+	while (nt2 > 0 && c.items[nt2 - 1].group == 4)
+		nt2--;
+	ok = side_tracks(&c, 0, nl, true) && side_tracks(&c, nr, c.count, false) &&
+	     top_tracks(&c, 0, nt, true) && top_tracks(&c, nt2, c.count, false);
+	if (!ok)
+		goto out;
+	int64_t bottom_ext = 0, maxw = 0;
+	for (size_t i = 0; i < c.count; i++) {
+		struct item *it = &c.items[i];
+		it->arrive = it->side == GP_SIDE_BOTTOM ? it->pos : it->track;
+		maxw = max64(maxw, it->width);
+		if (it->side == GP_SIDE_BOTTOM)
+			bottom_ext = max64(bottom_ext, r->nets[it->net].ext);
+	}
+	for (size_t i = 0; i < c.count; i++)
+		c.items[i].arrive = c.items[i].side == GP_SIDE_BOTTOM
+					    ? c.items[i].pos
+					    : c.items[i].track;
 	/* pads: by map, or in walking order */
 	if (c.l->map) {
 		for (size_t i = 0; i < c.count; i++)
@@ -1189,6 +1361,8 @@ static bool route_ledge(struct route *r, int index)
 			goto out;
 	} else {
 		size_t first = r->pin_first[index];
+		if (!c.l->pin1_given)
+			centre_row(&c, first);
 		int64_t *xs = malloc((c.count ? c.count : 1) * sizeof(*xs));
 		size_t *idx = malloc((c.count ? c.count : 1) * sizeof(*idx));
 		if (!xs || !idx) {
@@ -1216,28 +1390,6 @@ static bool route_ledge(struct route *r, int index)
 		}
 		free(xs);
 		free(idx);
-	}
-	/* groups: [0, nl) go round the left, [nr, count) round the right */
-	size_t nl = 0, nt = 0, nr = c.count, nt2 = c.count;
-	while (nl < c.count && c.items[nl].group <= 1)
-		nl++;
-	while (nt < c.count && c.items[nt].group == 0)
-		nt++;
-	while (nr > 0 && c.items[nr - 1].group >= 3)
-		nr--;
-	while (nt2 > 0 && c.items[nt2 - 1].group == 4)
-		nt2--;
-	ok = side_tracks(&c, 0, nl, true) && side_tracks(&c, nr, c.count, false) &&
-	     top_tracks(&c, 0, nt, true) && top_tracks(&c, nt2, c.count, false);
-	if (!ok)
-		goto out;
-	int64_t bottom_ext = 0, maxw = 0;
-	for (size_t i = 0; i < c.count; i++) {
-		struct item *it = &c.items[i];
-		it->arrive = it->side == GP_SIDE_BOTTOM ? it->pos : it->track;
-		maxw = max64(maxw, it->width);
-		if (it->side == GP_SIDE_BOTTOM)
-			bottom_ext = max64(bottom_ext, r->nets[it->net].ext);
 	}
 	int64_t y_gather = c.out.y0 - bottom_ext - r->space - maxw;
 	int64_t y_pad = c.plate.y0 + c.l->edge_clearance + c.l->pad_length;
@@ -1454,7 +1606,9 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
 		ok = resolve_ledge_plate(&r, (struct gp_ledge *)&g->ledges[i]) &&
 		     check_connection(&r, &g->ledges[i]);
-	if (!ok || g->ledge_count == 0)
+	if (!ok)
+		goto out;
+	if (g->ledge_count == 0)
 		goto seal;
 	ok = check_transfer_room(&r) && assign_nets(&r) && collect_cands(&r);
 	if (!ok)
@@ -1494,6 +1648,22 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	}
 	if (!ok)
 		goto out;
+	for (size_t i = 0; i < g->ledge_count; i++) {
+		const struct gp_ledge *l = &g->ledges[i];
+		size_t n = 0, used = 0;
+		for (size_t k = 0; k < build->pin_count; k++) {
+			n += build->pins[k].ledge == (int)i;
+			used += build->pins[k].ledge == (int)i &&
+				build->pins[k].net >= 0;
+		}
+		char pitch[32];
+		gp_buffer_printf(&build->notes,
+				 "ledge %s: %zu pads (%zu used) at %s mm on the "
+				 "%s of the %s plate\n",
+				 l->name, n, used, mm(pitch, l->pitch),
+				 gp_side_name(l->side),
+				 l->plate == GP_PLATE_FRONT ? "front" : "back");
+	}
 seal:
 	ok = gp_seal_layout(build, &r.s_in, &r.s_out, geos, diag);
 out:

@@ -242,6 +242,39 @@ static void test_planted_registration(void **state)
 	assert_int_not_equal(x->detail, 4);
 }
 
+/* A text icon lights in several parts: the pixel's shape holds the
+ * first, 'more' the others; all of them are intended, none parasitic. */
+static void test_icon_in_parts(void **state)
+{
+	struct fixture *f = *state;
+	int com = gp_artwork_add_net(&f->art, GP_NET_COMMON, GP_PLATE_BACK);
+	int seg = gp_artwork_add_net(&f->art, GP_NET_SEGMENT, GP_PLATE_FRONT);
+	struct gp_box a = gp_box_make(5 * MM, 0, 6 * MM, MM);
+	struct gp_box b = gp_box_make(6500 * UM, 0, 7500 * UM, MM);
+	add_box(f, GP_LAYER_FRONT_ITO, GP_ROLE_ELECTRODE, seg, a.x0, a.y0,
+		a.x1, a.y1);
+	add_box(f, GP_LAYER_FRONT_ITO, GP_ROLE_ELECTRODE, seg, b.x0, b.y0,
+		b.x1, b.y1);
+	add_box(f, GP_LAYER_BACK_ITO, GP_ROLE_PATCH, com, a.x0 - 100 * UM,
+		-100 * UM, b.x1 + 100 * UM, MM + 100 * UM);
+	struct gp_pixel *px = gp_artwork_add_pixel(&f->art, com, seg,
+						   gp_box_union(a, b));
+	assert_non_null(px);
+	assert_true(gp_polygon_set_box(&px->shape, a));
+	struct gp_polygon second;
+	gp_polygon_init(&second);
+	assert_true(gp_polygon_set_box(&second, b));
+	assert_true(gp_polyset_take(&px->more, &second));
+	run(f);
+	assert_int_equal(f->report.count, 0);
+	assert_true(fabs(f->report.nets[seg].capacitance -
+			 gp_check_capacitance(2.0, 6e-6, 7)) < 1e-24);
+	/* without its second part the pixel would not explain the overlap */
+	gp_polyset_finish(&f->art.pixels[f->art.pixel_count - 1].more);
+	run(f);
+	expect_one(f, GP_CHECK_PARASITIC, com, seg, 7.0, 0.5, 1.0, 1e-9);
+}
+
 /* The registration numbers two ways: GEOS intersection areas and the
  * exact rectangle arithmetic, for every dot and the icon. */
 static void test_registration_two_ways(void **state)
@@ -426,6 +459,7 @@ int main(void)
 		T(test_icon_margin_enough),
 		T(test_planted_registration),
 		T(test_registration_two_ways),
+		T(test_icon_in_parts),
 		cmocka_unit_test(test_electrical_hand_values),
 		T(test_lead_resistance_and_rc),
 		T(test_resistance_spread),

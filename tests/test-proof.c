@@ -10,6 +10,7 @@
 #include "build.h"
 #include "model.h"
 #include "proof.h"
+#include "route.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -199,6 +200,94 @@ static bool contains(const char *data, size_t size, const char *word)
 		if (memcmp(data + i, word, n) == 0)
 			return true;
 	return false;
+}
+
+static void load_file(struct fixture *f, const char *file, const char *name)
+{
+	FILE *in = fopen(file, "rb");
+	assert_non_null(in);
+	static char text[65536];
+	size_t n = fread(text, 1, sizeof(text) - 1, in);
+	fclose(in);
+	text[n] = '\0';
+	load(f, text, name);
+}
+
+/* Whitespace-separated words of a pins.csv row (six fields: pin, ledge,
+ * x, y, net, role) appear in this order on one line of the text. */
+static bool row_in_text(const char *text, const char *row)
+{
+	char fields[6][64];
+	const char *s = row;
+	for (int i = 0; i < 6; i++) {
+		size_t n = strcspn(s, ",");
+		if (n >= sizeof(fields[i]) || !s[n])
+			return false;
+		snprintf(fields[i], sizeof(fields[i]), "%.*s", (int)n, s);
+		s += n + 1;
+	}
+	for (const char *line = text; line && *line;) {
+		const char *end = strchr(line, '\n');
+		size_t length = end ? (size_t)(end - line) : strlen(line);
+		char copy[1024];
+		snprintf(copy, sizeof(copy), "%.*s", (int)length, line);
+		char *saveptr = NULL, *word = strtok_r(copy, " ", &saveptr);
+		int k = 0;
+		while (word && k < 6) {
+			if (strcmp(word, fields[k]) == 0)
+				k++;
+			else if (k)
+				break;
+			word = strtok_r(NULL, " ", &saveptr);
+		}
+		if (k == 6)
+			return true;
+		line = end ? end + 1 : NULL;
+	}
+	return false;
+}
+
+/* The routed sample: every row of pins.csv is in the pin table, the pad
+ * pitch and span are dimensioned, and the glass thickness comes from
+ * the optics section. */
+static void test_routed_sample(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	load_file(&f, "../samples/panel-2x16.yaml", "routed");
+	assert_true(f.build->pin_count > 0);
+	write_proof(&f, &out);
+	struct gp_proof_plan plan;
+	gp_proof_plan(f.build, &plan);
+	char *text = run("pdftotext -layout -f %d -l %d '%s' -",
+			 plan.sheet_pins, plan.sheet_pins + plan.pin_sheets - 1,
+			 f.path);
+	struct gp_buffer csv;
+	gp_buffer_init(&csv);
+	assert_true(gp_pins_csv(f.build, &csv));
+	size_t rows = 0;
+	for (const char *line = strchr(csv.data, '\n') + 1; *line;
+	     line = strchr(line, '\n') + 1) {
+		if (!row_in_text(text, line))
+			fail_msg("pins.csv row not in the pin table: %.40s",
+				 line);
+		rows++;
+	}
+	assert_int_equal(rows, f.build->pin_count);
+	gp_buffer_finish(&csv);
+	free(text);
+
+	text = run("pdftotext -layout -f 1 -l 1 '%s' -", f.path);
+	assert_non_null(strstr(text, "GPX-216"));
+	/* 16 cells at 3.15: 15 x 3.15 = 47.25 from the first to the last */
+	assert_non_null(strstr(text, "47.25 \xc2\xb1" "0.02"));
+	assert_non_null(strstr(text, "pad pitch (0.65)"));
+	/* 96 pads at 0.65: 95 x 0.65 = 61.75 */
+	assert_non_null(strstr(text, "pads 1-96: 61.75 \xc2\xb1" "0.02"));
+	assert_non_null(strstr(text, "0.7 mm"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
 }
 
 /* Two runs give the same bytes; no date unless SOURCE_DATE_EPOCH (which
@@ -410,6 +499,7 @@ int main(void)
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_pages),
 		cmocka_unit_test(test_text),
+		cmocka_unit_test(test_routed_sample),
 		cmocka_unit_test(test_deterministic),
 		cmocka_unit_test(test_scale),
 		cmocka_unit_test(test_paper),

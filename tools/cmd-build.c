@@ -84,7 +84,11 @@ static int run(const struct tool_options *options, struct gp_diag *diag)
 	if (build && (!options->only ||
 		      gp_build_select(build, options->only, diag)) &&
 	    gp_build_write(build, options->output, diag)) {
-		status = EXIT_OK;
+		/* the artwork is written either way; findings that block
+		 * manufacture (see report.txt) make the status 1 */
+		status = gp_build_check_status(build, options->strict)
+				 ? EXIT_FINDINGS
+				 : EXIT_OK;
 		if (options->depfile && !write_depfile(options, build))
 			status = tool_usage_error("%s: cannot write the "
 						  "dependency file",

@@ -11,6 +11,7 @@ struct command {
 
 static const struct command commands[] = {
 	{ "build", cmd_build, "write the artwork set for a description" },
+	{ "check", cmd_check, "run the design-rule and electrical checks" },
 	{ "diff", cmd_diff, "compare two revisions of a glass" },
 	{ "drive", cmd_drive, "print the drive voltages and ordering spec" },
 };

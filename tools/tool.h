@@ -47,6 +47,7 @@ struct gp_design *tool_load(const struct tool_options *options,
 			    struct gp_diag *diag);
 
 int cmd_build(int argc, char **argv);
+int cmd_check(int argc, char **argv);
 int cmd_diff(int argc, char **argv);
 int cmd_drive(int argc, char **argv);
 

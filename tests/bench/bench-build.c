@@ -1,5 +1,7 @@
 /* Benchmark: a generated dot-matrix glass of 320 x 240 dots (times a
- * scale factor), built end to end: load, layout, write.  Prints wall time,
+ * scale factor), built end to end: load, layout, routing (segments to a
+ * ledge below the front plate, commons to a ledge right of the back
+ * plate: 560 nets at scale 1), write.  Prints wall time,
  * time per pixel and peak memory.  usage: bench-build [SCALE] (0.25, 1, 4) */
 #include "glassplot.h"
 
@@ -24,8 +26,8 @@ static char *describe(double scale, long *pixels)
 	long cells = lround(64 * sqrt(scale)), lines = lround(30 * sqrt(scale));
 	*pixels = cells * lines * 40;
 	double width = cells * 3.2 + 20, height = lines * 5.6 + 20;
-	char *text = malloc(2048);
-	snprintf(text, 2048,
+	char *text = malloc(4096);
+	snprintf(text, 4096,
 		 "glass: {part: BENCH-%ld}\n"
 		 "front: {size: [%.1f, %.1f]}\n"
 		 "back: {size: [%.1f, %.1f], position: [0, 5]}\n"
@@ -38,8 +40,14 @@ static char *describe(double scale, long *pixels)
 		 "    dot_size: [0.5, 0.55]\n"
 		 "    dot_pitch: [0.55, 0.6]\n"
 		 "    cell_pitch: 3.2\n"
-		 "    line_pitch: 5.6\n",
-		 *pixels, width, height + 5, width, height, width - 10,
+		 "    line_pitch: 5.6\n"
+		 "ledges:\n"
+		 "  segments: {side: bottom, pitch: 0.64, pad_width: 0.32,"
+		 " pad_length: 2, edge_clearance: 0.3, carries: segments}\n"
+		 "  commons: {side: right, pitch: 0.7, pad_width: 0.35,"
+		 " pad_length: 2, edge_clearance: 0.3, carries: commons}\n"
+		 "seal: {width: 1, distance: 0.5}\n",
+		 *pixels, width, height + 5, width + 6, height, width - 10,
 		 height - 10, height, cells, lines);
 	return text;
 }
@@ -59,6 +67,8 @@ int main(int argc, char **argv)
 	struct gp_build *build = design ? gp_build_create(design, diag) : NULL;
 	bool ok = build && gp_build_write(build, folder, diag);
 	double seconds = now() - start;
+	if (getenv("BENCH_SUMMARY") && build)
+		fputs(gp_build_summary(build), stdout);
 	for (size_t i = 0; i < gp_diag_count(diag); i++)
 		fprintf(stderr, "%s\n", gp_diag_message(diag, i));
 	struct rusage usage;

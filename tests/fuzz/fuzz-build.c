@@ -24,7 +24,7 @@ static bool small_enough(const struct gp_design *design)
 	return dots <= FUZZ_MAX_DOTS;
 }
 
-static void render(const struct gp_build *build, struct gp_diag *diag)
+static void render(struct gp_build *build, struct gp_diag *diag)
 {
 	struct gp_output_set set;
 	gp_output_set_init(&set);

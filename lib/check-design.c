@@ -1,0 +1,169 @@
+/* The checks in the pipeline: the 'electrical' section of a description,
+ * the limits taken from a design, and the check stage of a build. */
+#include "check.h"
+
+#include "build.h"
+#include "model.h"
+#include "output.h"
+#include "route.h"
+
+#include <string.h>
+
+void gp_electrical_defaults(struct gp_electrical *e)
+{
+	struct gp_check_limits l;
+	gp_check_limits_default(&l);
+	memset(e, 0, sizeof(*e));
+	e->sheet_resistance[GP_PLATE_FRONT] = l.sheet_resistance[GP_PLATE_FRONT];
+	e->sheet_resistance[GP_PLATE_BACK] = l.sheet_resistance[GP_PLATE_BACK];
+	e->cell_gap = (int64_t)(l.cell_gap * 1e9 + 0.5);
+	e->permittivity = l.permittivity;
+}
+
+/* sheet_resistance: one number for both plates, or {front: .., back: ..} */
+static bool read_sheet(struct gp_reader *r, struct gp_electrical *e)
+{
+	const struct gp_node *node = gp_read_node(r, "sheet_resistance", false);
+	if (!node)
+		return true;
+	if (node->kind == GP_NODE_SCALAR) {
+		double v = 0;
+		if (!gp_node_double(node, r->diag, 0.1, 1e6, &v))
+			return r->ok = false;
+		e->sheet_resistance[0] = e->sheet_resistance[1] = v;
+		return true;
+	}
+	struct gp_reader sub;
+	gp_reader_begin(&sub, node, "'electrical.sheet_resistance'", r->diag);
+	gp_read_double(&sub, "front", false, 0.1, 1e6,
+		       &e->sheet_resistance[GP_PLATE_FRONT]);
+	gp_read_double(&sub, "back", false, 0.1, 1e6,
+		       &e->sheet_resistance[GP_PLATE_BACK]);
+	return r->ok &= gp_reader_end(&sub);
+}
+
+bool gp_electrical_read(struct gp_design *design, const struct gp_node *node,
+			struct gp_diag *diag)
+{
+	struct gp_electrical *e = &design->electrical;
+	struct gp_reader r;
+	gp_reader_begin(&r, node, "'electrical'", diag);
+	e->given = true;
+	e->where = node->where;
+	read_sheet(&r, e);
+	gp_read_size(&r, "cell_gap", false, &e->cell_gap);
+	gp_read_double(&r, "permittivity", false, 1, 100, &e->permittivity);
+	gp_read_double(&r, "max_lead_resistance", false, 0, 1e9,
+		       &e->max_lead_resistance);
+	gp_read_size(&r, "conductor_pitch", false, &e->conductor_pitch);
+	return gp_reader_end(&r);
+}
+
+void gp_check_limits_from_design(struct gp_check_limits *l,
+				 const struct gp_design *d)
+{
+	gp_check_limits_default(l);
+	l->min_line = d->rules.min_line;
+	l->min_space = d->rules.min_space;
+	l->registration = d->rules.registration;
+	l->edge_clearance = d->rules.edge_clearance;
+	l->chord_tolerance = d->rules.chord_tolerance;
+	l->registration_loss = d->rules.registration_loss;
+	l->plate[GP_PLATE_FRONT] = d->front.box;
+	l->plate[GP_PLATE_BACK] = d->back.box;
+	l->viewing = d->viewing;
+	if (d->routing && d->routing->seal.given) {
+		struct gp_box outer;
+		gp_seal_boxes(d, &l->seal_inside, &outer);
+	}
+	const struct gp_electrical *e = &d->electrical;
+	l->sheet_resistance[0] = e->sheet_resistance[0];
+	l->sheet_resistance[1] = e->sheet_resistance[1];
+	l->cell_gap = (double)e->cell_gap * 1e-9;
+	l->permittivity = e->permittivity;
+	l->max_resistance = e->max_lead_resistance;
+	l->conductor_pitch = e->conductor_pitch;
+	/* else the conductor pitch of the first elastomeric ledge */
+	for (size_t i = 0; d->routing && !l->conductor_pitch &&
+			   i < d->routing->ledge_count;
+	     i++)
+		if (d->routing->ledges[i].connection == GP_LEDGE_ELASTOMERIC)
+			l->conductor_pitch = d->routing->ledges[i].connector_pitch;
+	/* row time 1/(N f): N from the duty given, else the commons */
+	long commons = d->drive.duty.given ? (long)d->drive.duty.value
+					   : gp_design_common_count(d);
+	if (d->drive.frame_rate.given && d->drive.frame_rate.value > 0 &&
+	    commons > 0)
+		l->row_time = 1.0 / ((double)commons * d->drive.frame_rate.value);
+}
+
+bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
+{
+	struct gp_check_limits limits;
+	gp_check_limits_from_design(&limits, build->design);
+	struct gp_geos *geos = gp_geos_create(diag);
+	if (!geos)
+		return gp_diag_error(diag, NULL, "out of memory");
+	gp_check_report_finish(&build->checks);
+	bool ok = gp_check_run(geos, &build->art, &limits, &build->checks,
+			       diag);
+	gp_geos_destroy(geos);
+	build->checked = ok;
+	if (ok)
+		gp_buffer_printf(&build->notes,
+				 "checks: %zu errors, %zu warnings, %zu pixels "
+				 "checked\n",
+				 build->checks.errors, build->checks.warnings,
+				 build->checks.pixels_checked);
+	return ok;
+}
+
+GP_EXPORT size_t gp_build_check_errors(const struct gp_build *build)
+{
+	return build->checks.errors;
+}
+
+GP_EXPORT size_t gp_build_check_warnings(const struct gp_build *build)
+{
+	return build->checks.warnings;
+}
+
+GP_EXPORT const char *gp_build_check_text(struct gp_build *build)
+{
+	build->check_text.size = 0;
+	gp_check_format_text(&build->checks, &build->art, build->design->part,
+			     build->design->revision, &build->check_text);
+	return build->check_text.data ? build->check_text.data : "";
+}
+
+GP_EXPORT const char *gp_build_check_json(struct gp_build *build)
+{
+	build->check_json.size = 0;
+	gp_check_format_json(&build->checks, &build->art, build->design->part,
+			     build->design->revision, &build->check_json);
+	return build->check_json.data ? build->check_json.data : "{}\n";
+}
+
+GP_EXPORT int gp_build_check_status(const struct gp_build *build, bool strict)
+{
+	return gp_check_exit_status(&build->checks, strict);
+}
+
+bool gp_build_add_check_reports(struct gp_build *build,
+				struct gp_output_set *set, struct gp_diag *diag)
+{
+	if (!gp_build_wants(build, GP_OUTPUT_REPORT) || !build->checked)
+		return true;
+	struct gp_buffer *text = gp_output_add(set, "report.txt", diag);
+	if (!text)
+		return false;
+	gp_check_format_text(&build->checks, &build->art, build->design->part,
+			     build->design->revision, text);
+	struct gp_buffer *json = gp_output_add(set, "report.json", diag);
+	if (!json)
+		return false;
+	gp_check_format_json(&build->checks, &build->art, build->design->part,
+			     build->design->revision, json);
+	return (!text->failed && !json->failed) ||
+	       gp_diag_error(diag, NULL, "out of memory");
+}

@@ -1,0 +1,529 @@
+/* Segment digits into the artwork: nets, electrodes, lead-ins, intended
+ * pixels, back patches (lib/patch.h) and a spacing check of what the row
+ * puts on the segment plate.
+ *
+ * Nets: each row has its own commons COM (one when static, `duty` when
+ * multiplexed, shared by every unit of the row), made before its segment
+ * lines, which go unit by unit (sign unit first), line by line. */
+#include "build.h"
+#include "digits.h"
+#include "geos.h"
+#include "patch.h"
+
+#include "units.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+static bool oom(struct gp_diag *diag)
+{
+	return gp_diag_error(diag, NULL, "out of memory");
+}
+
+static bool make_nets(struct gp_build *build, const struct gp_digits *row,
+		      struct gp_digit_row *out, struct gp_diag *diag)
+{
+	struct gp_artwork *art = &build->art;
+	enum gp_plate seg_plate = build->design->segment_plate;
+	enum gp_plate com_plate = gp_common_plate(build->design);
+	out->first_common = (int)art->net_count;
+	out->common_count = row->duty;
+	for (int c = 0; c < row->duty; c++)
+		if (gp_artwork_add_net(art, GP_NET_COMMON, com_plate) < 0)
+			return oom(diag);
+	out->first_segment = (int)art->net_count;
+	for (size_t i = 0; i < out->unit_count; i++) {
+		struct gp_digit_unit *u = &out->units[i];
+		int first = (int)art->net_count;
+		u->first_line_net = first;
+		for (int l = 0; l < u->line_count; l++)
+			if (gp_artwork_add_net(art, GP_NET_SEGMENT, seg_plate) < 0)
+				return oom(diag);
+		for (int k = 0; k < u->part_count; k++) {
+			struct gp_digit_part *p = &u->parts[k];
+			p->common_net = out->first_common + p->common - 1;
+			p->segment_net = first + p->line - 1;
+		}
+		for (size_t k = 0; k < out->port_count; k++)
+			if (out->ports[k].unit == (int)i)
+				out->ports[k].net = first + out->ports[k].line - 1;
+	}
+	out->segment_count = (int)art->net_count - out->first_segment;
+	return true;
+}
+
+static bool add_copy(struct gp_artwork *art, enum gp_layer layer,
+		     enum gp_role role, int net, const struct gp_polygon *poly)
+{
+	struct gp_polygon copy;
+	if (!gp_polygon_copy(&copy, poly))
+		return false;
+	if (!gp_artwork_add_shape(art, layer, role, net, &copy)) {
+		gp_polygon_finish(&copy);
+		return false;
+	}
+	return true;
+}
+
+static bool add_front(struct gp_build *build, size_t row_index,
+		      struct gp_digit_row *out, struct gp_diag *diag)
+{
+	struct gp_artwork *art = &build->art;
+	enum gp_layer layer = gp_plate_ito_layer(build->design->segment_plate);
+	for (size_t i = 0; i < out->unit_count; i++) {
+		struct gp_digit_unit *u = &out->units[i];
+		for (int k = 0; k < u->part_count; k++) {
+			struct gp_digit_part *p = &u->parts[k];
+			for (int j = 0; j < p->poly_count; j++) {
+				if (!add_copy(art, layer, GP_ROLE_ELECTRODE,
+					      p->segment_net, &p->poly[j]))
+					return oom(diag);
+				struct gp_pixel *px = gp_artwork_add_pixel(
+					art, p->common_net, p->segment_net,
+					gp_polygon_bounds(&p->poly[j]));
+				if (!px || !gp_polygon_copy(&px->shape, &p->poly[j]))
+					return oom(diag);
+				px->owner_kind = GP_OWNER_DIGITS;
+				px->owner = (int)row_index;
+				px->a = u->number;
+				px->b = k;
+				px->c = j;
+			}
+		}
+		int first = u->first_line_net;
+		for (int t = 0; t < u->trace_count; t++) {
+			struct gp_digit_trace *tr = &u->traces[t];
+			if (!add_copy(art, layer, GP_ROLE_LEAD,
+				      first + tr->line - 1, &tr->poly))
+				return oom(diag);
+		}
+	}
+	return true;
+}
+
+/* Groups of front shapes, one per (unit, common); one for the whole row
+ * when static ("one common patch under all segments"). */
+struct groups {
+	struct gp_patch_group *items;
+	struct gp_polygon **shapes;   /* per group, copies owned here */
+	int *common_net;
+	size_t count;
+};
+
+static void groups_finish(struct groups *g)
+{
+	for (size_t i = 0; i < g->count; i++) {
+		for (size_t k = 0; g->shapes && k < g->items[i].front_count; k++)
+			gp_polygon_finish(&g->shapes[i][k]);
+		if (g->shapes)
+			free(g->shapes[i]);
+	}
+	free(g->items);
+	free(g->shapes);
+	free(g->common_net);
+}
+
+static bool group_add(struct groups *g, size_t gi, const struct gp_polygon *p)
+{
+	struct gp_patch_group *item = &g->items[gi];
+	struct gp_polygon *grown = realloc(g->shapes[gi],
+					   (item->front_count + 1) * sizeof(*grown));
+	if (!grown)
+		return false;
+	g->shapes[gi] = grown;
+	if (!gp_polygon_copy(&grown[item->front_count], p))
+		return false;
+	item->front_count++;
+	item->front = grown;
+	return true;
+}
+
+static bool make_groups(const struct gp_digits *row, struct gp_digit_row *out,
+			struct groups *g)
+{
+	memset(g, 0, sizeof(*g));
+	size_t n = row->duty == 1 ? 1 : out->unit_count * (size_t)row->duty;
+	g->items = calloc(n, sizeof(*g->items));
+	g->shapes = calloc(n, sizeof(*g->shapes));
+	g->common_net = calloc(n, sizeof(*g->common_net));
+	if (!g->items || !g->shapes || !g->common_net)
+		return false;
+	g->count = n;
+	for (size_t i = 0; i < n; i++) {
+		g->common_net[i] = out->first_common + (int)(i % (size_t)row->duty);
+		g->items[i].name = "digits";
+	}
+	for (size_t i = 0; i < out->unit_count; i++) {
+		struct gp_digit_unit *u = &out->units[i];
+		for (int k = 0; k < u->part_count; k++) {
+			struct gp_digit_part *p = &u->parts[k];
+			size_t gi = row->duty == 1 ? 0
+				    : i * (size_t)row->duty + (size_t)p->common - 1;
+			for (int j = 0; j < p->poly_count; j++)
+				if (!group_add(g, gi, &p->poly[j]))
+					return false;
+		}
+	}
+	return true;
+}
+
+/* --- static backing ------------------------------------------------------------ */
+
+static int64_t cross3(struct gp_point o, struct gp_point a, struct gp_point b)
+{
+	/* coordinates stay below 10 m (GP_LENGTH_MAX): products fit */
+	return (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x);
+}
+
+static int cmp_point(const void *a, const void *b)
+{
+	const struct gp_point *p = a, *q = b;
+	if (p->x != q->x)
+		return p->x < q->x ? -1 : 1;
+	return (p->y > q->y) - (p->y < q->y);
+}
+
+/* Convex hull of points (monotone chain), counter-clockwise. */
+static bool hull_of(struct gp_point *pts, size_t n, struct gp_polygon *out)
+{
+	gp_polygon_init(out);
+	if (n < 3)
+		return true;
+	qsort(pts, n, sizeof(*pts), cmp_point);
+	struct gp_point *h = malloc(2 * n * sizeof(*h));
+	if (!h)
+		return false;
+	size_t k = 0;
+	for (size_t i = 0; i < n; i++) {
+		while (k >= 2 && cross3(h[k - 2], h[k - 1], pts[i]) <= 0)
+			k--;
+		h[k++] = pts[i];
+	}
+	for (size_t i = n - 1, t = k + 1; i-- > 0;) {
+		while (k >= t && cross3(h[k - 2], h[k - 1], pts[i]) <= 0)
+			k--;
+		h[k++] = pts[i];
+	}
+	bool ok = true;
+	for (size_t i = 0; ok && i + 1 < k; i++)
+		ok = gp_ring_push(&out->outer, h[i].x, h[i].y);
+	free(h);
+	return ok;
+}
+
+/* Hull of a unit's figure and point: the region a static common fills. */
+static bool unit_hull(const struct gp_digit_unit *u, struct gp_polygon *out)
+{
+	size_t n = 0;
+	for (int k = 0; k < u->part_count; k++)
+		if (strcmp(u->parts[k].name, "colon") != 0)
+			for (int j = 0; j < u->parts[k].poly_count; j++)
+				n += u->parts[k].poly[j].outer.count;
+	struct gp_point *pts = malloc((n ? n : 1) * sizeof(*pts));
+	if (!pts)
+		return false;
+	n = 0;
+	for (int k = 0; k < u->part_count; k++) {
+		if (strcmp(u->parts[k].name, "colon") == 0)
+			continue;
+		for (int j = 0; j < u->parts[k].poly_count; j++) {
+			const struct gp_ring *r = &u->parts[k].poly[j].outer;
+			memcpy(pts + n, r->points, r->count * sizeof(*pts));
+			n += r->count;
+		}
+	}
+	bool ok = hull_of(pts, n, out);
+	free(pts);
+	return ok;
+}
+
+/* A static common also fills the counters and gaps of each digit, so that
+ * it is one electrode per digit rather than an island per segment: the
+ * hull of the digit grown by the margin, less everything within the
+ * clearance of a lead-in (outside the segments), added to the patch. */
+static bool static_fill(struct gp_geos *geos, const struct gp_digit_row *out,
+			const struct gp_patch_rules *pr, struct gp_polyset *patch)
+{
+	struct gp_polyset hulls, grown, traces, fronts, bare, zone, fill, all;
+	struct gp_polyset *sets[] = { &hulls, &grown, &traces, &fronts,
+				      &bare,  &zone,  &fill,   &all };
+	bool ok = false;
+	for (size_t i = 0; i < sizeof(sets) / sizeof(*sets); i++)
+		gp_polyset_init(sets[i]);
+	for (size_t i = 0; i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		struct gp_polygon h;
+		if (!unit_hull(u, &h) || !gp_polyset_take(&hulls, &h))
+			goto done;
+		for (int t = 0; t < u->trace_count; t++) {
+			struct gp_polygon c;
+			if (!gp_polygon_copy(&c, &u->traces[t].poly) ||
+			    !gp_polyset_take(&traces, &c))
+				goto done;
+		}
+		for (int k = 0; k < u->part_count; k++)
+			for (int j = 0; j < u->parts[k].poly_count; j++) {
+				struct gp_polygon c;
+				if (!gp_polygon_copy(&c, &u->parts[k].poly[j]) ||
+				    !gp_polyset_take(&fronts, &c))
+					goto done;
+			}
+	}
+	if (!gp_geos_dilate_box(geos, &hulls, pr->margin, pr->margin, &grown) ||
+	    !gp_geos_difference(geos, &traces, &fronts, &bare) ||
+	    !gp_geos_offset(geos, &bare, pr->clearance + pr->chord_tolerance,
+			    GP_JOIN_ROUND, pr->chord_tolerance, &zone) ||
+	    !gp_geos_difference(geos, &grown, &zone, &fill))
+		goto done;
+	for (size_t i = 0; i < patch->count; i++) {
+		struct gp_polygon c;
+		if (!gp_polygon_copy(&c, &patch->items[i]) ||
+		    !gp_polyset_take(&fill, &c))
+			goto done;
+	}
+	if (!gp_geos_union_set(geos, &fill, &all))
+		goto done;
+	gp_polyset_finish(patch);
+	*patch = all;
+	gp_polyset_init(&all);
+	ok = true;
+done:
+	for (size_t i = 0; i < sizeof(sets) / sizeof(*sets); i++)
+		gp_polyset_finish(sets[i]);
+	return ok;
+}
+
+static bool add_patches(struct gp_build *build, const struct gp_digits *row,
+			struct gp_digit_row *out, struct gp_geos *geos,
+			struct gp_diag *diag)
+{
+	const struct gp_rules *rules = &build->design->rules;
+	struct groups g;
+	struct gp_polygon *traces = NULL;
+	struct gp_polyset *patches = NULL;
+	size_t trace_count = 0;
+	bool ok = false;
+	if (!make_groups(row, out, &g))
+		goto done;
+	for (size_t i = 0; i < out->unit_count; i++)
+		trace_count += (size_t)out->units[i].trace_count;
+	traces = calloc(trace_count ? trace_count : 1, sizeof(*traces));
+	patches = calloc(g.count, sizeof(*patches));
+	if (!traces || !patches)
+		goto done;
+	size_t t = 0;
+	for (size_t i = 0; i < out->unit_count; i++)
+		for (int k = 0; k < out->units[i].trace_count; k++)
+			traces[t++] = out->units[i].traces[k].poly;
+	for (size_t i = 0; i < g.count; i++)
+		gp_polyset_init(&patches[i]);
+	/* A trace must stay clear of patches under any shift of up to the
+	 * registration in x and in y: that is a diagonal of r sqrt 2. */
+	struct gp_patch_rules pr = {
+		.margin = rules->registration,
+		.min_space = rules->min_space,
+		.clearance = (int64_t)ceil((double)rules->registration * sqrt(2.0)),
+		.chord_tolerance = rules->chord_tolerance,
+	};
+	if (!gp_patch_make(geos, g.items, g.count, traces, trace_count, &pr,
+			   patches, diag))
+		goto done;
+	if (row->duty == 1 && !static_fill(geos, out, &pr, &patches[0]))
+		goto done;
+	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
+	for (size_t i = 0; i < g.count; i++)
+		for (size_t k = 0; k < patches[i].count; k++)
+			if (!gp_artwork_add_shape(&build->art, layer,
+						  GP_ROLE_PATCH, g.common_net[i],
+						  &patches[i].items[k]))
+				goto done;
+	ok = true;
+done:
+	for (size_t i = 0; patches && i < g.count; i++)
+		gp_polyset_finish(&patches[i]);
+	free(patches);
+	free(traces); /* borrowed polygons: only the array is ours */
+	groups_finish(&g);
+	if (!ok && diag->errors == 0)
+		oom(diag);
+	return ok;
+}
+
+/* --- spacing on the segment plate ------------------------------------------- */
+
+struct front_item {
+	const struct gp_polygon *poly;
+	int net;
+	int unit;
+	int part;   /* -1 for a trace */
+	int trace;
+};
+
+static void describe(const struct gp_digit_row *out, const struct front_item *it,
+		     char *buffer, size_t size)
+{
+	const struct gp_digit_unit *u = &out->units[it->unit];
+	char label[32];
+	gp_digit_unit_label(u, label, sizeof(label));
+	if (it->part >= 0) {
+		snprintf(buffer, size, "'%s' of %s", u->parts[it->part].name,
+			 label);
+		return;
+	}
+	int from = u->traces[it->trace].part;
+	if (from >= 0)
+		snprintf(buffer, size, "the lead-in of '%s' of %s",
+			 u->parts[from].name, label);
+	else
+		snprintf(buffer, size, "the joining bar of line %d of %s",
+			 u->traces[it->trace].line, label);
+}
+
+static bool check_spacing(const struct gp_build *build,
+			  const struct gp_digits *row,
+			  const struct gp_digit_row *out, struct gp_geos *geos,
+			  struct gp_diag *diag)
+{
+	const struct gp_rules *rules = &build->design->rules;
+	size_t n = 0;
+	for (size_t i = 0; i < out->unit_count; i++) {
+		for (int k = 0; k < out->units[i].part_count; k++)
+			n += (size_t)out->units[i].parts[k].poly_count;
+		n += (size_t)out->units[i].trace_count;
+	}
+	struct front_item *items = calloc(n ? n : 1, sizeof(*items));
+	struct gp_box *boxes = calloc(n ? n : 1, sizeof(*boxes));
+	struct gp_geos_shape **shapes = calloc(n ? n : 1, sizeof(*shapes));
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0, made = 0, reported = 0;
+	bool ok = false;
+	if (!items || !boxes || !shapes)
+		goto done;
+	size_t c = 0;
+	for (size_t i = 0; i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		int first = u->first_line_net;
+		for (int k = 0; k < u->part_count; k++) {
+			const struct gp_digit_part *p = &u->parts[k];
+			for (int j = 0; j < p->poly_count; j++)
+				items[c++] = (struct front_item){
+					&p->poly[j], p->segment_net, (int)i, k, -1 };
+		}
+		for (int t = 0; t < u->trace_count; t++)
+			items[c++] = (struct front_item){
+				&u->traces[t].poly, first + u->traces[t].line - 1,
+				(int)i, -1, t };
+	}
+	for (; made < n; made++) {
+		boxes[made] = gp_polygon_bounds(items[made].poly);
+		shapes[made] = gp_geos_shape_from_polygon(geos, items[made].poly);
+		if (!shapes[made])
+			goto done;
+	}
+	if (!gp_geos_box_pairs(geos, boxes, n, rules->min_space, &pairs,
+			       &pair_count))
+		goto done;
+	for (size_t k = 0; k < pair_count; k++) {
+		const struct front_item *a = &items[pairs[k].a];
+		const struct front_item *b = &items[pairs[k].b];
+		double d;
+		if (a->net == b->net)
+			continue;
+		if (!gp_geos_shape_distance(geos, shapes[pairs[k].a],
+					    shapes[pairs[k].b], &d))
+			goto done;
+		/* the lead-ins are drawn 2 nm over width; allow that much */
+		if (d >= (double)rules->min_space - 2.5)
+			continue;
+		if (++reported > 20)
+			continue;
+		char da[96], db[96], dd[32], sp[32];
+		describe(out, a, da, sizeof(da));
+		describe(out, b, db, sizeof(db));
+		gp_format_mm_short(dd, sizeof(dd), (int64_t)floor(d));
+		gp_format_mm_short(sp, sizeof(sp), rules->min_space);
+		gp_diag_error(diag, &row->where,
+			      "digits '%s': %s comes %s mm from %s, closer than "
+			      "the minimum space %s mm; widen the gap or the "
+			      "pitch, or narrow the lines",
+			      row->name, da, dd, db, sp);
+	}
+	ok = reported == 0;
+done:
+	for (size_t i = 0; i < made; i++)
+		gp_geos_shape_destroy(geos, shapes[i]);
+	free(shapes);
+	free(boxes);
+	free(items);
+	free(pairs);
+	if (!ok && reported == 0 && diag->errors == 0)
+		oom(diag);
+	return ok;
+}
+
+static const char *figure_name(enum gp_figure f)
+{
+	return f == GP_FIGURE_7 ? "7" : f == GP_FIGURE_14 ? "14" : "16";
+}
+
+static void note_row(struct gp_build *build, const struct gp_digits *row,
+		     const struct gp_digit_row *out)
+{
+	char duty[16];
+	if (row->duty == 1)
+		snprintf(duty, sizeof(duty), "static");
+	else
+		snprintf(duty, sizeof(duty), "1/%d duty", row->duty);
+	gp_buffer_printf(&build->notes,
+			 "digits %s: %ld x %s-segment, %s, %d common%s, %d "
+			 "segment line%s\n",
+			 row->name, row->count, figure_name(row->figure.figure),
+			 duty, out->common_count,
+			 out->common_count == 1 ? "" : "s", out->segment_count,
+			 out->segment_count == 1 ? "" : "s");
+}
+
+bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag)
+{
+	const struct gp_design *design = build->design;
+	if (design->digit_count == 0)
+		return true;
+	build->digit_rows = calloc(design->digit_count,
+				   sizeof(*build->digit_rows));
+	struct gp_geos *geos = gp_geos_create(diag);
+	bool ok = build->digit_rows && geos;
+	if (!ok)
+		oom(diag);
+	struct gp_digit_rules dr = {
+		.line = design->rules.min_line,
+		.space = design->rules.min_space,
+		.registration = design->rules.registration,
+		.chord_tolerance = design->rules.chord_tolerance,
+	};
+	for (size_t i = 0; ok && i < design->digit_count; i++) {
+		const struct gp_digits *row = &design->digits[i];
+		struct gp_digit_row *out = &build->digit_rows[i];
+		ok = gp_digits_plan(row, &dr, out, diag) &&
+		     make_nets(build, row, out, diag) &&
+		     add_front(build, i, out, diag) &&
+		     check_spacing(build, row, out, geos, diag) &&
+		     add_patches(build, row, out, geos, diag);
+		if (ok) {
+			build->digit_row_count = i + 1;
+			note_row(build, row, out);
+		} else {
+			gp_digit_row_finish(out);
+		}
+	}
+	gp_geos_destroy(geos);
+	return ok;
+}
+
+void gp_digit_rows_free(struct gp_digit_row *rows, size_t count)
+{
+	for (size_t i = 0; rows && i < count; i++)
+		gp_digit_row_finish(&rows[i]);
+	free(rows);
+}

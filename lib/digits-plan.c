@@ -1,0 +1,993 @@
+/* Segment digits: the units of a row, their lead-ins toward the ledge and
+ * the (common, segment line) assignment.
+ *
+ * Lead-ins (the ledge is below the row, toward -y):
+ * - segments on the outside of the figure (e, f, b, c) leave sideways to
+ *   a lane beside the digit and run down it; lanes are parallel to the
+ *   digit's sides, the lowest lead-in on the innermost lane, so that no
+ *   two cross;
+ * - the middle bar leaves through the gap between the two uprights of one
+ *   side (g to the right; g1 left and g2 right);
+ * - the top bar rises and runs over the top to the outermost lane;
+ * - diagonals and the centre uprights leave through the corner gaps (two
+ *   side by side where two must: such corners need a gap of at least two
+ *   lines and three spaces);
+ * - the bottom bar, the point, the colon and the minus drop straight down.
+ * Every lead-in ends on one line below the unit; the lead-ins of one
+ * segment line are then joined by a bar there and one drop continues to
+ * the row's lower edge (a port for the routing).
+ *
+ * Assignment (documented scheme): the parts are taken in the order their
+ * lead-ins reach that line, left to right; runs of at most `duty` parts
+ * share a segment line (so each line's lead-ins are neighbours and join
+ * without crossing), and within a run the commons go from the top down.
+ * This uses ceil(parts / duty) segment lines per unit, the least possible. */
+#include "digits.h"
+
+#include "units.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+struct pt {
+	double x, y;
+};
+
+enum route_kind {
+	ROUTE_LEFT,  /* to a lane left of the unit */
+	ROUTE_RIGHT, /* to a lane right of the unit */
+	ROUTE_DOWN,  /* straight down at upright position u_down */
+};
+
+#define ROUTE_MAX_POINTS 8
+
+struct route {
+	int part, poly;
+	enum route_kind kind;
+	struct pt pts[ROUTE_MAX_POINTS]; /* relative to the unit origin */
+	int n;
+	double u_down;
+	int lane;
+};
+
+struct plan {
+	const struct gp_digits *row;
+	const struct gp_digit_rules *rules;
+	struct gp_figure_frame fr;
+	struct gp_digit_unit *unit;
+	double w, sp, pitch;      /* lead width, space, lane pitch */
+	double delta;             /* half the distance of two side by side */
+	struct route routes[GP_UNIT_MAX_TRACES];
+	int n;
+	bool overflow;
+	double left_edge;         /* leftmost upright u used by non-lane leads */
+	double right_edge;
+	double top;               /* highest point reached by corner leads */
+	double v_col;             /* where lead-ins end */
+	double v_end;             /* where drops end */
+};
+
+static struct pt P(const struct plan *p, double u, double v)
+{
+	return (struct pt){ u + v * p->fr.t, v };
+}
+
+static double upright(const struct plan *p, struct pt q)
+{
+	return q.x - q.y * p->fr.t;
+}
+
+/* --- units ------------------------------------------------------------------ */
+
+static struct gp_digit_part *add_part(struct gp_digit_unit *u,
+				      const char *name)
+{
+	struct gp_digit_part *part = &u->parts[u->part_count++];
+	memset(part, 0, sizeof(*part));
+	snprintf(part->name, sizeof(part->name), "%s", name);
+	part->common_net = part->segment_net = -1;
+	return part;
+}
+
+static void set_height(struct gp_digit_part *part)
+{
+	struct gp_box b = gp_polygon_bounds(&part->poly[0]);
+	for (int i = 1; i < part->poly_count; i++)
+		b = gp_box_union(b, gp_polygon_bounds(&part->poly[i]));
+	part->height = ((double)b.y0 + (double)b.y1) / 2;
+}
+
+static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
+		       struct gp_digit_unit *u, struct gp_diag *diag)
+{
+	struct gp_polygon seg[GP_FIGURE_MAX_SEGMENTS];
+	const struct gp_figure_spec *fs = &row->figure;
+	u->number = (int)i + 1;
+	u->origin = (struct gp_point){ row->origin.x + i * row->pitch,
+				       row->origin.y };
+	if (!gp_figure_build(fs, u->origin, seg, diag))
+		goto fail;
+	size_t n = gp_figure_segment_count(fs->figure);
+	for (size_t s = 0; s < n; s++) {
+		struct gp_digit_part *part =
+			add_part(u, gp_figure_segment_name(fs->figure, s));
+		part->poly[0] = seg[s];
+		gp_polygon_init(&seg[s]);
+		part->poly_count = 1;
+		set_height(part);
+	}
+	if (row->point_mask >> i & 1) {
+		struct gp_point c =
+			row->point_placed
+				? (struct gp_point){ u->origin.x + row->point_at.x,
+						     u->origin.y + row->point_at.y }
+				: gp_point_default_centre(fs, u->origin,
+							  row->point_shape,
+							  row->point_size,
+							  row->point_gap);
+		struct gp_digit_part *part = add_part(u, "dp");
+		part->poly_count = 1;
+		if (!gp_dot_build(row->point_shape, row->point_size, fs->slant,
+				  c, tol, &part->poly[0]))
+			return gp_diag_error(diag, NULL, "out of memory");
+		set_height(part);
+	}
+	if (row->colon_mask >> i & 1) {
+		struct gp_figure_frame fr;
+		gp_figure_frame(fs, &fr);
+		double mid = (fr.W + (double)row->pitch) / 2;
+		double v[2] = { (fr.S + fr.mlo) / 2, (fr.mtop + fr.H - fr.S) / 2 };
+		struct gp_digit_part *part = add_part(u, "colon");
+		part->poly_count = 2;
+		for (int k = 0; k < 2; k++) {
+			struct gp_point c = {
+				u->origin.x + llround(mid + v[k] * fr.t),
+				u->origin.y + llround(v[k]),
+			};
+			if (!gp_dot_build(row->colon_shape, row->colon_size,
+					  fs->slant, c, tol, &part->poly[k]))
+				return gp_diag_error(diag, NULL,
+						     "out of memory");
+		}
+		set_height(part);
+	}
+	return true;
+fail:
+	return false;
+}
+
+/* The sign unit, one pitch before digit 1: the minus is the middle bar and
+ * the "1" the two right uprights of a 7-segment figure of the same size. */
+static bool sign_unit(const struct gp_digits *row, struct gp_digit_unit *u,
+		      struct gp_diag *diag)
+{
+	struct gp_figure_spec fs = row->figure;
+	struct gp_polygon seg[7];
+	fs.figure = GP_FIGURE_7;
+	u->number = 0;
+	u->origin = (struct gp_point){ row->origin.x - row->pitch,
+				       row->origin.y };
+	if (!gp_figure_build(&fs, u->origin, seg, diag))
+		return false;
+	if (row->minus) {
+		struct gp_digit_part *part = add_part(u, "minus");
+		part->poly[0] = seg[6];
+		gp_polygon_init(&seg[6]);
+		part->poly_count = 1;
+		set_height(part);
+	}
+	if (row->one) {
+		struct gp_digit_part *part = add_part(u, "one");
+		part->poly[0] = seg[1];
+		part->poly[1] = seg[2];
+		gp_polygon_init(&seg[1]);
+		gp_polygon_init(&seg[2]);
+		part->poly_count = 2;
+		set_height(part);
+	}
+	for (int s = 0; s < 7; s++)
+		gp_polygon_finish(&seg[s]);
+	return true;
+}
+
+void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,
+			 size_t size)
+{
+	if (unit->number == 0)
+		snprintf(buffer, size, "the sign unit");
+	else
+		snprintf(buffer, size, "digit %d", unit->number);
+}
+
+static int part_index(const struct gp_digit_unit *u, const char *name)
+{
+	for (int i = 0; i < u->part_count; i++)
+		if (strcmp(u->parts[i].name, name) == 0)
+			return i;
+	return -1;
+}
+
+/* --- routes ---------------------------------------------------------------- */
+
+static struct route *add_route(struct plan *p, const char *name, int poly,
+			       enum route_kind kind)
+{
+	int part = part_index(p->unit, name);
+	if (part < 0)
+		return NULL;
+	if (p->n == GP_UNIT_MAX_TRACES) {
+		p->overflow = true;
+		return NULL;
+	}
+	struct route *r = &p->routes[p->n++];
+	memset(r, 0, sizeof(*r));
+	r->part = part;
+	r->poly = poly;
+	r->kind = kind;
+	return r;
+}
+
+static void push(struct route *r, struct pt q)
+{
+	if (r && r->n < ROUTE_MAX_POINTS)
+		r->pts[r->n++] = q;
+}
+
+/* A point of the part's polygon relative to the unit origin. */
+static struct pt rel(const struct plan *p, struct gp_point q)
+{
+	return (struct pt){ (double)(q.x - p->unit->origin.x),
+			    (double)(q.y - p->unit->origin.y) };
+}
+
+/* Middle of the polygon's highest (top) or lowest edge. */
+static struct pt edge_middle(const struct plan *p, const struct gp_polygon *poly,
+			     bool top)
+{
+	const struct gp_ring *r = &poly->outer;
+	size_t best = 0;
+	double best_y = top ? -INFINITY : INFINITY;
+	for (size_t i = 0; i < r->count; i++) {
+		struct gp_point a = r->points[i], b = r->points[(i + 1) % r->count];
+		double y = ((double)a.y + (double)b.y) / 2;
+		if (top ? y > best_y : y < best_y) {
+			best_y = y;
+			best = i;
+		}
+	}
+	struct pt a = rel(p, r->points[best]);
+	struct pt b = rel(p, r->points[(best + 1) % r->count]);
+	return (struct pt){ (a.x + b.x) / 2, (a.y + b.y) / 2 };
+}
+
+/* A point inside the polygon near its vertex closest to q. */
+static struct pt inside_near(const struct plan *p, const struct gp_polygon *poly,
+			     struct pt q)
+{
+	const struct gp_ring *r = &poly->outer;
+	struct pt c = { 0, 0 }, best = { 0, 0 };
+	double best_d = INFINITY;
+	for (size_t i = 0; i < r->count; i++) {
+		struct pt v = rel(p, r->points[i]);
+		c.x += v.x / (double)r->count;
+		c.y += v.y / (double)r->count;
+		double d = hypot(v.x - q.x, v.y - q.y);
+		if (d < best_d) {
+			best_d = d;
+			best = v;
+		}
+	}
+	return (struct pt){ best.x + 0.25 * (c.x - best.x),
+			    best.y + 0.25 * (c.y - best.y) };
+}
+
+struct line {
+	struct pt a;  /* a point on it */
+	struct pt d;  /* unit direction */
+};
+
+static struct line line_through(struct pt a, struct pt b)
+{
+	double dx = b.x - a.x, dy = b.y - a.y, len = hypot(dx, dy);
+	return (struct line){ a, { dx / len, dy / len } };
+}
+
+/* The line moved by off to the side of `toward`. */
+static struct line line_offset(struct line l, struct pt toward, double off)
+{
+	struct pt n = { -l.d.y, l.d.x };
+	if (n.x * (toward.x - l.a.x) + n.y * (toward.y - l.a.y) < 0)
+		n = (struct pt){ -n.x, -n.y };
+	l.a.x += n.x * off;
+	l.a.y += n.y * off;
+	return l;
+}
+
+static struct pt line_meet(struct line l, struct line m)
+{
+	double det = l.d.x * m.d.y - l.d.y * m.d.x;
+	double t = ((m.a.x - l.a.x) * m.d.y - (m.a.y - l.a.y) * m.d.x) / det;
+	return (struct pt){ l.a.x + t * l.d.x, l.a.y + t * l.d.y };
+}
+
+static struct pt foot(struct line l, struct pt q)
+{
+	double t = (q.x - l.a.x) * l.d.x + (q.y - l.a.y) * l.d.y;
+	return (struct pt){ l.a.x + t * l.d.x, l.a.y + t * l.d.y };
+}
+
+/* Where a lead along l leaves the unit sideways (left or right) or down. */
+static struct pt leave_side(const struct plan *p, struct line l, bool right)
+{
+	double u = right ? p->fr.W + (p->sp + p->w / 2) * p->fr.sec
+			 : -(p->sp + p->w / 2) * p->fr.sec;
+	struct line side = line_through(P(p, u, 0), P(p, u, p->fr.H));
+	return line_meet(l, side);
+}
+
+static struct pt leave_down(const struct plan *p, struct line l)
+{
+	struct line base = { { 0, -(p->sp + p->w) / 2 }, { 1, 0 } };
+	return line_meet(l, base);
+}
+
+static void side_stub(struct plan *p, const char *name, int poly, bool right,
+		      double u, double v)
+{
+	struct route *r = add_route(p, name, poly, right ? ROUTE_RIGHT : ROUTE_LEFT);
+	push(r, P(p, u, v));
+}
+
+static void note_down(struct plan *p, struct route *r)
+{
+	if (!r)
+		return;
+	p->left_edge = fmin(p->left_edge, r->u_down);
+	p->right_edge = fmax(p->right_edge, r->u_down);
+}
+
+/* Straight down from (u, v); noted so that lanes keep clear of it. */
+static void down(struct plan *p, const char *name, int poly, double u, double v)
+{
+	struct route *r = add_route(p, name, poly, ROUTE_DOWN);
+	push(r, P(p, u, v));
+	if (r)
+		r->u_down = u;
+	note_down(p, r);
+}
+
+/* Two (or one) lead-ins through a top corner: `outer` from the centre
+ * upright along the channel under the top bar, `inner` from the diagonal.
+ * right: the top-right corner. */
+static void top_corner(struct plan *p, const char *outer, const char *inner,
+		       bool right)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	int io = part_index(p->unit, outer ? outer : "");
+	int ii = part_index(p->unit, inner);
+	if (ii < 0)
+		return;
+	bool two = io >= 0;
+	double d = two ? p->delta : 0;
+	double vch = H - S - G / 2;
+	struct route *ro = two ? add_route(p, outer, 0, right ? ROUTE_RIGHT
+							       : ROUTE_LEFT)
+			       : NULL;
+	struct route *ri = add_route(p, inner, 0, right ? ROUTE_RIGHT : ROUTE_LEFT);
+	struct pt mo = two ? edge_middle(p, &p->unit->parts[io].poly[0], true)
+			   : (struct pt){ 0, 0 };
+	if (p->row->figure.ends == GP_ENDS_SQUARE) {
+		struct pt mi = edge_middle(p, &p->unit->parts[ii].poly[0], true);
+		push(ri, (struct pt){ mi.x, mi.y - p->w });
+		push(ri, (struct pt){ mi.x, vch - d });
+		if (ro) {
+			push(ro, (struct pt){ mo.x, mo.y - p->w });
+			push(ro, (struct pt){ mo.x, vch + d });
+		}
+		return;
+	}
+	struct pt outer_corner = P(p, right ? W : 0, H);
+	struct pt inner_corner = P(p, right ? W - sv : sv, H - S);
+	struct line g = line_through(inner_corner, outer_corner);
+	struct pt top_side = P(p, W / 2, H);   /* the top bar's side */
+	struct line lo = line_offset(g, top_side, d);
+	struct line li = line_offset(g, top_side, -d);
+	/* the diagonal: from near its end at the corner onto its line */
+	struct pt si = inside_near(p, &p->unit->parts[ii].poly[0], inner_corner);
+	push(ri, si);
+	push(ri, foot(li, si));
+	struct pt ti = leave_side(p, li, right);
+	push(ri, ti);
+	p->top = fmax(p->top, ti.y);
+	if (!ro)
+		return;
+	/* the centre upright: up into the channel, along it, out */
+	struct line ch = { { 0, vch }, { 1, 0 } };
+	push(ro, (struct pt){ mo.x, mo.y - p->w });
+	push(ro, (struct pt){ mo.x, vch });
+	push(ro, line_meet(ch, lo));
+	struct pt to = leave_side(p, lo, right);
+	push(ro, to);
+	p->top = fmax(p->top, to.y);
+}
+
+/* The same through a bottom corner; these leave downward. */
+static void bottom_corner(struct plan *p, const char *outer, const char *inner,
+			  bool right)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, S = f->S, G = f->G, sv = f->sv;
+	int io = part_index(p->unit, outer ? outer : "");
+	int ii = part_index(p->unit, inner);
+	if (ii < 0)
+		return;
+	bool two = io >= 0;
+	double d = two ? p->delta : 0;
+	double vch = S + G / 2;
+	struct pt mo = two ? edge_middle(p, &p->unit->parts[io].poly[0], false)
+			   : (struct pt){ 0, 0 };
+	if (p->row->figure.ends == GP_ENDS_SQUARE) {
+		enum route_kind k = right ? ROUTE_RIGHT : ROUTE_LEFT;
+		struct route *ri = add_route(p, inner, 0, k);
+		struct pt mi = edge_middle(p, &p->unit->parts[ii].poly[0], false);
+		push(ri, (struct pt){ mi.x, mi.y + p->w });
+		push(ri, (struct pt){ mi.x, vch + d });
+		if (two) {
+			struct route *ro = add_route(p, outer, 0, k);
+			push(ro, (struct pt){ mo.x, mo.y + p->w });
+			push(ro, (struct pt){ mo.x, vch - d });
+		}
+		return;
+	}
+	struct pt outer_corner = P(p, right ? W : 0, 0);
+	struct pt inner_corner = P(p, right ? W - sv : sv, S);
+	struct line g = line_through(inner_corner, outer_corner);
+	struct pt bottom_side = P(p, W / 2, 0);
+	struct line lo = line_offset(g, bottom_side, d);
+	struct line li = line_offset(g, bottom_side, -d);
+	struct route *ri = add_route(p, inner, 0, ROUTE_DOWN);
+	struct pt si = inside_near(p, &p->unit->parts[ii].poly[0], inner_corner);
+	push(ri, si);
+	push(ri, foot(li, si));
+	struct pt ti = leave_down(p, li);
+	push(ri, ti);
+	if (ri)
+		ri->u_down = upright(p, ti);
+	note_down(p, ri);
+	if (!two)
+		return;
+	struct route *ro = add_route(p, outer, 0, ROUTE_DOWN);
+	struct line ch = { { 0, vch }, { 1, 0 } };
+	push(ro, (struct pt){ mo.x, mo.y + p->w });
+	push(ro, (struct pt){ mo.x, vch });
+	push(ro, line_meet(ch, lo));
+	struct pt to = leave_down(p, lo);
+	push(ro, to);
+	if (ro)
+		ro->u_down = upright(p, to);
+	note_down(p, ro);
+}
+
+static void figure_routes(struct plan *p)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	double lower = (S + f->mlo) / 2, upper = (f->mtop + H - S) / 2;
+	double gin = G * f->sec + S / 2; /* into the middle bar from its end */
+	enum gp_figure fig = p->row->figure.figure;
+	side_stub(p, "e", 0, false, sv / 2, lower);
+	side_stub(p, "f", 0, false, sv / 2, upper);
+	side_stub(p, "c", 0, true, W - sv / 2, lower);
+	side_stub(p, "b", 0, true, W - sv / 2, upper);
+	side_stub(p, "g", 0, true, W - sv - gin, f->mc);
+	side_stub(p, "g1", 0, false, sv + gin, f->mc);
+	side_stub(p, "g2", 0, true, W - sv - gin, f->mc);
+	top_corner(p, "i", "h", false);
+	top_corner(p, NULL, "j", true);
+	bottom_corner(p, fig == GP_FIGURE_14 ? "l" : NULL, "k", false);
+	bottom_corner(p, NULL, "m", true);
+	if (fig == GP_FIGURE_16) {
+		down(p, "l", 0, f->cc, lower);
+	}
+	/* bottom bars straight down */
+	static const char *const bottoms[] = { "d", "d1", "d2" };
+	double at[3] = { W / 2, f->cc / 2, (f->cc + W) / 2 };
+	for (int i = 0; i < 3; i++) {
+		int k = part_index(p->unit, bottoms[i]);
+		if (k >= 0)
+			down(p, bottoms[i], 0, at[i], S / 2);
+	}
+}
+
+/* The top bars go over the top, above every corner lead-in. */
+static void over_the_top(struct plan *p)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double v = fmax(f->H + p->sp + p->w / 2, p->top + p->pitch);
+	static const char *const names[] = { "a", "a1", "a2" };
+	for (int i = 0; i < 3; i++) {
+		bool right = i == 2;
+		double u = right ? f->W - f->sv - f->S : f->sv + f->S;
+		struct route *r = add_route(p, names[i], 0,
+					    right ? ROUTE_RIGHT : ROUTE_LEFT);
+		push(r, P(p, u, f->H - f->S / 2));
+		push(r, P(p, u, v));
+	}
+}
+
+static struct pt centre_of(const struct plan *p, const struct gp_polygon *poly)
+{
+	struct gp_box b = gp_polygon_bounds(poly);
+	return rel(p, (struct gp_point){ b.x0 / 2 + b.x1 / 2, b.y0 / 2 + b.y1 / 2 });
+}
+
+/* Point, colon and sign parts. */
+static void extra_routes(struct plan *p)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	int k = part_index(p->unit, "dp");
+	if (k >= 0) {
+		struct pt c = centre_of(p, &p->unit->parts[k].poly[0]);
+		down(p, "dp", 0, upright(p, c), c.y);
+		struct gp_box b = gp_polygon_bounds(&p->unit->parts[k].poly[0]);
+		double r = (double)(b.x1 - b.x0) / 2;
+		p->right_edge = fmax(p->right_edge, upright(p, c) + r);
+	}
+	k = part_index(p->unit, "colon");
+	if (k >= 0) {
+		struct pt lo = centre_of(p, &p->unit->parts[k].poly[0]);
+		struct pt hi = centre_of(p, &p->unit->parts[k].poly[1]);
+		double r = (double)p->row->colon_size / 2;
+		/* beyond the lanes: not noted, the lanes stay inside it */
+		struct route *rl = add_route(p, "colon", 0, ROUTE_DOWN);
+		push(rl, lo);
+		if (rl)
+			rl->u_down = upright(p, lo);
+		double u = upright(p, hi) + (r + p->sp + p->w / 2) * f->sec;
+		struct route *rt = add_route(p, "colon", 1, ROUTE_DOWN);
+		push(rt, hi);
+		push(rt, P(p, u, hi.y));
+		if (rt)
+			rt->u_down = u;
+	}
+	if (part_index(p->unit, "minus") >= 0)
+		down(p, "minus", 0, f->W / 2, f->m);
+	side_stub(p, "one", 1, true, f->W - f->sv / 2, (f->S + f->mlo) / 2);
+	side_stub(p, "one", 0, true, f->W - f->sv / 2,
+		  (f->mtop + f->H - f->S) / 2);
+}
+
+/* --- lanes and the lower ends ------------------------------------------------ */
+
+static double last_y(const struct route *r)
+{
+	return r->n ? r->pts[r->n - 1].y : 0;
+}
+
+/* Lanes by the height at which their lead-ins leave: lowest innermost. */
+static void assign_lanes(struct plan *p, enum route_kind kind)
+{
+	int lane = 0;
+	for (;;) {
+		int best = -1;
+		for (int i = 0; i < p->n; i++) {
+			struct route *r = &p->routes[i];
+			if (r->kind != kind || r->lane)
+				continue;
+			if (best < 0 || last_y(r) < last_y(&p->routes[best]))
+				best = i;
+		}
+		if (best < 0)
+			return;
+		p->routes[best].lane = ++lane;
+	}
+}
+
+static double lane_u(const struct plan *p, enum route_kind kind, int lane)
+{
+	double off = (p->sp + p->w / 2 + (lane - 1) * p->pitch) * p->fr.sec;
+	if (kind == ROUTE_LEFT)
+		return fmin(0, p->left_edge - p->w / 2 * p->fr.sec) - off;
+	return fmax(p->fr.W, p->right_edge + p->w / 2 * p->fr.sec) + off;
+}
+
+static double lowest_v(const struct plan *p)
+{
+	double low = 0;
+	for (int i = 0; i < p->unit->part_count; i++) {
+		const struct gp_digit_part *part = &p->unit->parts[i];
+		for (int k = 0; k < part->poly_count; k++) {
+			struct gp_box b = gp_polygon_bounds(&part->poly[k]);
+			low = fmin(low, (double)(b.y0 - p->unit->origin.y));
+		}
+	}
+	for (int i = 0; i < p->n; i++)
+		for (int k = 0; k < p->routes[i].n; k++)
+			low = fmin(low, p->routes[i].pts[k].y - p->w / 2);
+	return low;
+}
+
+/* The lead-in of route r as a thick line ending at v_col. */
+static void finish_route(struct plan *p, struct route *r)
+{
+	if (r->kind == ROUTE_DOWN) {
+		push(r, P(p, r->u_down, p->v_col));
+		return;
+	}
+	double u = lane_u(p, r->kind, r->lane);
+	double v = last_y(r);
+	push(r, P(p, u, v));
+	push(r, P(p, u, p->v_col));
+}
+
+/* --- thick lines ------------------------------------------------------------ */
+
+/* The outline of a line of width w along pts (mitred corners, square ends
+ * at the end points), in the glass frame. */
+static bool thick_line(const struct pt *pts, int n, double w,
+		       struct gp_point origin, struct gp_polygon *out)
+{
+	struct pt left[ROUTE_MAX_POINTS + 2], right[ROUTE_MAX_POINTS + 2];
+	struct pt q[ROUTE_MAX_POINTS + 2];
+	int m = 0;
+	for (int i = 0; i < n; i++)
+		if (m == 0 || hypot(pts[i].x - q[m - 1].x, pts[i].y - q[m - 1].y) > 0.5)
+			q[m++] = pts[i];
+	gp_polygon_init(out);
+	if (m < 2)
+		return true;
+	double h = w / 2;
+	for (int i = 0; i < m; i++) {
+		struct pt n0 = { 0, 0 }, n1 = { 0, 0 };
+		if (i > 0) {
+			double dx = q[i].x - q[i - 1].x, dy = q[i].y - q[i - 1].y;
+			double l = hypot(dx, dy);
+			n0 = (struct pt){ -dy / l, dx / l };
+		}
+		if (i < m - 1) {
+			double dx = q[i + 1].x - q[i].x, dy = q[i + 1].y - q[i].y;
+			double l = hypot(dx, dy);
+			n1 = (struct pt){ -dy / l, dx / l };
+		}
+		if (i == 0)
+			n0 = n1;
+		if (i == m - 1)
+			n1 = n0;
+		double k = h / (1 + n0.x * n1.x + n0.y * n1.y);
+		struct pt mit = { (n0.x + n1.x) * k, (n0.y + n1.y) * k };
+		left[i] = (struct pt){ q[i].x + mit.x, q[i].y + mit.y };
+		right[i] = (struct pt){ q[i].x - mit.x, q[i].y - mit.y };
+	}
+	for (int i = 0; i < m; i++)
+		if (!gp_ring_push(&out->outer, origin.x + llround(right[i].x),
+				  origin.y + llround(right[i].y)))
+			return false;
+	for (int i = m - 1; i >= 0; i--)
+		if (!gp_ring_push(&out->outer, origin.x + llround(left[i].x),
+				  origin.y + llround(left[i].y)))
+			return false;
+	gp_ring_clean(&out->outer);
+	gp_polygon_normalize(out);
+	return true;
+}
+
+/* --- assignment --------------------------------------------------------------- */
+
+/* Parts in the order their lead-ins end, left to right. */
+static void order_parts(struct plan *p)
+{
+	int idx[GP_UNIT_MAX_TRACES];
+	for (int i = 0; i < p->n; i++)
+		idx[i] = i;
+	for (int i = 1; i < p->n; i++)
+		for (int k = i; k > 0; k--) {
+			struct route *a = &p->routes[idx[k - 1]];
+			struct route *b = &p->routes[idx[k]];
+			double ua = upright(p, a->pts[a->n - 1]);
+			double ub = upright(p, b->pts[b->n - 1]);
+			if (ua <= ub)
+				break;
+			int t = idx[k - 1];
+			idx[k - 1] = idx[k];
+			idx[k] = t;
+		}
+	struct gp_digit_unit *u = p->unit;
+	int count = 0;
+	for (int i = 0; i < p->n; i++) {
+		int part = p->routes[idx[i]].part;
+		bool seen = false;
+		for (int k = 0; k < count; k++)
+			seen |= u->order[k] == part;
+		if (!seen)
+			u->order[count++] = part;
+	}
+}
+
+static void documented(const struct gp_digits *row, struct gp_digit_unit *u)
+{
+	int duty = row->duty, n = u->part_count;
+	u->line_count = (n + duty - 1) / duty;
+	for (int run = 0; run < u->line_count; run++) {
+		int first = run * duty, last = first + duty;
+		if (last > n)
+			last = n;
+		/* commons from the top down within the run */
+		for (int c = 1; c <= last - first; c++) {
+			int best = -1;
+			for (int k = first; k < last; k++) {
+				struct gp_digit_part *part = &u->parts[u->order[k]];
+				if (part->common)
+					continue;
+				if (best < 0 || part->height >
+							u->parts[u->order[best]].height)
+					best = k;
+			}
+			u->parts[u->order[best]].common = c;
+			u->parts[u->order[best]].line = run + 1;
+		}
+	}
+}
+
+static const struct gp_digit_pair *find_pair(const struct gp_digits *row,
+					     const char *name)
+{
+	for (size_t i = 0; i < row->pair_count; i++)
+		if (strcmp(row->pairs[i].part, name) == 0)
+			return &row->pairs[i];
+	return NULL;
+}
+
+/* An explicit assignment: every part a pair, no pair twice, lines
+ * numbered from 1 without holes, each line's lead-ins neighbours. */
+static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
+			   struct gp_diag *diag)
+{
+	char label[32];
+	gp_digit_unit_label(u, label, sizeof(label));
+	const struct gp_where *w = &row->drive_where;
+	int most = 0;
+	for (int i = 0; i < u->part_count; i++) {
+		struct gp_digit_part *part = &u->parts[i];
+		const struct gp_digit_pair *pair = find_pair(row, part->name);
+		if (!pair)
+			return gp_diag_error(diag, w,
+					     "digits '%s': the assignment gives "
+					     "no (common, line) pair for '%s' "
+					     "of %s; expected one for every "
+					     "segment, point and colon",
+					     row->name, part->name, label);
+		part->common = pair->common;
+		part->line = pair->line;
+		most = part->line > most ? part->line : most;
+		for (int k = 0; k < i; k++)
+			if (u->parts[k].common == part->common &&
+			    u->parts[k].line == part->line)
+				return gp_diag_error(
+					diag, &pair->where,
+					"digits '%s': '%s' and '%s' are both "
+					"given common %d, line %d; each "
+					"segment needs a pair of its own",
+					row->name, u->parts[k].name, part->name,
+					part->common, part->line);
+	}
+	for (int line = 1; line <= most; line++) {
+		int first = -1, last = -1, count = 0;
+		for (int k = 0; k < u->part_count; k++)
+			if (u->parts[u->order[k]].line == line) {
+				if (first < 0)
+					first = k;
+				last = k;
+				count++;
+			}
+		if (count == 0)
+			return gp_diag_error(diag, w,
+					     "digits '%s': no segment of %s is "
+					     "on line %d, but line %d is used; "
+					     "number the lines from 1 without "
+					     "gaps",
+					     row->name, label, line, most);
+		if (last - first + 1 != count) {
+			const char *in = "";
+			for (int k = first; k <= last; k++)
+				if (u->parts[u->order[k]].line != line)
+					in = u->parts[u->order[k]].name;
+			return gp_diag_error(
+				diag, w,
+				"digits '%s': line %d of %s joins '%s' and "
+				"'%s', but the lead-in of '%s' (another line) "
+				"reaches the lower edge between them, so the "
+				"lines would have to cross; give line %d "
+				"segments whose lead-ins are neighbours (left "
+				"to right: %s)",
+				row->name, line, label,
+				u->parts[u->order[first]].name,
+				u->parts[u->order[last]].name, in, line,
+				"see the order in the README");
+		}
+	}
+	u->line_count = most;
+	return true;
+}
+
+/* --- bars, ports, traces ------------------------------------------------------- */
+
+static bool add_trace(struct gp_digit_unit *u, const struct pt *pts, int n,
+		      double w, int part, int line, double u_end)
+{
+	if (u->trace_count == GP_UNIT_MAX_TRACES)
+		return false;
+	struct gp_digit_trace *t = &u->traces[u->trace_count];
+	if (!thick_line(pts, n, w, u->origin, &t->poly))
+		return false;
+	t->part = part;
+	t->line = line;
+	t->u_end = u_end;
+	u->trace_count++;
+	return true;
+}
+
+static bool add_port(struct gp_digit_row *out, struct gp_point at, int64_t w,
+		     int unit, int line)
+{
+	struct gp_digit_port *ports =
+		realloc(out->ports, (out->port_count + 1) * sizeof(*ports));
+	if (!ports)
+		return false;
+	out->ports = ports;
+	ports[out->port_count++] = (struct gp_digit_port){ -1, unit, line, at, w };
+	return true;
+}
+
+/* Lead-ins as traces; for each line a bar joining its lead-ins and a drop
+ * from the middle one to the lower edge. */
+static bool make_traces(struct plan *p, struct gp_digit_row *out, size_t unit)
+{
+	struct gp_digit_unit *u = p->unit;
+	for (int i = 0; i < p->n; i++) {
+		struct route *r = &p->routes[i];
+		int line = u->parts[r->part].line;
+		if (!add_trace(u, r->pts, r->n, p->w, r->part, line,
+			       upright(p, r->pts[r->n - 1])))
+			return false;
+	}
+	for (int line = 1; line <= u->line_count; line++) {
+		double lo = INFINITY, hi = -INFINITY;
+		double ends[GP_UNIT_MAX_TRACES];
+		int n = 0;
+		for (int i = 0; i < p->n; i++) {
+			struct route *r = &p->routes[i];
+			if (u->parts[r->part].line != line)
+				continue;
+			double e = r->pts[r->n - 1].x;
+			ends[n++] = e;
+			lo = fmin(lo, e);
+			hi = fmax(hi, e);
+		}
+		if (n == 0)
+			continue;
+		/* the middle lead-in carries on down */
+		for (int i = 1; i < n; i++)
+			for (int k = i; k > 0 && ends[k - 1] > ends[k]; k--) {
+				double t = ends[k];
+				ends[k] = ends[k - 1];
+				ends[k - 1] = t;
+			}
+		double x = ends[(n - 1) / 2];
+		double dv = p->v_end - p->v_col;
+		struct pt drop[2] = { { x, p->v_col }, { x + dv * p->fr.t, p->v_end } };
+		if (!add_trace(u, drop, 2, p->w, -1, line, upright(p, drop[1])))
+			return false;
+		if (n > 1) {
+			struct pt bar[2] = { { lo - p->w / 2, p->v_col },
+					     { hi + p->w / 2, p->v_col } };
+			if (!add_trace(u, bar, 2, p->w, -1, line, upright(p, drop[1])))
+				return false;
+		}
+		struct gp_point at = { u->origin.x + llround(drop[1].x),
+				       u->origin.y + llround(drop[1].y) };
+		if (!add_port(out, at, (int64_t)p->w, (int)unit, line))
+			return false;
+	}
+	return true;
+}
+
+static bool plan_unit(const struct gp_digits *row,
+		      const struct gp_digit_rules *rules, struct gp_digit_unit *u,
+		      struct gp_digit_row *out, size_t index, struct gp_diag *diag)
+{
+	struct plan *p = calloc(1, sizeof(*p));
+	bool ok = false;
+	if (!p)
+		return gp_diag_error(diag, NULL, "out of memory");
+	p->row = row;
+	p->rules = rules;
+	p->unit = u;
+	struct gp_figure_spec fs = row->figure;
+	if (u->number == 0)
+		fs.figure = GP_FIGURE_7;
+	gp_figure_frame(&fs, &p->fr);
+	/* 2 nm over the minimum so that rounding never makes it narrower */
+	p->w = (double)rules->line + 2;
+	p->sp = (double)rules->space;
+	p->pitch = p->w + p->sp;
+	p->delta = p->pitch / 2;
+	p->left_edge = 0;
+	p->right_edge = p->fr.W;
+	p->top = p->fr.H;
+	if (u->number > 0)
+		figure_routes(p);
+	extra_routes(p);
+	over_the_top(p);
+	if (p->overflow) {
+		gp_diag_error(diag, &row->where, "digits '%s': too many "
+			      "lead-ins in one unit", row->name);
+		goto done;
+	}
+	assign_lanes(p, ROUTE_LEFT);
+	assign_lanes(p, ROUTE_RIGHT);
+	p->v_col = lowest_v(p) - p->sp - p->w / 2;
+	p->v_end = p->v_col - p->w - p->sp;
+	for (int i = 0; i < p->n; i++)
+		finish_route(p, &p->routes[i]);
+	order_parts(p);
+	if (row->pairs) {
+		if (!explicit_pairs(row, u, diag))
+			goto done;
+	} else {
+		documented(row, u);
+	}
+	if (!make_traces(p, out, index)) {
+		gp_diag_error(diag, NULL, "out of memory");
+		goto done;
+	}
+	ok = true;
+done:
+	free(p);
+	return ok;
+}
+
+void gp_digit_row_finish(struct gp_digit_row *row)
+{
+	for (size_t i = 0; i < row->unit_count; i++) {
+		struct gp_digit_unit *u = &row->units[i];
+		for (int k = 0; k < u->part_count; k++)
+			for (int j = 0; j < u->parts[k].poly_count; j++)
+				gp_polygon_finish(&u->parts[k].poly[j]);
+		for (int k = 0; k < u->trace_count; k++)
+			gp_polygon_finish(&u->traces[k].poly);
+	}
+	free(row->units);
+	free(row->ports);
+	memset(row, 0, sizeof(*row));
+}
+
+bool gp_digits_plan(const struct gp_digits *row,
+		    const struct gp_digit_rules *rules, struct gp_digit_row *out,
+		    struct gp_diag *diag)
+{
+	memset(out, 0, sizeof(*out));
+	size_t count = (size_t)row->count + (row->minus || row->one ? 1 : 0);
+	out->units = calloc(count, sizeof(*out->units));
+	if (!out->units)
+		return gp_diag_error(diag, NULL, "out of memory");
+	out->unit_count = count;
+	size_t k = 0;
+	if (row->minus || row->one) {
+		if (!sign_unit(row, &out->units[k], diag) ||
+		    !plan_unit(row, rules, &out->units[k], out, k, diag))
+			goto fail;
+		k++;
+	}
+	for (long i = 0; i < row->count; i++, k++)
+		if (!digit_unit(row, i, rules->chord_tolerance, &out->units[k],
+				diag) ||
+		    !plan_unit(row, rules, &out->units[k], out, k, diag))
+			goto fail;
+	return true;
+fail:
+	gp_digit_row_finish(out);
+	return false;
+}

@@ -1,0 +1,254 @@
+/* Segment digits: 7-, 14- and 16-segment figures with decimal points,
+ * colons, a minus sign and a leading half digit "1", static or multiplexed
+ * at 1/2, 1/3 or 1/4 duty.
+ *
+ * Geometry is constructed from the parameters, not from a drawn template.
+ * Each segment is a convex polygon: the intersection of its stroke (a strip
+ * `stroke` wide measured perpendicular to the segment) with half-planes.
+ * Neighbouring segments share a cut line; each gives up half the gap (or
+ * the whole of it, for square ends) measured perpendicular to that line, so
+ * the gap between any two neighbours is the same everywhere.  Slant is a
+ * shear x' = x + y tan(slant) of the construction points only: the strips
+ * and offsets are laid out after shearing, so heights stay exact and the
+ * stroke and gap stay their stated size perpendicular to the edges.
+ *
+ * Coordinates: int64_t nm, glass frame, x right, y up.  A figure's origin
+ * is the bottom-left corner of its upright outline (before shearing);
+ * digit i (0-based) of a row sits at origin + i * pitch, computed directly
+ * (the span is the datum). */
+#ifndef GP_DIGITS_H
+#define GP_DIGITS_H
+
+#include "diag.h"
+#include "geom.h"
+#include "spec.h"
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+
+enum gp_figure {
+	GP_FIGURE_7,
+	GP_FIGURE_14,
+	GP_FIGURE_16,
+};
+
+/* How segments end where they meet. */
+enum gp_ends {
+	/* Corners mitred along the line from the outer to the inner corner;
+	 * ends meeting at a three-way joint pointed. */
+	GP_ENDS_BEVELLED,
+	/* Square ends: horizontal segments run the full width, vertical
+	 * ones stop short of them by the gap. */
+	GP_ENDS_SQUARE,
+};
+
+enum gp_dot_shape {
+	GP_DOT_ROUND,  /* flattened with the chord tolerance, vertices on the
+			* circle */
+	GP_DOT_SQUARE, /* sheared with the digit, `size` across perpendicular
+			* to its sides and `size` high */
+};
+
+struct gp_figure_spec {
+	enum gp_figure figure;
+	int64_t height, width;    /* upright outline */
+	int64_t stroke;           /* segment width, perpendicular */
+	int64_t gap;              /* between neighbours, perpendicular */
+	double slant;             /* degrees; > 0 leans the top to the right */
+	enum gp_ends ends;
+};
+
+#define GP_FIGURE_MAX_SEGMENTS 16
+#define GP_DIGITS_MAX_COUNT 64        /* digits in one row */
+#define GP_DIGITS_MAX_ROWS 32
+/* Parts of one unit (a digit and what belongs to it): segments, point,
+ * colon. */
+#define GP_UNIT_MAX_PARTS (GP_FIGURE_MAX_SEGMENTS + 2)
+
+size_t gp_figure_segment_count(enum gp_figure figure);
+/* "a".."g", "g1", "a2", ...; NULL when out of range. */
+const char *gp_figure_segment_name(enum gp_figure figure, size_t index);
+/* Index of name in the figure, or -1. */
+int gp_figure_segment_index(enum gp_figure figure, const char *name);
+
+/* Checks the parameters of a figure; errors name `what` and `where`. */
+bool gp_figure_check(const struct gp_figure_spec *spec, const char *what,
+		     const struct gp_where *where, struct gp_diag *diag);
+
+/* Builds the segments of one figure: out[i] (initialised here) receives
+ * segment i in the figure's order, a convex counter-clockwise polygon.
+ * False on failure (out of memory, or parameters so tight that a segment
+ * vanishes; diag says which). */
+bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
+		     struct gp_polygon *out, struct gp_diag *diag);
+
+/* The construction lines of a figure, in nm relative to its origin, in
+ * upright coordinates (u across, v up; the glass point is
+ * (u + v * t, v)), for laying out what goes around the segments. */
+struct gp_figure_frame {
+	double t, sec;            /* tan(slant), 1 / cos(slant) */
+	double W, H, S, G;
+	double sv;                /* upright stroke measured across (S sec) */
+	double il, ir;            /* sides of the centre upright */
+	double cc;                /* centre cut (g1|g2, a1|a2, d1|d2) */
+	double mlo, mtop, m;      /* middle bar and its centre */
+	double mc;                /* the cut between upper and lower halves */
+};
+
+void gp_figure_frame(const struct gp_figure_spec *spec,
+		     struct gp_figure_frame *frame);
+
+/* Horizontal offset (nm) of the slanted outline at height y above the
+ * origin: y * tan(slant), rounded. */
+int64_t gp_figure_shear(const struct gp_figure_spec *spec, int64_t y);
+
+/* A dot (decimal point or colon dot) with its centre at c.  Round dots
+ * have vertices on the circle, spaced so that the chord error is at most
+ * chord_tolerance; square dots are sheared by the slant. */
+bool gp_dot_build(enum gp_dot_shape shape, int64_t size, double slant,
+		  struct gp_point c, int64_t chord_tolerance,
+		  struct gp_polygon *out);
+
+/* Default centre of the decimal point of a figure at origin: on the
+ * baseline, `gap` clear of the figure's right side measured perpendicular
+ * to that side. */
+struct gp_point gp_point_default_centre(const struct gp_figure_spec *spec,
+					struct gp_point origin,
+					enum gp_dot_shape shape, int64_t size,
+					int64_t gap);
+
+/* --- the description ------------------------------------------------------ */
+
+/* One (common, line) pair given in an explicit assignment. */
+struct gp_digit_pair {
+	const char *part;         /* segment name, "dp", "colon", ... */
+	int common;               /* 1-based */
+	int line;                 /* 1-based segment line within the unit */
+	struct gp_where where;
+};
+
+/* A row of digits ("digits:" section entry). */
+struct gp_digits {
+	const char *name;
+	struct gp_where where;
+	struct gp_point origin;   /* bottom-left of digit 1's upright outline */
+	long count;
+	int64_t pitch;
+	struct gp_figure_spec figure;
+	/* decimal points */
+	uint64_t point_mask;      /* bit i: digit i+1 has a point */
+	enum gp_dot_shape point_shape;
+	int64_t point_size;
+	int64_t point_gap;        /* clear of the digit's side */
+	bool point_placed;        /* point_at given */
+	struct gp_point point_at; /* centre relative to the digit's origin */
+	/* colons: bit i: a colon between digit i+1 and digit i+2 */
+	uint64_t colon_mask;
+	enum gp_dot_shape colon_shape;
+	int64_t colon_size;
+	/* the unit before digit 1: a minus sign and/or a half digit "1" */
+	bool minus, one;
+	/* drive */
+	int duty;                 /* 1 static, 2..4 multiplexed */
+	struct gp_digit_pair *pairs; /* explicit assignment, or NULL */
+	size_t pair_count;
+	struct gp_where drive_where;
+};
+
+struct gp_design;
+/* Reads the "digits" section (a map of rows by name) into design. */
+bool gp_digits_read(struct gp_design *design, const struct gp_node *node,
+		    struct gp_diag *diag);
+void gp_digits_free(struct gp_digits *rows, size_t count);
+
+/* --- units and parts ------------------------------------------------------ */
+
+/* One drivable part of a unit: a segment, the point, the colon, the minus
+ * or the "1".  A part may have two polygons (colon, "1"). */
+struct gp_digit_part {
+	char name[8];
+	struct gp_polygon poly[2];
+	int poly_count;
+	double height;            /* for ordering commons top down, nm */
+	/* assignment, 1-based; 0 until assigned */
+	int common;
+	int line;
+	/* nets once laid out (indices into the artwork), else -1 */
+	int common_net;
+	int segment_net;
+};
+
+/* A front trace of a unit: a lead-in from a part toward the ledge, or the
+ * bar joining the lead-ins of one segment line below the unit. */
+struct gp_digit_trace {
+	struct gp_polygon poly;
+	int part;                 /* part it starts from, -1 for a bar */
+	int line;                 /* segment line, 1-based, once assigned */
+	double u_end;             /* upright position where it ends, nm */
+};
+
+#define GP_UNIT_MAX_TRACES (2 * GP_UNIT_MAX_PARTS + 8)
+
+/* A unit: digit 1..count, or unit 0 for the minus and "1" (when any). */
+struct gp_digit_unit {
+	int number;               /* 0 for the sign unit, else the digit */
+	struct gp_point origin;   /* bottom-left of the upright outline */
+	struct gp_digit_part parts[GP_UNIT_MAX_PARTS];
+	int part_count;
+	struct gp_digit_trace traces[GP_UNIT_MAX_TRACES];
+	int trace_count;
+	/* parts in the order their lead-ins reach the lower edge, left to
+	 * right (a part with two lead-ins once) */
+	int order[GP_UNIT_MAX_PARTS];
+	int line_count;           /* segment lines of this unit */
+	int first_line_net;       /* net of line 1, once laid out */
+};
+
+/* Where a segment line leaves a row toward the ledge (the lower edge, -y):
+ * the end of its lead-in, for the routing to continue from. */
+struct gp_digit_port {
+	int net;                  /* -1 until the layout makes the nets */
+	int unit, line;           /* unit index in the row, line 1-based */
+	struct gp_point at;       /* centre of the lead-in's end */
+	int64_t width;
+};
+
+/* What the layout made of one row: units with their parts and nets (the
+ * firmware map: parts[k].common_net / segment_net light parts[k]). */
+struct gp_digit_row {
+	struct gp_digit_unit *units;
+	size_t unit_count;
+	int first_common, common_count;   /* net indices */
+	int first_segment, segment_count;
+	struct gp_digit_port *ports;
+	size_t port_count;
+};
+
+/* Line width and spacing for the lead-ins, and the shift to survive. */
+struct gp_digit_rules {
+	int64_t line;             /* lead-in width */
+	int64_t space;            /* between different nets on a plate */
+	int64_t registration;
+	int64_t chord_tolerance;
+};
+
+/* Geometry, lead-ins and assignment of one row (no nets yet).  out is
+ * initialised here; free it with gp_digit_row_finish. */
+bool gp_digits_plan(const struct gp_digits *row,
+		    const struct gp_digit_rules *rules, struct gp_digit_row *out,
+		    struct gp_diag *diag);
+void gp_digit_row_finish(struct gp_digit_row *row);
+
+struct gp_build;
+/* Lays out every row of the design into the build (after the blocks):
+ * nets, electrodes, lead-ins, pixels, back patches; build->digit_rows
+ * keeps the units, the assignment and the ports. */
+bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag);
+void gp_digit_rows_free(struct gp_digit_row *rows, size_t count);
+
+/* The name of a unit for messages: "digit 3" or "the sign unit". */
+void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,
+			 size_t size);
+
+#endif
