@@ -8,6 +8,7 @@
 #include "font.h"
 #include "icons.h"
 #include "patch.h"
+#include "route.h"
 #include "units.h"
 
 #include <math.h>
@@ -793,6 +794,62 @@ static bool emit(struct layout *l)
 	return true;
 }
 
+/* --- lead ends ----------------------------------------------------------- */
+
+/* The routing stage leads each net out straight towards one side of the
+ * glass, from an end the electrode offers.  For every side: the part's
+ * outermost corner that way, moved one lead width inwards so that the lead
+ * overlaps the part rather than touching a point of it. */
+static bool offer_ends(struct layout *l, int net, const struct gp_polyset *set)
+{
+	int64_t width = 2 * l->design->rules.min_line;
+	for (int side = 0; side < GP_SIDE_COUNT; side++) {
+		struct gp_point best = { 0, 0 };
+		int64_t best_key = INT64_MIN;
+		for (size_t k = 0; k < set->count; k++) {
+			const struct gp_ring *ring = &set->items[k].outer;
+			for (size_t j = 0; j < ring->count; j++) {
+				struct gp_point p = ring->points[j];
+				int64_t key = side == GP_SIDE_BOTTOM ? -p.y
+					      : side == GP_SIDE_RIGHT ? p.x
+					      : side == GP_SIDE_TOP   ? p.y
+								      : -p.x;
+				if (key > best_key) {
+					best_key = key;
+					best = p;
+				}
+			}
+		}
+		if (best_key == INT64_MIN)
+			return true;
+		switch (side) {
+		case GP_SIDE_BOTTOM: best.y += width; break;
+		case GP_SIDE_RIGHT: best.x -= width; break;
+		case GP_SIDE_TOP: best.y -= width; break;
+		default: best.x += width; break;
+		}
+		if (!gp_build_add_lead_end(l->build, net, (enum gp_side)side,
+					   best, width))
+			return oom(l);
+	}
+	return true;
+}
+
+/* Ends for every icon's segment and for its own common's patch (a common
+ * shared with a dot-matrix row is led out from the row's strips). */
+static bool offer_all_ends(struct layout *l)
+{
+	for (size_t i = 0; i < l->design->icon_count; i++) {
+		struct icon_work *w = &l->icons[i];
+		if (!offer_ends(l, w->segment, &w->front))
+			return false;
+		if (l->design->icons[i].common &&
+		    !offer_ends(l, w->common, &l->patches[w->group]))
+			return false;
+	}
+	return true;
+}
+
 /* --- the stage ------------------------------------------------------------ */
 
 static void layout_finish(struct layout *l)
@@ -858,7 +915,8 @@ bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
 	if (!ok)
 		oom(&l);
 	ok = ok && make_all_fronts(&l) && assign_nets(&l) &&
-	     make_groups(&l) && make_all_bridges(&l) && emit(&l);
+	     make_groups(&l) && make_all_bridges(&l) && emit(&l) &&
+	     offer_all_ends(&l);
 	for (size_t i = 0; ok && i < d->icon_count; i++)
 		ok = note_icon(&l, i);
 	if (ok) {

@@ -80,8 +80,8 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 		break;
 	}
 	case GP_OWNER_DIGITS:
-		snprintf(what, sizeof(what), "digits %d, digit %d",
-			 px->owner + 1, px->a + 1);
+		snprintf(what, sizeof(what), "digit row %d, digit %d",
+			 px->owner + 1, px->a);
 		break;
 	default:
 		snprintf(what, sizeof(what), "icon %d", px->owner + 1);

@@ -101,9 +101,13 @@ struct cand {
 
 struct netstate {
 	int ledge;                /* -1: not routed */
-	struct cand cands[8];
+	struct cand cands[16];
 	int cand_count;
 	int chosen;
+	int order[16];            /* free candidates, best first */
+	int usable, pick;
+	int first_hit;            /* what blocked the best one */
+	bool first_hit_plate;
 	bool has_pad;             /* explicit map: pad known before routing */
 	int pin;                  /* index into build->pins, -1 */
 	bool transfer;
@@ -256,7 +260,7 @@ static bool is_block_net(const struct gp_build *b, int net, bool *common,
 static void add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
-	if (n->cand_count < 8)
+	if (n->cand_count < 16)
 		n->cands[n->cand_count++] = (struct cand){ side, at, width };
 }
 
@@ -282,6 +286,94 @@ static void block_cands(struct route *r, int net, struct netstate *n)
 	}
 }
 
+/* Any other electrode: leave from its outermost point on each side, or
+ * from the outermost point of its first or last third along that side
+ * (so that an icon's front electrode and its back patch, whose outermost
+ * points line up, can leave side by side); each starts a little inside
+ * the electrode so that lead and electrode share area. */
+struct extreme {
+	struct gp_point p;
+	bool found;
+};
+
+static void consider(struct extreme *e, struct gp_point p, enum gp_side side)
+{
+	bool better = !e->found;
+	switch (side) {
+	case GP_SIDE_BOTTOM: better |= p.y < e->p.y; break;
+	case GP_SIDE_TOP: better |= p.y > e->p.y; break;
+	case GP_SIDE_LEFT: better |= p.x < e->p.x; break;
+	default: better |= p.x > e->p.x; break;
+	}
+	if (better)
+		e->p = p, e->found = true;
+}
+
+static void shape_cands(struct route *r, int net, struct netstate *n)
+{
+	const struct gp_artwork *art = &r->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(art->nets[net].plate);
+	struct gp_box b = gp_box_none();
+	for (size_t i = 0; i < art->shape_count; i++)
+		if (art->shapes[i].net == net && art->shapes[i].layer == layer)
+			b = gp_box_union(b, gp_polygon_bounds(&art->shapes[i].poly));
+	if (gp_box_is_empty(b))
+		return;
+	/* [side][0 whole, 1 first third, 2 last third] */
+	struct extreme e[GP_SIDE_COUNT][3];
+	memset(e, 0, sizeof(e));
+	int64_t w3 = (b.x1 - b.x0) / 3, h3 = (b.y1 - b.y0) / 3;
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->layer != layer)
+			continue;
+		const struct gp_ring *o = &s->poly.outer;
+		for (size_t k = 0; k < o->count; k++) {
+			struct gp_point p = o->points[k];
+			for (int d = 0; d < GP_SIDE_COUNT; d++) {
+				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
+				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
+				int64_t third = across ? w3 : h3;
+				consider(&e[d][0], p, (enum gp_side)d);
+				if (at <= third)
+					consider(&e[d][1], p, (enum gp_side)d);
+				if (at >= 2 * third)
+					consider(&e[d][2], p, (enum gp_side)d);
+			}
+		}
+	}
+	int64_t w = r->g->leads.width;
+	int64_t depth = min64(w, r->design->rules.registration / 2);
+	depth = min64(depth, min64(b.x1 - b.x0, b.y1 - b.y0) / 4);
+	static const enum gp_side order[] = { GP_SIDE_BOTTOM, GP_SIDE_LEFT,
+					      GP_SIDE_RIGHT, GP_SIDE_TOP };
+	for (int k = 0; k < 4; k++) {
+		for (int t = 0; t < 3; t++) {
+			if (!e[order[k]][t].found)
+				continue;
+			struct gp_point p = e[order[k]][t].p;
+			switch (order[k]) {
+			case GP_SIDE_BOTTOM: p.y += depth; break;
+			case GP_SIDE_TOP: p.y -= depth; break;
+			case GP_SIDE_LEFT: p.x += depth; break;
+			default: p.x -= depth; break;
+			}
+			add_cand(n, order[k], p, w);
+		}
+	}
+}
+
+static bool has_port(const struct route *r, int net)
+{
+	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+		const struct gp_digit_row *row = &r->build->digit_rows[i];
+		for (size_t k = 0; k < row->port_count; k++)
+			if (row->ports[k].net == net)
+				return true;
+	}
+	return false;
+}
+
 static bool collect_cands(struct route *r)
 {
 	const struct gp_artwork *art = &r->build->art;
@@ -300,9 +392,27 @@ static bool collect_cands(struct route *r)
 		if (e->net >= 0 && (size_t)e->net < r->net_count)
 			add_cand(&r->nets[e->net], e->side, e->at, e->width);
 	}
+	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+		const struct gp_digit_row *row = &r->build->digit_rows[i];
+		for (size_t k = 0; k < row->port_count; k++) {
+			const struct gp_digit_port *p = &row->ports[k];
+			if (p->net >= 0 && (size_t)p->net < r->net_count)
+				add_cand(&r->nets[p->net], GP_SIDE_BOTTOM,
+					 p->at, p->width);
+		}
+	}
 	for (size_t i = 0; i < r->net_count; i++)
 		if (r->nets[i].cand_count == 0)
 			block_cands(r, (int)i, &r->nets[i]);
+	/* every other net may also leave from its outer points (after the
+	 * ends its layout offered) */
+	for (size_t i = 0; i < r->net_count; i++) {
+		bool common = false;
+		int row, rows;
+		if (!is_block_net(r->build, (int)i, &common, &row, &rows) &&
+		    !has_port(r, (int)i))
+			shape_cands(r, (int)i, &r->nets[i]);
+	}
 	return true;
 }
 
@@ -359,12 +469,39 @@ static bool shape_is_box(const struct gp_shape *s)
 
 struct blocker {
 	struct route *r;
+	struct gp_geos *geos;
 	int net;
 	enum gp_plate plate;
 	struct gp_box box;
 	int hit;                  /* net that blocks, or -1 */
 	bool plate_hit;           /* on the other plate */
 };
+
+static bool shape_overlaps(struct blocker *k, const struct gp_shape *s,
+			   struct gp_box box)
+{
+	struct gp_geos_shape *a = gp_geos_shape_from_polygon(k->geos, &s->poly);
+	struct gp_geos_shape *b = gp_geos_shape_from_box(k->geos, box);
+	bool hit = true;
+	if (a && b)
+		hit = gp_geos_shape_overlaps_area(k->geos, b, a);
+	gp_geos_shape_destroy(k->geos, a);
+	gp_geos_shape_destroy(k->geos, b);
+	return hit;
+}
+
+static bool shape_nearer(struct blocker *k, const struct gp_shape *s,
+			 int64_t gap)
+{
+	struct gp_geos_shape *a = gp_geos_shape_from_polygon(k->geos, &s->poly);
+	struct gp_geos_shape *b = gp_geos_shape_from_box(k->geos, k->box);
+	double d = 0;
+	if (a && b && !gp_geos_shape_distance(k->geos, b, a, &d))
+		d = 0;
+	gp_geos_shape_destroy(k->geos, a);
+	gp_geos_shape_destroy(k->geos, b);
+	return d < (double)gap;
+}
 
 static void visit_blocker(void *user, size_t item)
 {
@@ -375,16 +512,20 @@ static void visit_blocker(void *user, size_t item)
 	enum gp_plate plate = s->layer == GP_LAYER_FRONT_ITO ? GP_PLATE_FRONT
 							     : GP_PLATE_BACK;
 	struct gp_box b = gp_polygon_bounds(&s->poly);
-	/* Bounds are exact for boxes and conservative otherwise. */
+	/* Bounds are exact for boxes; other shapes are asked of GEOS. */
 	if (plate != k->plate) {
+		/* a back patch gives way: it is notched round the lead */
+		if (s->role == GP_ROLE_PATCH)
+			return;
 		struct gp_box inner = k->box;
 		if (!boxes_overlap(inner, k->r->s_in) || !boxes_overlap(b, inner))
 			return;
-		if (!shape_is_box(s) || boxes_overlap(b, inner))
+		if (shape_is_box(s) || shape_overlaps(k, s, inner))
 			k->hit = s->net, k->plate_hit = true;
 	} else {
 		double gap = (double)k->r->min_space;
-		if (box_gap2(b, k->box) < gap * gap)
+		if (box_gap2(b, k->box) < gap * gap &&
+		    (shape_is_box(s) || shape_nearer(k, s, k->r->min_space)))
 			k->hit = s->net, k->plate_hit = false;
 	}
 }
@@ -430,110 +571,326 @@ static int64_t transfer_zone(const struct route *r)
 	return t->count * (t->size + t->margin) + t->margin;
 }
 
-static bool choose_ends(struct route *r, struct gp_geos_index *index)
+/* Candidates of a net ranked, each either free of the shapes already
+ * there or not; n->order[0..n->usable) are the free ones, best first. */
+static bool rank_ends(struct route *r, struct gp_geos_index *index,
+		      struct gp_geos *geos, int net)
+{
+	struct netstate *n = &r->nets[net];
+	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	enum gp_plate plate = r->build->art.nets[net].plate;
+	n->transfer = plate != l->plate;
+	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
+	int order[16] = { 0 };
+	for (int k = 0; k < n->cand_count; k++)
+		order[k] = k;
+	for (int k = 1; k < n->cand_count; k++)
+		for (int j = k; j > 0 && cand_rank(r, n, &n->cands[order[j]]) <
+						 cand_rank(r, n, &n->cands[order[j - 1]]);
+		     j--) {
+			int t = order[j];
+			order[j] = order[j - 1];
+			order[j - 1] = t;
+		}
+	struct blocker k = { .r = r, .geos = geos, .net = net, .plate = plate };
+	n->usable = 0;
+	n->first_hit = -1;
+	for (int c = 0; c < n->cand_count; c++) {
+		k.box = corridor_box(r, &n->cands[order[c]], n->ext);
+		k.hit = -1;
+		struct gp_box q = k.box;
+		q.x0 -= r->min_space, q.y0 -= r->min_space;
+		q.x1 += r->min_space, q.y1 += r->min_space;
+		if (!gp_geos_index_query(index, q, visit_blocker, &k))
+			return false;
+		if (k.hit < 0)
+			n->order[n->usable++] = order[c];
+		else if (n->first_hit < 0)
+			n->first_hit = k.hit, n->first_hit_plate = k.plate_hit;
+	}
+	if (n->cand_count == 0)
+		return gp_diag_error(r->diag, NULL,
+				     "%s: net %s has no place to lead it out",
+				     r->design->spec->file, net_name(r, net));
+	if (n->usable == 0) {
+		char x[32], y[32];
+		const struct cand *c = &n->cands[order[0]];
+		return gp_diag_error(
+			r->diag, NULL,
+			"%s: the lead-out of %s from (%s, %s) mm towards the %s "
+			"is blocked by %s on the %s plate, and so is every other "
+			"way out",
+			r->design->spec->file, net_name(r, net), mm(x, c->at.x),
+			mm(y, c->at.y), gp_side_name(c->side),
+			net_name(r, n->first_hit),
+			n->first_hit_plate ? "other" : "same");
+	}
+	n->pick = 0;
+	return true;
+}
+
+/* What a chosen end occupies: its corridor on the electrode plate, and on
+ * the ledge plate where the narrow lead starts (and the transfer pad). */
+struct footprint {
+	int net;
+	enum gp_plate plate;
+	struct gp_box box;
+	bool corridor;            /* inside the seal: other plate must not
+				   * overlap it */
+	bool wide;                /* electrode-like: min_space applies */
+};
+
+static void set_choice(struct route *r, int net)
+{
+	struct netstate *n = &r->nets[net];
+	n->chosen = n->order[n->pick];
+	n->corridor = corridor_box(r, &n->cands[n->chosen], n->ext);
+}
+
+static size_t footprints(const struct route *r, int net, struct footprint *f)
+{
+	const struct netstate *n = &r->nets[net];
+	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	const struct cand *c = &n->cands[n->chosen];
+	size_t count = 0;
+	f[count++] = (struct footprint){ net, r->build->art.nets[net].plate,
+					 n->corridor, true, true };
+	/* narrow lead just outside the seal, with its own space around */
+	int64_t w = min64(r->g->leads.width, c->width);
+	int64_t reach = n->ext + r->space + w;
+	struct cand stub = *c;
+	stub.width = w;
+	struct gp_box box = corridor_box(r, &stub, n->ext);
+	struct gp_box o = r->s_out;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: box = gp_box_make(box.x0, o.y0 - reach, box.x1, o.y0); break;
+	case GP_SIDE_TOP: box = gp_box_make(box.x0, o.y1, box.x1, o.y1 + reach); break;
+	case GP_SIDE_LEFT: box = gp_box_make(o.x0 - reach, box.y0, o.x0, box.y1); break;
+	default: box = gp_box_make(o.x1, box.y0, o.x1 + reach, box.y1); break;
+	}
+	f[count++] = (struct footprint){ net, l->plate, box, false, false };
+	if (n->transfer) {
+		struct cand pad = *c;
+		pad.width = r->g->transfers.size + 2 * r->g->transfers.margin;
+		f[count++] = (struct footprint){ net, l->plate,
+						 corridor_box(r, &pad, n->ext),
+						 false, true };
+	}
+	return count;
+}
+
+/* Two footprints clash: same plate and nearer than the space that
+ * applies, or other plates and overlapping inside the seal. */
+static bool clash(const struct route *r, const struct footprint *a,
+		  const struct footprint *b)
+{
+	if (a->net == b->net)
+		return false;
+	if (a->plate == b->plate) {
+		int64_t gap = a->wide && b->wide ? r->min_space : r->space;
+		return box_gap2(a->box, b->box) < (double)gap * (double)gap;
+	}
+	if (!a->corridor || !b->corridor || !boxes_overlap(a->box, b->box))
+		return false;
+	struct gp_box both = gp_box_make(max64(a->box.x0, b->box.x0),
+					 max64(a->box.y0, b->box.y0),
+					 min64(a->box.x1, b->box.x1),
+					 min64(a->box.y1, b->box.y1));
+	return boxes_overlap(both, r->s_in);
+}
+
+/* Finds the first clash among the chosen ends; false on error. */
+static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
+			int *nb, struct gp_box *where)
+{
+	size_t cap = 3 * r->net_count + 1, count = 0;
+	struct footprint *f = malloc(cap * sizeof(*f));
+	struct gp_box *boxes = malloc(cap * sizeof(*boxes));
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0;
+	bool ok = f && boxes;
+	for (size_t i = 0; ok && i < r->net_count; i++)
+		if (r->nets[i].ledge >= 0)
+			count += footprints(r, (int)i, f + count);
+	for (size_t i = 0; ok && i < count; i++)
+		boxes[i] = f[i].box;
+	int64_t gap = max64(r->space, r->min_space);
+	ok = ok && gp_geos_box_pairs(geos, boxes, count, gap, &pairs,
+				     &pair_count);
+	*na = *nb = -1;
+	for (size_t p = 0; ok && p < pair_count && *na < 0; p++) {
+		const struct footprint *a = &f[pairs[p].a], *b = &f[pairs[p].b];
+		if (clash(r, a, b)) {
+			*na = a->net < b->net ? a->net : b->net;
+			*nb = a->net < b->net ? b->net : a->net;
+			*where = gp_box_make(max64(a->box.x0, b->box.x0),
+					     max64(a->box.y0, b->box.y0),
+					     min64(a->box.x1, b->box.x1),
+					     min64(a->box.y1, b->box.y1));
+		}
+	}
+	free(pairs);
+	free(f);
+	free(boxes);
+	return ok || gp_diag_error(r->diag, NULL, "out of memory");
+}
+
+/* Of two clashing nets, the one to take its next free end: the one now
+ * leaving a worse way (never trading a lead towards the ledge for one
+ * that is not), the later one on a tie; -1 when neither may move. */
+static int pick_mover(const struct route *r, int a, int b)
+{
+	const struct netstate *na = &r->nets[a], *nb = &r->nets[b];
+	int ra = cand_rank(r, na, &na->cands[na->chosen]);
+	int rb = cand_rank(r, nb, &nb->cands[nb->chosen]);
+	int left_a = na->usable - na->pick - 1, left_b = nb->usable - nb->pick - 1;
+	if (ra == rb && left_a > 0 && left_a > left_b)
+		return a;
+	if (left_b > 0 && rb >= ra)
+		return b;
+	if (left_a > 0 && ra >= rb)
+		return a;
+	/* moving the one with the better way would trade it for worse,
+	 * unless that way is not towards the ledge either */
+	if (left_b > 0 && rb > 0)
+		return b;
+	if (left_a > 0 && ra > 0)
+		return a;
+	return -1;
+}
+
+/* Every net takes its best free end; while two clash, the one with
+ * another free end (the later net first) moves to it. */
+static bool choose_ends(struct route *r, struct gp_geos_index *index,
+			struct gp_geos *geos)
 {
 	bool ok = true;
+	size_t rounds = 0;
 	for (size_t i = 0; i < r->net_count; i++) {
-		struct netstate *n = &r->nets[i];
-		if (n->ledge < 0)
+		if (r->nets[i].ledge < 0)
 			continue;
-		const struct gp_ledge *l = &r->g->ledges[n->ledge];
-		enum gp_plate plate = r->build->art.nets[i].plate;
-		n->transfer = plate != l->plate;
-		n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-		int order[8] = { 0 };
-		for (int k = 0; k < n->cand_count; k++)
-			order[k] = k;
-		for (int k = 1; k < n->cand_count; k++)
-			for (int j = k; j > 0 &&
-					cand_rank(r, n, &n->cands[order[j]]) <
-						cand_rank(r, n,
-							  &n->cands[order[j - 1]]);
-			     j--) {
-				int t = order[j];
-				order[j] = order[j - 1];
-				order[j - 1] = t;
-			}
-		n->chosen = -1;
-		struct blocker k = { .r = r, .net = (int)i, .plate = plate };
-		for (int c = 0; c < n->cand_count && n->chosen < 0; c++) {
-			k.box = corridor_box(r, &n->cands[order[c]], n->ext);
-			k.hit = -1;
-			struct gp_box q = k.box;
-			q.x0 -= r->min_space, q.y0 -= r->min_space;
-			q.x1 += r->min_space, q.y1 += r->min_space;
-			if (!gp_geos_index_query(index, q, visit_blocker, &k))
-				return false;
-			if (k.hit < 0)
-				n->chosen = order[c];
-		}
-		if (n->cand_count == 0) {
-			ok = gp_diag_error(r->diag, NULL,
-					   "%s: net %s has no place to lead "
-					   "it out",
-					   r->design->spec->file,
-					   net_name(r, (int)i));
-		} else if (n->chosen < 0) {
+		if (!rank_ends(r, index, geos, (int)i))
+			ok = false;
+		else
+			set_choice(r, (int)i);
+		rounds += (size_t)r->nets[i].usable;
+	}
+	while (ok) {
+		int a, b;
+		struct gp_box where;
+		if (!first_clash(r, geos, &a, &b, &where))
+			return false;
+		if (a < 0)
+			return true;
+		int move = pick_mover(r, a, b);
+		if (move < 0 || rounds-- == 0) {
 			char x[32], y[32];
-			const struct cand *c = &n->cands[order[0]];
-			ok = gp_diag_error(
+			return gp_diag_error(
 				r->diag, NULL,
-				"%s: the lead-out of %s from (%s, %s) mm "
-				"towards the %s is blocked by %s on the %s "
-				"plate, and so is every other way out",
-				r->design->spec->file, net_name(r, (int)i),
-				mm(x, c->at.x), mm(y, c->at.y),
-				gp_side_name(c->side), net_name(r, k.hit),
-				k.plate_hit ? "other" : "same");
-		} else {
-			n->corridor = corridor_box(r, &n->cands[n->chosen],
-						   n->ext);
+				"%s: the lead-outs of %s and %s come too close "
+				"near (%s, %s) mm and neither has another way "
+				"out; move one of the elements",
+				r->design->spec->file, net_name(r, a),
+				net_name(r, b), mm(x, where.x0), mm(y, where.y0));
 		}
+		if (getenv("GP_ROUTE_DEBUG"))
+			fprintf(stderr, "clash %s %s at %lld %lld %lld %lld: move %s\n",
+				net_name(r, a), net_name(r, b),
+				(long long)where.x0, (long long)where.y0,
+				(long long)where.x1, (long long)where.y1,
+				net_name(r, move));
+		r->nets[move].pick++;
+		set_choice(r, move);
 	}
 	return ok;
 }
 
-/* Inside the seal, no two chosen corridors may clash. */
-static bool check_corridors(struct route *r, struct gp_geos *geos)
+/* --- notches ------------------------------------------------------------- */
+
+/* Where a lead-out crosses a back patch of another net (the margin round
+ * an icon or digit), the patch is cut back from the lead by the distance a
+ * plate shift can bring them together (registration x sqrt 2), except
+ * under the patch's own front shapes, which stay covered.  A patch may not
+ * fall apart. */
+static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
+		      struct gp_box corridor, int lead_net)
 {
-	size_t count = 0;
-	int *which = malloc((r->net_count + 1) * sizeof(*which));
-	struct gp_box *boxes = malloc((r->net_count + 1) * sizeof(*boxes));
-	struct gp_index_pair *pairs = NULL;
-	size_t pair_count = 0;
-	bool ok = which && boxes;
-	for (size_t i = 0; ok && i < r->net_count; i++) {
-		if (r->nets[i].ledge < 0 || r->nets[i].chosen < 0)
+	struct gp_artwork *art = &r->build->art;
+	int net = art->shapes[shape].net;
+	int64_t clear = (int64_t)ceil((double)r->design->rules.registration *
+				      SQRT2) +
+			r->design->rules.chord_tolerance;
+	struct gp_polyset cut, keep, notch, patch, left;
+	gp_polyset_init(&cut);
+	gp_polyset_init(&keep);
+	gp_polyset_init(&notch);
+	gp_polyset_init(&patch);
+	gp_polyset_init(&left);
+	struct gp_polygon p;
+	gp_polygon_init(&p);
+	struct gp_box grown = gp_box_make(corridor.x0 - clear, corridor.y0 - clear,
+					  corridor.x1 + clear, corridor.y1 + clear);
+	bool ok = gp_polygon_set_box(&p, grown) && gp_polyset_take(&cut, &p);
+	for (size_t i = 0; ok && i < art->pixel_count; i++) {
+		const struct gp_pixel *px = &art->pixels[i];
+		if (px->common != net && px->segment != net)
 			continue;
-		which[count] = (int)i;
-		boxes[count++] = r->nets[i].corridor;
+		ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
+					   : gp_polygon_set_box(&p, px->box);
+		ok = ok && gp_polyset_take(&keep, &p);
 	}
-	ok = ok && gp_geos_box_pairs(geos, boxes, count, r->min_space, &pairs,
-				     &pair_count);
-	for (size_t p = 0; ok && p < pair_count; p++) {
-		int a = which[pairs[p].a], b = which[pairs[p].b];
-		enum gp_plate pa = r->build->art.nets[a].plate;
-		enum gp_plate pb = r->build->art.nets[b].plate;
-		struct gp_box ba = boxes[pairs[p].a], bb = boxes[pairs[p].b];
-		bool clash = pa == pb ? box_gap2(ba, bb) <
-						(double)r->min_space *
-							(double)r->min_space
-				      : boxes_overlap(ba, bb);
-		if (clash) {
-			char x[32], y[32];
-			ok = gp_diag_error(r->diag, NULL,
-					   "%s: the lead-outs of %s and %s "
-					   "clash inside the seal near (%s, "
-					   "%s) mm",
-					   r->design->spec->file,
-					   net_name(r, a), net_name(r, b),
-					   mm(x, max64(ba.x0, bb.x0)),
-					   mm(y, max64(ba.y0, bb.y0)));
+	ok = ok && gp_geos_difference(geos, &cut, &keep, &notch) &&
+	     gp_polygon_copy(&p, &art->shapes[shape].poly) &&
+	     gp_polyset_take(&patch, &p) &&
+	     gp_geos_difference(geos, &patch, &notch, &left);
+	if (ok && left.count == 1) {
+		gp_polygon_finish(&art->shapes[shape].poly);
+		art->shapes[shape].poly = left.items[0];
+		gp_polygon_init(&left.items[0]);
+	} else if (ok) {
+		char x[32], y[32];
+		ok = gp_diag_error(r->diag, NULL,
+				   "%s: the lead-out of %s would cut the back "
+				   "patch of %s in %s near (%s, %s) mm; move "
+				   "the element or its neighbour",
+				   r->design->spec->file, net_name(r, lead_net),
+				   net_name(r, net),
+				   left.count ? "pieces" : "nothing",
+				   mm(x, corridor.x0), mm(y, corridor.y0));
+	}
+	gp_polygon_finish(&p);
+	gp_polyset_finish(&cut);
+	gp_polyset_finish(&keep);
+	gp_polyset_finish(&notch);
+	gp_polyset_finish(&patch);
+	gp_polyset_finish(&left);
+	return ok;
+}
+
+static bool notch_patches(struct route *r, struct gp_geos *geos)
+{
+	struct gp_artwork *art = &r->build->art;
+	bool ok = true;
+	for (size_t i = 0; ok && i < r->net_count; i++) {
+		struct netstate *n = &r->nets[i];
+		if (n->ledge < 0 || n->chosen < 0)
+			continue;
+		enum gp_layer other = gp_plate_ito_layer(
+			art->nets[i].plate == GP_PLATE_FRONT ? GP_PLATE_BACK
+							     : GP_PLATE_FRONT);
+		for (size_t k = 0; ok && k < art->shape_count; k++) {
+			const struct gp_shape *s = &art->shapes[k];
+			if (s->role != GP_ROLE_PATCH || s->layer != other ||
+			    s->net == (int)i)
+				continue;
+			struct gp_box b = gp_polygon_bounds(&s->poly);
+			int64_t c = r->design->rules.registration * 2;
+			struct gp_box q = n->corridor;
+			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
+			if (boxes_overlap(b, q))
+				ok = notch_one(r, geos, k, n->corridor, (int)i);
 		}
 	}
-	free(pairs);
-	free(which);
-	free(boxes);
 	return ok;
 }
 
@@ -665,7 +1022,10 @@ static bool check_transfer_room(struct route *r)
 	if (need <= band)
 		return true;
 	char a[32], b[32], c[32], d[32];
-	return gp_diag_error(r->diag, &t->where,
+	const struct gp_where *where = t->where.file ? &t->where
+			 : r->g->seal.where.file ? &r->g->seal.where
+						 : &r->g->ledges[0].where;
+	return gp_diag_error(r->diag, where,
 			     "%ld transfer dots of %s mm with %s mm margins "
 			     "need %s mm across the seal band, which is %s mm "
 			     "wide; use smaller or fewer dots, a wider seal "
@@ -1622,7 +1982,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 				    s->layer == GP_LAYER_BACK_ITO))
 			ok = gp_geos_index_add(index, gp_polygon_bounds(&s->poly), i);
 	}
-	ok = ok && choose_ends(&r, index) && check_corridors(&r, geos);
+	ok = ok && choose_ends(&r, index, geos) && notch_patches(&r, geos);
 	if (!ok)
 		goto out;
 	for (size_t i = 0; ok && i < r.net_count; i++) {

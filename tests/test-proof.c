@@ -290,6 +290,43 @@ static void test_routed_sample(void **state)
 	unload(&f);
 }
 
+/* Detail views: the first icon and the first digit at 10:1 (ISO 5455
+ * enlargement) with their sizes; absent parts are said to be absent. */
+static void test_details(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	struct gp_proof_plan plan;
+	load_file(&f, "../samples/tank-logger.yaml", "icons");
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	char *text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
+			 plan.sheet_details + plan.detail_sheets - 1, f.path);
+	assert_non_null(strstr(text, "One icon"));
+	assert_non_null(strstr(text, "One dot-matrix cell"));
+	assert_non_null(strstr(text, "scale 10:1"));
+	assert_non_null(strstr(text, "no digits in this design"));
+	/* the cell of block 'reading': 5 dots at 0.5 pitch, 0.45 wide */
+	assert_non_null(strstr(text, "cell 2.45"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+
+	load_file(&f, "../samples/timer-4digit-quarter.yaml", "digits");
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
+		   plan.sheet_details + plan.detail_sheets - 1, f.path);
+	assert_non_null(strstr(text, "One digit"));
+	assert_non_null(strstr(text, "no icons in this design"));
+	free(text);
+	text = run("pdftotext -f 1 -l 1 '%s' -", f.path);
+	assert_non_null(strstr(text, "digit pitch (9)"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
 /* Two runs give the same bytes; no date unless SOURCE_DATE_EPOCH (which
  * the tool hands to the build). */
 static void test_deterministic(void **state)
@@ -500,6 +537,7 @@ int main(void)
 		cmocka_unit_test(test_pages),
 		cmocka_unit_test(test_text),
 		cmocka_unit_test(test_routed_sample),
+		cmocka_unit_test(test_details),
 		cmocka_unit_test(test_deterministic),
 		cmocka_unit_test(test_scale),
 		cmocka_unit_test(test_paper),

@@ -181,12 +181,12 @@ static int find(int *parent, int i)
  * (a dot joins the pieces it lies on, one on each plate), form one
  * connected whole with exactly one pad. */
 static void check_connected(struct gp_geos *geos, const struct gp_artwork *art,
-			    const struct netgeo *n)
+			    const struct netgeo *n, size_t pads)
 {
 	for (size_t i = 0; i < art->net_count; i++) {
 		const struct netgeo *g = &n[i];
 		size_t front = g->plate[0].count, total = front + g->plate[1].count;
-		if (g->pads != 1)
+		if (g->pads != pads)
 			fail_msg("%s has %zu pads", art->nets[i].name, g->pads);
 		int *parent = malloc((total + 1) * sizeof(int));
 		for (size_t k = 0; k < total; k++)
@@ -377,7 +377,7 @@ static void check_all(const struct gp_build *b)
 	struct gp_geos *geos = gp_geos_create(&diag);
 	const struct gp_artwork *art = &b->art;
 	struct netgeo *n = net_geometry(geos, art);
-	check_connected(geos, art, n);
+	check_connected(geos, art, n, 1);
 	check_spacing(geos, art, n, b->design->rules.min_space);
 	check_widths(geos, art, b->design->rules.min_line);
 	check_overlap(geos, b);
@@ -551,6 +551,40 @@ static void route_round_the_top(void **state)
 		"ledges:\n"
 		"  main: {side: bottom, pitch: 0.5}\n"
 		"seal: {width: 1, distance: 0.5}\n";
+	struct fixture f;
+	load_ok(&f, text);
+	check_all(f.build);
+	finish(&f);
+}
+
+/* Icons beside a block: their front electrodes and back patches lead out
+ * like any electrode, and the patches are notched where a front lead-out
+ * leaves them (checked by the overlap rule). */
+static void route_icons(void **state)
+{
+	(void)state;
+	const char *text =
+		"glass: {part: T-6}\n"
+		"front: {size: [50, 27], position: [0, -3]}\n"
+		"back: {size: [50, 20], position: [0, 4]}\n"
+		"viewing_area: {position: [4, 7], size: [42, 15]}\n"
+		"blocks:\n"
+		"  r: {origin: [5, 20.5], cells: [6, 1], dots: [5, 8],"
+		" dot_size: [0.45, 0.5], dot_pitch: [0.5, 0.55], cell_pitch: 3}\n"
+		"icons:\n"
+		"  bat: {shape: rectangle, size: [3, 1.5], position: [28, 19],"
+		" common: c1, segment: s1}\n"
+		"  dot: {shape: circle, diameter: 1.2, position: [34, 19],"
+		" common: c2, segment: s2}\n"
+		"  tri: {shape: triangle, size: [1.6, 1.2], position: [40, 12],"
+		" common: c3, segment: s3}\n"
+		"  ring: {shape: ring, diameter: 2, width: 0.4,"
+		" position: [28, 12], common: c4, segment: s4}\n"
+		"ledges:\n"
+		"  main: {side: bottom, pitch: 0.6, pad_width: 0.3,"
+		" pad_length: 1.5, edge_clearance: 0.3}\n"
+		"seal: {width: 1, distance: 0.2}\n"
+		"leads: {width: 0.05, space: 0.05}\n";
 	struct fixture f;
 	load_ok(&f, text);
 	check_all(f.build);
@@ -812,6 +846,7 @@ int main(void)
 		cmocka_unit_test(route_two_ledges),
 		cmocka_unit_test(route_left_ledge),
 		cmocka_unit_test(route_round_the_top),
+		cmocka_unit_test(route_icons),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(capacity_tracks),
