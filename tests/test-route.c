@@ -9,6 +9,7 @@
 #include <cmocka.h>
 
 #include "build.h"
+#include "gerbv-render.h"
 #include "geos.h"
 #include "route.h"
 #include "units.h"
@@ -303,8 +304,9 @@ static struct gp_geos_shape *plate_union(struct gp_geos *geos,
 static void check_overlap(struct gp_geos *geos, const struct gp_build *b)
 {
 	const struct gp_artwork *art = &b->art;
-	struct gp_box in, out;
-	gp_seal_boxes(b->design, &in, &out);
+	struct gp_box in = b->design->viewing, out;
+	if (b->design->routing)
+		gp_seal_boxes(b->design, &in, &out);
 	struct gp_geos_shape *front = plate_union(geos, art, GP_LAYER_FRONT_ITO);
 	struct gp_geos_shape *back = plate_union(geos, art, GP_LAYER_BACK_ITO);
 	struct gp_geos_shape *inside = gp_geos_shape_from_box(geos, in);
@@ -329,7 +331,20 @@ static void check_overlap(struct gp_geos *geos, const struct gp_build *b)
 	struct gp_geos_shape *lost = gp_geos_shape_difference(geos, pu, lc);
 	double e = gp_geos_shape_area_mm2(geos, extra);
 	double l = gp_geos_shape_area_mm2(geos, lost);
-	if (e >= 1e-6 || l >= 1e-6) {
+	/* Back patches are snapped to the 1 nm grid (GEOS snap rounding):
+	 * where a notch meets a segment's edge the node moves by up to half
+	 * a nanometre.  Allow 0.1 nm on average along every pixel edge. */
+	double limit = 1e-6;
+	for (size_t i = 0; i < px.count; i++) {
+		const struct gp_ring *r = &px.items[i].outer;
+		for (size_t k = 0; k < r->count; k++) {
+			struct gp_point p0 = r->points[k];
+			struct gp_point p1 = r->points[(k + 1) % r->count];
+			limit += hypot((double)(p1.x - p0.x),
+				       (double)(p1.y - p0.y)) / 1e6 * 1e-7;
+		}
+	}
+	if (e >= limit || l >= limit) {
 		struct gp_box eb = gp_geos_shape_bounds(extra);
 		fail_msg("inside the seal front and back overlap %.9f mm2 "
 			 "more and %.9f mm2 less than the pixels (extra in "
@@ -822,6 +837,61 @@ static void header_agrees_with_csv(void **state)
 	finish(&f);
 }
 
+/* gerbv (Debian package, 2.9) reads every layer of routed glasses without
+ * a complaint, and draws something for each. */
+static void gerbv_reads_layers(const char *text)
+{
+	struct fixture f;
+	load_ok(&f, text);
+	char *folder = temporary_folder();
+	assert_true(gp_build_write(f.build, folder, &f.diag));
+	static const char *const layers[] = { "front-ito", "back-ito", "seal",
+					      "transfer", "front-outline",
+					      "back-outline" };
+	const struct gp_box fb = f.design->front.box, bb = f.design->back.box;
+	struct gerbv_frame frame = {
+		gp_mm(fb.x0 < bb.x0 ? fb.x0 : bb.x0) - 1,
+		gp_mm(fb.y0 < bb.y0 ? fb.y0 : bb.y0) - 1,
+		gp_mm(fb.x1 > bb.x1 ? fb.x1 : bb.x1) + 1,
+		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 200, 2
+	};
+	int seen = 0;
+	for (size_t i = 0; i < sizeof(layers) / sizeof(layers[0]); i++) {
+		char gbr[1024], png[1024], err[256];
+		snprintf(gbr, sizeof(gbr), "%s/%s.gbr", folder, layers[i]);
+		snprintf(png, sizeof(png), "%s/%s.png", folder, layers[i]);
+		if (access(gbr, R_OK) != 0)
+			continue;
+		struct gerbv_result result;
+		memset(&result, 0, sizeof(result));
+		if (!gerbv_render(getenv("GERBV"), gbr, png, &frame, &result,
+				  err, sizeof(err)))
+			fail_msg("%s: %s", layers[i], err);
+		if (result.complaints[0] || !result.any_dark)
+			fail_msg("%s: gerbv says \"%s\"%s", layers[i],
+				 result.complaints,
+				 result.any_dark ? "" : " and drew nothing");
+		gerbv_result_finish(&result);
+		seen++;
+	}
+	assert_int_equal(seen, 6);
+	char command[1200];
+	snprintf(command, sizeof(command), "rm -rf '%s'", folder);
+	assert_int_equal(system(command), 0);
+	free(folder);
+	finish(&f);
+}
+
+static void gerbv_reads_routed(void **state)
+{
+	(void)state;
+	char *text = glass("    pitch: 0.5\n    pad_width: 0.25\n",
+			   "transfers: {size: 0.2, count: 3, place: outside}\n"
+			   "leads: {commons: left, width: 0.08, space: 0.06}\n");
+	gerbv_reads_layers(text);
+	free(text);
+}
+
 static void csv_columns(void **state)
 {
 	(void)state;
@@ -858,6 +928,7 @@ int main(void)
 		cmocka_unit_test(map_unknown_net),
 		cmocka_unit_test(header_agrees_with_csv),
 		cmocka_unit_test(csv_columns),
+		cmocka_unit_test(gerbv_reads_routed),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
