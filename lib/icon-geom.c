@@ -544,3 +544,179 @@ bool gp_bridges_join(struct gp_geos *geos, const struct gp_polyset *parts,
 	free(parent);
 	return ok;
 }
+
+/* --- lead-ins -------------------------------------------------------------- */
+
+static double dot(double x, double y, double dx, double dy)
+{
+	return x * dx + y * dy;
+}
+
+/* How far along the line the box reaches (largest and least t). */
+static void box_extent(struct gp_box b, const struct line *l, double *t0,
+		       double *t1)
+{
+	double xs[2] = { (double)b.x0, (double)b.x1 };
+	double ys[2] = { (double)b.y0, (double)b.y1 };
+	*t0 = INFINITY;
+	*t1 = -INFINITY;
+	for (int i = 0; i < 2; i++)
+		for (int j = 0; j < 2; j++) {
+			double t = dot(xs[i] - l->ox, ys[j] - l->oy, l->ux,
+				       l->uy);
+			*t0 = t < *t0 ? t : *t0;
+			*t1 = t > *t1 ? t : *t1;
+		}
+}
+
+/* Across the line: does box b come within half of the band? */
+static bool in_band(struct gp_box b, const struct line *l, double half)
+{
+	double nx = -l->uy, ny = l->ux, lo = INFINITY, hi = -INFINITY;
+	double xs[2] = { (double)b.x0, (double)b.x1 };
+	double ys[2] = { (double)b.y0, (double)b.y1 };
+	for (int i = 0; i < 2; i++)
+		for (int j = 0; j < 2; j++) {
+			double s = dot(xs[i] - l->ox, ys[j] - l->oy, nx, ny);
+			lo = s < lo ? s : lo;
+			hi = s > hi ? s : hi;
+		}
+	return lo < half && hi > -half;
+}
+
+struct lead_try {
+	struct gp_geos *geos;
+	const struct gp_polyset *from;
+	struct gp_geos_shape *from_shape;
+	const struct gp_lead_keep *keep;
+	int64_t width;
+};
+
+/* The lead along line l: from inside the part it last leaves to past
+ * every box in the way; *ok false on failure, out empty when none. */
+static bool lead_along(struct lead_try *c, const struct line *l,
+		       struct gp_polygon *out, struct gp_point *end)
+{
+	struct span *spans = NULL;
+	size_t count = 0;
+	bool ok = true;
+	gp_polygon_init(out);
+	for (size_t k = 0; ok && k < c->from->count; k++)
+		ok = line_spans(&c->from->items[k], l, 0, &spans, &count);
+	if (!ok || count == 0) {
+		free(spans);
+		return ok;
+	}
+	double exit = -INFINITY, len = 0, w = (double)c->width;
+	for (size_t k = 0; k < count; k++)
+		if (spans[k].t1 > exit) {
+			exit = spans[k].t1;
+			len = spans[k].t1 - spans[k].t0;
+		}
+	free(spans);
+	double side_half = w / 2 + (double)c->keep->same_distance;
+	for (size_t k = 0; k < c->keep->blocked_count; k++) {
+		double t0, t1;
+		box_extent(c->keep->blocked[k], l, &t0, &t1);
+		if (t1 > exit && in_band(c->keep->blocked[k], l, side_half))
+			return true; /* no way out along this line */
+	}
+	double start = exit - (len < w ? len : w);
+	double stop = exit + (double)c->keep->past;
+	double half = w / 2 + (double)c->keep->past;
+	for (size_t k = 0; k < c->keep->beyond_count; k++) {
+		double t0, t1;
+		box_extent(c->keep->beyond[k], l, &t0, &t1);
+		if (t1 > exit && in_band(c->keep->beyond[k], l, half) &&
+		    t1 + (double)c->keep->past > stop)
+			stop = t1 + (double)c->keep->past;
+	}
+	if (!strip(l->ox + l->ux * start, l->oy + l->uy * start,
+		   l->ox + l->ux * stop, l->oy + l->uy * stop, w, out))
+		return false;
+	*end = (struct gp_point){ llround(l->ox + l->ux * (stop - w)),
+				  llround(l->oy + l->uy * (stop - w)) };
+	return true;
+}
+
+static bool lead_clear(struct lead_try *c, const struct gp_polygon *lead,
+		       bool *clear)
+{
+	struct gp_geos_shape *s = gp_geos_shape_from_polygon(c->geos, lead);
+	struct gp_geos_shape *outside =
+		s ? gp_geos_shape_difference(c->geos, s, c->from_shape) : NULL;
+	struct gp_keepout keep[2] = {
+		{ c->keep->same, c->keep->same_distance },
+		{ c->keep->other, c->keep->other_distance },
+	};
+	bool ok = outside != NULL;
+	*clear = ok;
+	for (int k = 0; ok && k < 2 && *clear; k++) {
+		if (!keep[k].shape || gp_geos_shape_is_empty(c->geos,
+							     keep[k].shape))
+			continue;
+		ok = clear_of(c->geos, outside, &keep[k], 1, clear);
+	}
+	gp_geos_shape_destroy(c->geos, s);
+	gp_geos_shape_destroy(c->geos, outside);
+	return ok;
+}
+
+bool gp_lead_find(struct gp_geos *geos, const struct gp_polyset *from,
+		  int side, int64_t width, const struct gp_lead_keep *keep,
+		  struct gp_polygon *lead, struct gp_point *end, bool *found)
+{
+	static const int dirs[4][2] = { { 0, -1 }, { 1, 0 }, { 0, 1 },
+					{ -1, 0 } };
+	double ux = dirs[side][0], uy = dirs[side][1];
+	struct lead_try c = { geos, from, NULL, keep, width };
+	*found = false;
+	gp_polygon_init(lead);
+	c.from_shape = gp_geos_shape_from_polyset(geos, from);
+	if (!c.from_shape)
+		return false;
+	/* positions across the lead, from the part's outermost point that
+	 * way, in steps of one width to both sides */
+	struct gp_box b = gp_box_none();
+	double best = -INFINITY, q_ext = 0;
+	for (size_t k = 0; k < from->count; k++) {
+		const struct gp_ring *r = &from->items[k].outer;
+		b = gp_box_union(b, gp_polygon_bounds(&from->items[k]));
+		for (size_t i = 0; i < r->count; i++) {
+			double x = (double)r->points[i].x;
+			double y = (double)r->points[i].y;
+			if (dot(x, y, ux, uy) > best) {
+				best = dot(x, y, ux, uy);
+				q_ext = ux != 0 ? y : x;
+			}
+		}
+	}
+	double q0 = ux != 0 ? (double)b.y0 : (double)b.x0;
+	double q1 = ux != 0 ? (double)b.y1 : (double)b.x1;
+	int steps = (int)((q1 - q0) / (double)width) + 1;
+	bool ok = true;
+	for (int k = 0; ok && !*found && k <= 2 * steps; k++) {
+		double q = q_ext + (double)((k + 1) / 2) * (double)width *
+					   (k % 2 ? 1 : -1);
+		if (q < q0 + (double)width / 2 || q > q1 - (double)width / 2)
+			continue;
+		struct line l = { .ux = ux, .uy = uy };
+		l.ox = ux != 0 ? 0 : q;
+		l.oy = ux != 0 ? q : 0;
+		struct gp_polygon candidate;
+		struct gp_point at;
+		ok = lead_along(&c, &l, &candidate, &at);
+		bool clear = false;
+		if (ok && candidate.outer.count)
+			ok = lead_clear(&c, &candidate, &clear);
+		if (ok && clear) {
+			*lead = candidate;
+			*end = at;
+			*found = true;
+		} else {
+			gp_polygon_finish(&candidate);
+		}
+	}
+	gp_geos_shape_destroy(geos, c.from_shape);
+	return ok;
+}
