@@ -140,6 +140,12 @@ static bool group_add(struct groups *g, size_t gi, const struct gp_polygon *p)
 	return true;
 }
 
+static size_t group_of(const struct gp_digits *row, size_t unit,
+		       const struct gp_digit_part *p)
+{
+	return row->duty == 1 ? 0 : unit * (size_t)row->duty + (size_t)p->common - 1;
+}
+
 static bool make_groups(const struct gp_digits *row, struct gp_digit_row *out,
 			struct groups *g)
 {
@@ -159,8 +165,7 @@ static bool make_groups(const struct gp_digits *row, struct gp_digit_row *out,
 		struct gp_digit_unit *u = &out->units[i];
 		for (int k = 0; k < u->part_count; k++) {
 			struct gp_digit_part *p = &u->parts[k];
-			size_t gi = row->duty == 1 ? 0
-				    : i * (size_t)row->duty + (size_t)p->common - 1;
+			size_t gi = group_of(row, i, p);
 			for (int j = 0; j < p->poly_count; j++)
 				if (!group_add(g, gi, &p->poly[j]))
 					return false;
@@ -273,8 +278,8 @@ static bool static_fill(struct gp_geos *geos, const struct gp_digit_row *out,
 	}
 	if (!gp_geos_dilate_box(geos, &hulls, pr->margin, pr->margin, &grown) ||
 	    !gp_geos_difference(geos, &traces, &fronts, &bare) ||
-	    !gp_geos_offset(geos, &bare, pr->clearance + pr->chord_tolerance,
-			    GP_JOIN_ROUND, pr->chord_tolerance, &zone) ||
+	    !gp_geos_dilate_box(geos, &bare, pr->clearance, pr->clearance,
+				&zone) ||
 	    !gp_geos_difference(geos, &grown, &zone, &fill))
 		goto done;
 	for (size_t i = 0; i < patch->count; i++) {
@@ -320,16 +325,24 @@ static bool add_patches(struct gp_build *build, const struct gp_digits *row,
 	for (size_t i = 0; i < g.count; i++)
 		gp_polyset_init(&patches[i]);
 	/* A trace must stay clear of patches under any shift of up to the
-	 * registration in x and in y: that is a diagonal of r sqrt 2. */
+	 * registration in x and in y: cleared by exactly that box.  Both
+	 * boxes are 2 nm larger, so that snapping the results to the 1 nm
+	 * grid cannot leave a sliver short. */
 	struct gp_patch_rules pr = {
-		.margin = rules->registration,
+		.margin = rules->registration + 2,
 		.min_space = rules->min_space,
-		.clearance = (int64_t)ceil((double)rules->registration * sqrt(2.0)),
+		.clearance = rules->registration + 2,
 		.chord_tolerance = rules->chord_tolerance,
+		.clearance_box = true,
 	};
 	if (!gp_patch_make(geos, g.items, g.count, traces, trace_count, &pr,
 			   patches, diag))
 		goto done;
+	/* Where a lead-in leaves its segment the notch takes the segment's
+	 * margin there: a shift toward the lead-in uncovers a sliver at most
+	 * (line + 2 registration) wide.  Keeping the margin instead would
+	 * put the lead-in's root under the patch, an overlap outside the
+	 * pixel; both at once cannot be had.  The check measures the loss. */
 	if (row->duty == 1 && !static_fill(geos, out, &pr, &patches[0]))
 		goto done;
 	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));

@@ -59,6 +59,13 @@ struct plan {
 	struct gp_digit_unit *unit;
 	double w, sp, pitch;      /* lead width, space, lane pitch */
 	double delta;             /* half the distance of two side by side */
+	/* How far a lead-in running beside a segment keeps from it: the
+	 * segment's back patch reaches out by the registration box and the
+	 * patch is notched by the same box around the lead-in; two boxes of
+	 * r across any edge direction need 2 r (|nx| + |ny|) <= 2 r sqrt 2,
+	 * so at this distance the notch never reaches into what the segment
+	 * needs and every segment stays covered under any shift. */
+	double keep;
 	struct route routes[GP_UNIT_MAX_TRACES];
 	int n;
 	bool overflow;
@@ -279,8 +286,12 @@ static struct pt inside_near(const struct plan *p, const struct gp_polygon *poly
 			best = v;
 		}
 	}
-	return (struct pt){ best.x + 0.25 * (c.x - best.x),
-			    best.y + 0.25 * (c.y - best.y) };
+	/* a line width in, so that a lead-in from here leaves through the
+	 * corner rather than along a side */
+	double d = hypot(c.x - best.x, c.y - best.y);
+	double k = d > 0 ? fmin(0.25, 2 * p->w / d) : 0;
+	return (struct pt){ best.x + k * (c.x - best.x),
+			    best.y + k * (c.y - best.y) };
 }
 
 struct line {
@@ -321,15 +332,15 @@ static struct pt foot(struct line l, struct pt q)
 /* Where a lead along l leaves the unit sideways (left or right) or down. */
 static struct pt leave_side(const struct plan *p, struct line l, bool right)
 {
-	double u = right ? p->fr.W + (p->sp + p->w / 2) * p->fr.sec
-			 : -(p->sp + p->w / 2) * p->fr.sec;
+	double u = right ? p->fr.W + (p->keep + p->w / 2) * p->fr.sec
+			 : -(p->keep + p->w / 2) * p->fr.sec;
 	struct line side = line_through(P(p, u, 0), P(p, u, p->fr.H));
 	return line_meet(l, side);
 }
 
 static struct pt leave_down(const struct plan *p, struct line l)
 {
-	struct line base = { { 0, -(p->sp + p->w) / 2 }, { 1, 0 } };
+	struct line base = { { 0, -(p->keep + p->w / 2) }, { 1, 0 } };
 	return line_meet(l, base);
 }
 
@@ -356,6 +367,20 @@ static void down(struct plan *p, const char *name, int poly, double u, double v)
 	if (r)
 		r->u_down = u;
 	note_down(p, r);
+}
+
+/* Upright position of the left side of the unit's point (far right when
+ * it has none). */
+static double point_left(const struct plan *p)
+{
+	int k = part_index(p->unit, "dp");
+	if (k < 0)
+		return INFINITY;
+	const struct gp_ring *r = &p->unit->parts[k].poly[0].outer;
+	double least = INFINITY;
+	for (size_t i = 0; i < r->count; i++)
+		least = fmin(least, upright(p, rel(p, r->points[i])));
+	return least;
 }
 
 /* Two (or one) lead-ins through a top corner: `outer` from the centre
@@ -395,7 +420,7 @@ static void top_corner(struct plan *p, const char *outer, const char *inner,
 	struct pt top_side = P(p, W / 2, H);   /* the top bar's side */
 	struct line lo = line_offset(g, top_side, d);
 	struct line li = line_offset(g, top_side, -d);
-	/* the diagonal: from near its end at the corner onto its line */
+	/* the diagonal: from just inside its end onto its line, out */
 	struct pt si = inside_near(p, &p->unit->parts[ii].poly[0], inner_corner);
 	push(ri, si);
 	push(ri, foot(li, si));
@@ -430,11 +455,21 @@ static void bottom_corner(struct plan *p, const char *outer, const char *inner,
 	struct pt mo = two ? edge_middle(p, &p->unit->parts[io].poly[0], false)
 			   : (struct pt){ 0, 0 };
 	if (p->row->figure.ends == GP_ENDS_SQUARE) {
-		enum route_kind k = right ? ROUTE_RIGHT : ROUTE_LEFT;
+		/* out along the channel over the bottom bar; on the right it
+		 * turns down at once, inside the point beside the digit */
+		enum route_kind k = right ? ROUTE_DOWN : ROUTE_LEFT;
 		struct route *ri = add_route(p, inner, 0, k);
 		struct pt mi = edge_middle(p, &p->unit->parts[ii].poly[0], false);
 		push(ri, (struct pt){ mi.x, mi.y + p->w });
 		push(ri, (struct pt){ mi.x, vch + d });
+		if (right && ri) {
+			/* between the digit and its point: in the middle
+			 * if the point is closer than keep */
+			ri->u_down = W + fmin((p->keep + p->w / 2) * f->sec,
+					      (point_left(p) - W) / 2);
+			push(ri, P(p, ri->u_down, vch + d));
+			note_down(p, ri);
+		}
 		if (two) {
 			struct route *ro = add_route(p, outer, 0, k);
 			push(ro, (struct pt){ mo.x, mo.y + p->w });
@@ -506,7 +541,7 @@ static void figure_routes(struct plan *p)
 static void over_the_top(struct plan *p)
 {
 	const struct gp_figure_frame *f = &p->fr;
-	double v = fmax(f->H + p->sp + p->w / 2, p->top + p->pitch);
+	double v = fmax(f->H + p->keep + p->w / 2, p->top + p->pitch);
 	static const char *const names[] = { "a", "a1", "a2" };
 	for (int i = 0; i < 3; i++) {
 		bool right = i == 2;
@@ -534,7 +569,8 @@ static void extra_routes(struct plan *p)
 		down(p, "dp", 0, upright(p, c), c.y);
 		struct gp_box b = gp_polygon_bounds(&p->unit->parts[k].poly[0]);
 		double r = (double)(b.x1 - b.x0) / 2;
-		p->right_edge = fmax(p->right_edge, upright(p, c) + r);
+		p->right_edge = fmax(p->right_edge, upright(p, c) + r +
+						 (p->keep - p->sp) * f->sec);
 	}
 	k = part_index(p->unit, "colon");
 	if (k >= 0) {
@@ -546,7 +582,7 @@ static void extra_routes(struct plan *p)
 		push(rl, lo);
 		if (rl)
 			rl->u_down = upright(p, lo);
-		double u = upright(p, hi) + (r + p->sp + p->w / 2) * f->sec;
+		double u = upright(p, hi) + (r + p->keep + p->w / 2) * f->sec;
 		struct route *rt = add_route(p, "colon", 1, ROUTE_DOWN);
 		push(rt, hi);
 		push(rt, P(p, u, hi.y));
@@ -588,13 +624,19 @@ static void assign_lanes(struct plan *p, enum route_kind kind)
 
 static double lane_u(const struct plan *p, enum route_kind kind, int lane)
 {
-	double off = (p->sp + p->w / 2 + (lane - 1) * p->pitch) * p->fr.sec;
+	double off = (p->w / 2 + (lane - 1) * p->pitch) * p->fr.sec;
+	/* clear of the figure (and the point) by keep, of lead-ins going
+	 * down beside it by the space */
 	if (kind == ROUTE_LEFT)
-		return fmin(0, p->left_edge - p->w / 2 * p->fr.sec) - off;
-	return fmax(p->fr.W, p->right_edge + p->w / 2 * p->fr.sec) + off;
+		return fmin(-p->keep * p->fr.sec,
+			    p->left_edge - (p->w / 2 + p->sp) * p->fr.sec) - off;
+	return fmax(p->fr.W + p->keep * p->fr.sec,
+		    p->right_edge + (p->w / 2 + p->sp) * p->fr.sec) + off;
 }
 
-static double lowest_v(const struct plan *p)
+/* Where the lead-ins end: clear of the unit's parts by keep and of the
+ * lead-ins' own bends by the space. */
+static double collect_v(const struct plan *p)
 {
 	double low = 0;
 	for (int i = 0; i < p->unit->part_count; i++) {
@@ -604,10 +646,11 @@ static double lowest_v(const struct plan *p)
 			low = fmin(low, (double)(b.y0 - p->unit->origin.y));
 		}
 	}
+	double v = low - p->keep;
 	for (int i = 0; i < p->n; i++)
-		for (int k = 0; k < p->routes[i].n; k++)
-			low = fmin(low, p->routes[i].pts[k].y - p->w / 2);
-	return low;
+		for (int k = 1; k < p->routes[i].n; k++)
+			v = fmin(v, p->routes[i].pts[k].y - p->w / 2 - p->sp);
+	return v - p->w / 2;
 }
 
 /* The lead-in of route r as a thick line ending at v_col. */
@@ -815,7 +858,7 @@ static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
 /* --- bars, ports, traces ------------------------------------------------------- */
 
 static bool add_trace(struct gp_digit_unit *u, const struct pt *pts, int n,
-		      double w, int part, int line, double u_end)
+		      double w, int part, int poly, int line, double u_end)
 {
 	if (u->trace_count == GP_UNIT_MAX_TRACES)
 		return false;
@@ -823,6 +866,7 @@ static bool add_trace(struct gp_digit_unit *u, const struct pt *pts, int n,
 	if (!thick_line(pts, n, w, u->origin, &t->poly))
 		return false;
 	t->part = part;
+	t->piece = poly;
 	t->line = line;
 	t->u_end = u_end;
 	u->trace_count++;
@@ -849,7 +893,7 @@ static bool make_traces(struct plan *p, struct gp_digit_row *out, size_t unit)
 	for (int i = 0; i < p->n; i++) {
 		struct route *r = &p->routes[i];
 		int line = u->parts[r->part].line;
-		if (!add_trace(u, r->pts, r->n, p->w, r->part, line,
+		if (!add_trace(u, r->pts, r->n, p->w, r->part, r->poly, line,
 			       upright(p, r->pts[r->n - 1])))
 			return false;
 	}
@@ -878,12 +922,13 @@ static bool make_traces(struct plan *p, struct gp_digit_row *out, size_t unit)
 		double x = ends[(n - 1) / 2];
 		double dv = p->v_end - p->v_col;
 		struct pt drop[2] = { { x, p->v_col }, { x + dv * p->fr.t, p->v_end } };
-		if (!add_trace(u, drop, 2, p->w, -1, line, upright(p, drop[1])))
+		if (!add_trace(u, drop, 2, p->w, -1, 0, line, upright(p, drop[1])))
 			return false;
 		if (n > 1) {
-			struct pt bar[2] = { { lo - p->w / 2, p->v_col },
-					     { hi + p->w / 2, p->v_col } };
-			if (!add_trace(u, bar, 2, p->w, -1, line, upright(p, drop[1])))
+			/* from centre to centre of the outer lead-ins: a
+			 * neighbouring line's bar stays a full pitch away */
+			struct pt bar[2] = { { lo, p->v_col }, { hi, p->v_col } };
+			if (!add_trace(u, bar, 2, p->w, -1, 0, line, upright(p, drop[1])))
 				return false;
 		}
 		struct gp_point at = { u->origin.x + llround(drop[1].x),
@@ -914,6 +959,7 @@ static bool plan_unit(const struct gp_digits *row,
 	p->sp = (double)rules->space;
 	p->pitch = p->w + p->sp;
 	p->delta = p->pitch / 2;
+	p->keep = fmax(p->sp, 2 * sqrt(2.0) * (double)rules->registration + 2);
 	p->left_edge = 0;
 	p->right_edge = p->fr.W;
 	p->top = p->fr.H;
@@ -928,7 +974,7 @@ static bool plan_unit(const struct gp_digits *row,
 	}
 	assign_lanes(p, ROUTE_LEFT);
 	assign_lanes(p, ROUTE_RIGHT);
-	p->v_col = lowest_v(p) - p->sp - p->w / 2;
+	p->v_col = collect_v(p);
 	p->v_end = p->v_col - p->w - p->sp;
 	for (int i = 0; i < p->n; i++)
 		finish_route(p, &p->routes[i]);

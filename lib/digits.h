@@ -184,6 +184,7 @@ struct gp_digit_part {
 struct gp_digit_trace {
 	struct gp_polygon poly;
 	int part;                 /* part it starts from, -1 for a bar */
+	int piece;                /* which polygon of that part */
 	int line;                 /* segment line, 1-based, once assigned */
 	double u_end;             /* upright position where it ends, nm */
 };

@@ -156,9 +156,13 @@ static bool notch_zone(struct work *w, const struct gp_polygon *traces,
 	outside = gp_geos_shape_difference(w->geos, t, fronts);
 	if (!outside)
 		goto done;
-	*zone = gp_geos_shape_offset(w->geos, outside,
-				     r->clearance + r->chord_tolerance,
-				     GP_JOIN_ROUND, r->chord_tolerance);
+	if (r->clearance_box)
+		*zone = gp_geos_shape_dilate_box(w->geos, outside, r->clearance,
+						 r->clearance);
+	else
+		*zone = gp_geos_shape_offset(w->geos, outside,
+					     r->clearance + r->chord_tolerance,
+					     GP_JOIN_ROUND, r->chord_tolerance);
 	ok = *zone != NULL;
 done:
 	gp_geos_shape_destroy(w->geos, t);

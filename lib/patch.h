@@ -41,6 +41,10 @@ struct gp_patch_rules {
 	int64_t min_space;       /* least gap between patches of two groups */
 	int64_t clearance;       /* gap kept between a patch and a front trace */
 	int64_t chord_tolerance; /* for the round clearances */
+	/* Clear the traces by the box [-clearance, clearance]^2 (a Minkowski
+	 * sum, exact for plate shifts of up to clearance in x and in y)
+	 * instead of a round offset; false keeps the round one. */
+	bool clearance_box;
 };
 
 /* Makes one patch per group: patches[i] (initialised by the caller) gets

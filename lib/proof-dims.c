@@ -9,6 +9,7 @@
  * is given as a reference. */
 #include "proof-internal.h"
 
+#include "route.h"
 #include "units.h"
 
 #include <math.h>
@@ -229,6 +230,60 @@ static void block_dims(const struct gp_design *d, struct dim_list *list)
 	}
 }
 
+static void digit_dims(const struct gp_design *d, struct dim_list *list)
+{
+	int64_t tol = span_tolerance(d);
+	size_t count = d->digit_count < MAX_DIM_BLOCKS ? d->digit_count
+						       : MAX_DIM_BLOCKS;
+	for (size_t i = 0; i < count; i++) {
+		const struct gp_digits *r = &d->digits[i];
+		if (r->count < 2)
+			continue;
+		int64_t top = r->origin.y + r->figure.height;
+		int64_t last = r->origin.x + (r->count - 1) * r->pitch;
+		int t = next_tier(list, TOP);
+		char prefix[64];
+		snprintf(prefix, sizeof(prefix), "%s digits 1-%ld: ", r->name,
+			 r->count);
+		from_feature(value_dim(list, TOP, t, r->origin.x,
+				       r->origin.x + r->pitch, "digit pitch ",
+				       0, true),
+			     top);
+		from_feature(value_dim(list, TOP, t + 1, d->front.box.x0,
+				       r->origin.x, "", 0, false),
+			     top);
+		from_feature(value_dim(list, TOP, t + 1, r->origin.x, last,
+				       prefix, tol, false),
+			     top);
+	}
+}
+
+/* The fill port's place and width along its side of the seal, as
+ * lib/seal.c lays it out (port_box there). */
+static void port_dims(const struct gp_design *d, struct dim_list *list)
+{
+	if (!d->routing || !d->routing->seal.given)
+		return;
+	const struct gp_seal_spec *s = &d->routing->seal;
+	struct gp_box in, out;
+	gp_seal_boxes(d, &in, &out);
+	bool across = s->port_side == GP_SIDE_BOTTOM ||
+		      s->port_side == GP_SIDE_TOP;
+	int64_t lo = across ? in.x0 : in.y0, hi = across ? in.x1 : in.y1;
+	int64_t c = s->port_position_given ? s->port_position : (lo + hi) / 2;
+	int64_t a = c - s->port_width / 2, b = a + s->port_width;
+	static const enum side sides[GP_SIDE_COUNT] = { BOTTOM, RIGHT, TOP,
+							LEFT };
+	enum side side = sides[s->port_side];
+	int64_t feature = s->port_side == GP_SIDE_BOTTOM ? out.y0
+			  : s->port_side == GP_SIDE_TOP  ? out.y1
+			  : s->port_side == GP_SIDE_LEFT ? out.x0
+							 : out.x1;
+	from_feature(value_dim(list, side, next_tier(list, side), a, b,
+			       "fill port ", 0, false),
+		     feature);
+}
+
 static void pad_dims(const struct gp_build *build, struct dim_list *list)
 {
 	struct pad_row rows[MAX_PAD_ROWS];
@@ -304,7 +359,9 @@ static void overview_dim_list(const struct gp_build *build,
 {
 	memset(list, 0, sizeof(*list));
 	block_dims(build->design, list);
+	digit_dims(build->design, list);
 	pad_dims(build, list);
+	port_dims(build->design, list);
 	plate_dims(build->design, list);
 }
 
@@ -536,11 +593,19 @@ static bool owned_box(const struct gp_artwork *art, int kind,
 {
 	*box = gp_box_none();
 	bool any = false;
+	int unit = -1;            /* digits: the first digit met (not a sign) */
 	for (size_t i = 0; i < art->pixel_count; i++) {
 		const struct gp_pixel *px = &art->pixels[i];
-		if (px->owner_kind != kind || px->owner != 0 ||
-		    (kind == GP_OWNER_DIGITS && px->a != 0))
+		if (px->owner_kind != kind || px->owner != 0)
 			continue;
+		if (kind == GP_OWNER_DIGITS) {
+			if (px->a == 0)
+				continue;
+			if (unit < 0)
+				unit = px->a;
+			if (px->a != unit)
+				continue;
+		}
 		*box = any ? gp_box_union(*box, px->box) : px->box;
 		any = true;
 	}
@@ -614,12 +679,6 @@ static double side_room(const struct dim_list *l, enum side side)
 /* Picks the largest enlargement at which the view fits in aw x ah. */
 static void detail_fit(struct detail *d, double aw, double ah)
 {
-	if (d->missing) {
-		d->scale = 0;
-		d->w = 100;
-		d->h = DETAIL_TITLE + 4;
-		return;
-	}
 	double rx = side_room(&d->dims, LEFT) + side_room(&d->dims, RIGHT);
 	double ry = side_room(&d->dims, TOP) + side_room(&d->dims, BOTTOM) +
 		    DETAIL_TITLE;
@@ -656,6 +715,9 @@ static int details_plan(const struct gp_build *build,
 	double x = x0, y = y0, shelf = 0;
 	for (int i = 0; i < DETAIL_COUNT; i++) {
 		struct detail *d = &details[i];
+		d->sheet = -1;    /* a note under the first sheet's views */
+		if (d->missing)
+			continue;
 		detail_fit(d, x1 - x0, y1 - y0);
 		if (x > x0 && x + d->w > x1) {
 			x = x0;
@@ -692,10 +754,6 @@ static void draw_detail(struct proof *p, const struct detail *d)
 	proof_font(p, 3.0, true);
 	proof_text(p, d->x, d->y + 4, ALIGN_LEFT, d->title);
 	proof_font(p, 2.5, false);
-	if (d->missing) {
-		proof_text(p, d->x, d->y + 9, ALIGN_LEFT, d->missing);
-		return;
-	}
 	proof_textf(p, d->x, d->y + 8.5, ALIGN_LEFT, "scale %d:1", d->scale);
 	double s = d->scale;
 	struct proof_view v;
@@ -721,6 +779,22 @@ static void draw_detail(struct proof *p, const struct detail *d)
 	draw_dims(p, &v, &d->dims, d->window);
 }
 
+/* What the design has no view of, in the band beside the title block. */
+static void detail_notes(struct proof *p, const struct detail *details)
+{
+	double x = PROOF_MARGIN + 4;
+	double y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H + 4;
+	cairo_set_source_rgb(p->cr, 0, 0, 0);
+	for (int i = 0; i < DETAIL_COUNT; i++) {
+		if (!details[i].missing)
+			continue;
+		proof_font(p, 2.5, false);
+		proof_textf(p, x, y, ALIGN_LEFT, "%s: %s.", details[i].title,
+			    details[i].missing);
+		y += 4;
+	}
+}
+
 void proof_sheets_details(struct proof *p)
 {
 	struct detail details[DETAIL_COUNT];
@@ -736,6 +810,8 @@ void proof_sheets_details(struct proof *p)
 		for (int i = 0; i < DETAIL_COUNT; i++)
 			if (details[i].sheet == sheet)
 				draw_detail(p, &details[i]);
+		if (sheet == 0)
+			detail_notes(p, details);
 		proof_end_sheet(p);
 	}
 }

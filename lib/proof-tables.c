@@ -2,6 +2,7 @@
  * results, and the cautions. */
 #include "proof-internal.h"
 
+#include "check.h"
 #include "drive.h"
 #include "route.h"
 #include "units.h"
@@ -80,8 +81,8 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 		break;
 	}
 	case GP_OWNER_DIGITS:
-		snprintf(what, sizeof(what), "digits %d, digit %d",
-			 px->owner + 1, px->a + 1);
+		snprintf(what, sizeof(what), "digit row %d, digit %d",
+			 px->owner + 1, px->a);
 		break;
 	default:
 		snprintf(what, sizeof(what), "icon %d", px->owner + 1);
@@ -530,27 +531,200 @@ void proof_sheets_spec(struct proof *p)
 
 /* --- check results ---------------------------------------------------------------- */
 
+/* Each finding takes two rows of the list: its fields, then its text. */
+static const char *const finding_header[] = {
+	"No.", "Severity", "Rule", "Nets", "Place x, y (mm)", "Value", "Limit",
+};
+static const double finding_widths[] = { 10, 16, 34, 28, 40, 30, 30 };
+#define FINDING_COLUMNS 7
+#define FINDING_MARK 1.8          /* marker radius, mm */
+
+static struct table finding_table(void)
+{
+	struct table t = { finding_header, finding_widths, FINDING_COLUMNS,
+			   0 };
+	for (int i = 0; i < t.columns; i++)
+		t.width += t.widths[i];
+	return t;
+}
+
+static size_t finding_count(const struct gp_build *build)
+{
+	return build->checked ? build->checks.count : 0;
+}
+
+/* Findings listed per sheet. */
+static size_t findings_per_sheet(const struct gp_proof_plan *plan)
+{
+	int rows, columns;
+	struct table t = finding_table();
+	table_capacity(plan, t.width, &rows, &columns);
+	size_t per = (size_t)(rows / 2) * (size_t)columns;
+	return per ? per : 1;
+}
+
 int proof_finding_sheet_count(const struct gp_build *build,
 			      const struct gp_proof_plan *plan)
 {
-	(void)build;
-	(void)plan;
-	return 1;
+	size_t n = finding_count(build), per = findings_per_sheet(plan);
+	return 1 + (int)((n + per - 1) / per);
+}
+
+/* As report.txt writes them (lib/check-report.c). */
+static void finding_value(char *text, size_t size, double v,
+			  enum gp_check_unit unit)
+{
+	switch (unit) {
+	case GP_UNIT_MM:
+		snprintf(text, size, "%.6g mm", v);
+		break;
+	case GP_UNIT_MM2:
+		snprintf(text, size, "%.6g mm\xc2\xb2", v);
+		break;
+	case GP_UNIT_FRACTION:
+		snprintf(text, size, "%.4g%%", 100 * v);
+		break;
+	case GP_UNIT_OHM:
+		snprintf(text, size, "%.4g ohm", v);
+		break;
+	case GP_UNIT_SECOND:
+		snprintf(text, size, "%.4g s", v);
+		break;
+	default:
+		snprintf(text, size, "%.4g", v);
+		break;
+	}
+}
+
+static const char *severity_text(enum gp_severity severity)
+{
+	return severity == GP_SEVERITY_ERROR     ? "error"
+	       : severity == GP_SEVERITY_WARNING ? "warning"
+						 : "note";
+}
+
+/* A numbered marker centred on the finding's place. */
+static void finding_mark(struct proof *p, size_t number,
+			 const struct gp_finding *f)
+{
+	double x = proof_x(&p->view, f->place.x);
+	double y = proof_y(&p->view, f->place.y);
+	char text[24];
+	snprintf(text, sizeof(text), "%zu", number);
+	proof_font(p, 2.0, true);
+	double r = FINDING_MARK;
+	double w = proof_text_width(p, text) / 2 + 0.6;
+	if (w > r)
+		r = w;
+	cairo_new_path(p->cr);
+	cairo_arc(p->cr, x, y, r, 0, 6.283185307179586);
+	cairo_set_source_rgba(p->cr, 1, 1, 1, 0.85);
+	cairo_fill_preserve(p->cr);
+	proof_set_colour(p, proof_finding_colour, 1.0);
+	cairo_set_line_width(p->cr, 0.3);
+	cairo_stroke(p->cr);
+	/* the digits' ink centred on the place: cap height 0.72 em */
+	proof_text(p, x, y + 0.36 * 2.0, ALIGN_CENTRE, text);
+}
+
+static void finding_row(struct proof *p, const struct table *t, double x,
+			double y, size_t number, const struct gp_finding *f)
+{
+	char no[24], nets[64], place[72], value[48], limit[48], a[32], b[32];
+	snprintf(no, sizeof(no), "%zu", number);
+	const char *n0 = f->nets[0] >= 0 ? p->art->nets[f->nets[0]].name : "";
+	const char *n1 = f->nets[1] >= 0 ? p->art->nets[f->nets[1]].name : "";
+	snprintf(nets, sizeof(nets), "%s%s%s", n0, *n0 && *n1 ? " " : "", n1);
+	proof_mm(a, sizeof(a), f->place.x);
+	proof_mm(b, sizeof(b), f->place.y);
+	snprintf(place, sizeof(place), "%s, %s", a, b);
+	finding_value(value, sizeof(value), f->value, f->unit);
+	finding_value(limit, sizeof(limit), f->limit, f->unit);
+	const char *cells[FINDING_COLUMNS] = {
+		no, severity_text(f->severity), gp_check_rule_name(f->rule),
+		nets, place, value, limit,
+	};
+	table_row(p, x, y, t, cells, false);
+	cairo_set_source_rgb(p->cr, 0.3, 0.3, 0.3);
+	proof_font(p, 2.0, false);
+	proof_text(p, x + t->widths[0] + 1, y + 2 * ROW_H - 1.1, ALIGN_LEFT,
+		   f->text);
+}
+
+static void findings_summary(struct proof *p, double x, double y)
+{
+	const struct gp_check_report *r = &p->build->checks;
+	cairo_set_source_rgb(p->cr, 0, 0, 0);
+	proof_font(p, 3.0, true);
+	if (!p->build->checked) {
+		proof_text(p, x, y, ALIGN_LEFT, "The checks did not run.");
+		return;
+	}
+	if (!r->count)
+		proof_text(p, x, y, ALIGN_LEFT,
+			   "No findings: every check passed.");
+	else
+		proof_textf(p, x, y, ALIGN_LEFT,
+			    "%zu finding%s (%zu error%s, %zu warning%s), each "
+			    "marked with its number; listed on the next "
+			    "sheet%s.",
+			    r->count, r->count == 1 ? "" : "s", r->errors,
+			    r->errors == 1 ? "" : "s", r->warnings,
+			    r->warnings == 1 ? "" : "s",
+			    p->plan.finding_sheets > 2 ? "s" : "");
+	/* what the checks skipped or stood in for, one line each */
+	proof_font(p, 2.2, false);
+	const char *s = r->notes.data ? r->notes.data : "";
+	for (int line = 0; *s && line < 6; line++) {
+		const char *end = strchr(s, '\n');
+		size_t n = end ? (size_t)(end - s) : strlen(s);
+		char text[256];
+		snprintf(text, sizeof(text), "%.*s", (int)n, s);
+		proof_text(p, x, y + 4.5 + line * 3.2, ALIGN_LEFT, text);
+		s += n + (end != NULL);
+	}
 }
 
 void proof_sheets_findings(struct proof *p)
 {
-	proof_begin_sheet(p, "Check results");
+	const struct gp_check_report *r = &p->build->checks;
+	size_t n = finding_count(p->build);
 	double x0, y0, x1, y1;
+	proof_begin_sheet(p, "Check results");
 	proof_area(p, &x0, &y0, &x1, &y1);
 	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.2);
 	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.2);
 	proof_plate_outlines(p, &p->view, true, true);
-	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	proof_font(p, 3.0, true);
-	proof_text(p, x0, y0 + 11, ALIGN_LEFT,
-		   "No findings: the checks have not run on this build.");
+	findings_summary(p, x0, y0 + 11);
+	/* later findings under earlier ones: number 1 stays on top */
+	for (size_t i = n; i-- > 0;)
+		finding_mark(p, i + 1, &r->findings[i]);
 	proof_end_sheet(p);
+
+	int rows, columns;
+	struct table t = finding_table();
+	table_capacity(&p->plan, t.width, &rows, &columns);
+	size_t next = 0;
+	for (int sheet = 1; sheet < p->plan.finding_sheets; sheet++) {
+		char title[64];
+		snprintf(title, sizeof(title), "Check results: list (%d of %d)",
+			 sheet, p->plan.finding_sheets - 1);
+		proof_begin_sheet(p, title);
+		for (int c = 0; c < columns && next < n; c++) {
+			double x = x0 + c * (t.width + 4);
+			double y = y0 + TABLE_TOP;
+			table_row(p, x, y, &t, t.header, true);
+			y += ROW_H;
+			table_rule(p, x, y, t.width);
+			for (int k = 0; k + 1 < rows && next < n; k += 2) {
+				finding_row(p, &t, x, y, next + 1,
+					    &r->findings[next]);
+				next++;
+				y += 2 * ROW_H;
+			}
+		}
+		proof_end_sheet(p);
+	}
 }
 
 /* --- cautions ------------------------------------------------------------------------ */

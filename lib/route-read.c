@@ -320,7 +320,7 @@ static struct gp_routing *routing_create(const struct gp_design *design)
 	g->marks.line = DEFAULT_MARK_LINE;
 	g->marks.gap = DEFAULT_MARK_GAP;
 	g->text.height = DEFAULT_TEXT_HEIGHT;
-	g->text.font = "DejaVu Sans";
+	g->text.font = "Liberation Sans";
 	return g;
 }
 

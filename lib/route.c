@@ -1,73 +1,16 @@
 /* Routing every net to a pad: choosing lead ends, the straight lead-outs
- * inside the seal, common transfers, and per ledge the tracks round the
- * seal and the 45-degree fan-out to the pads.
+ * inside the seal, notches in back patches, common transfers; each ledge
+ * is then routed by ledge.c.
  *
  * Each ledge is routed in its own "canonical" frame, the glass turned so
  * that the ledge is at the bottom; the results are turned back (turns by
  * multiples of 90 degrees are exact in integers). */
-#include "route.h"
-
-#include "build.h"
-#include "geos.h"
-#include "units.h"
+#include "route-private.h"
 
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-
-#define PI 3.14159265358979323846
-#define SQRT2 1.41421356237309504880
-
-/* --- frames ---------------------------------------------------------------- */
-
-static struct gp_point to_canon(enum gp_side ledge, struct gp_point p)
-{
-	switch (ledge) {
-	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
-	case GP_SIDE_LEFT: return (struct gp_point){ -p.y, p.x };
-	case GP_SIDE_RIGHT: return (struct gp_point){ p.y, -p.x };
-	default: return p;
-	}
-}
-
-static struct gp_point from_canon(enum gp_side ledge, struct gp_point p)
-{
-	switch (ledge) {
-	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
-	case GP_SIDE_LEFT: return (struct gp_point){ p.y, -p.x };
-	case GP_SIDE_RIGHT: return (struct gp_point){ -p.y, p.x };
-	default: return p;
-	}
-}
-
-static struct gp_box box_map(struct gp_box b, enum gp_side ledge, bool in)
-{
-	struct gp_point a = { b.x0, b.y0 }, c = { b.x1, b.y1 };
-	a = in ? to_canon(ledge, a) : from_canon(ledge, a);
-	c = in ? to_canon(ledge, c) : from_canon(ledge, c);
-	return gp_box_make(a.x < c.x ? a.x : c.x, a.y < c.y ? a.y : c.y,
-			   a.x > c.x ? a.x : c.x, a.y > c.y ? a.y : c.y);
-}
-
-static enum gp_side side_to_canon(enum gp_side ledge, enum gp_side s)
-{
-	return (enum gp_side)((s - ledge + GP_SIDE_COUNT) % GP_SIDE_COUNT);
-}
-
-static enum gp_side side_from_canon(enum gp_side ledge, enum gp_side s)
-{
-	return (enum gp_side)((s + ledge) % GP_SIDE_COUNT);
-}
-
-static const char *mm(char *buf, int64_t nm)
-{
-	gp_format_mm_short(buf, 32, nm);
-	return buf;
-}
-
-static int64_t max64(int64_t a, int64_t b) { return a > b ? a : b; }
-static int64_t min64(int64_t a, int64_t b) { return a < b ? a : b; }
 
 /* --- lead ends --------------------------------------------------------------- */
 
@@ -91,65 +34,7 @@ bool gp_build_add_lead_end(struct gp_build *build, int net,
 	return true;
 }
 
-/* --- the routing state ------------------------------------------------------- */
-
-struct cand {
-	enum gp_side side;
-	struct gp_point at;
-	int64_t width;
-};
-
-struct netstate {
-	int ledge;                /* -1: not routed */
-	struct cand cands[8];
-	int cand_count;
-	int chosen;
-	bool has_pad;             /* explicit map: pad known before routing */
-	int pin;                  /* index into build->pins, -1 */
-	bool transfer;
-	struct gp_box corridor;   /* electrode plate, real frame */
-	struct gp_box centre;     /* bounds of the net's electrodes */
-	int64_t ext;              /* narrow lead starts this far past the seal */
-	bool block_common;
-	int block_row;            /* row within its block, for the split */
-	int block_rows;
-};
-
-struct route {
-	struct gp_build *build;
-	const struct gp_design *design;
-	const struct gp_routing *g;
-	struct gp_diag *diag;
-	struct gp_box s_in, s_out;
-	struct netstate *nets;
-	size_t net_count;
-	int64_t space;            /* leads.space */
-	int64_t min_space;        /* rules.min_space */
-	size_t pin_first[GP_MAX_LEDGES];  /* first pad of each ledge */
-};
-
-static const char *net_name(const struct route *r, int net)
-{
-	return net >= 0 ? r->build->art.nets[net].name : "NC";
-}
-
-/* Plate box and the other plate's box. */
-static struct gp_box plate_box(const struct gp_design *d, enum gp_plate p)
-{
-	return p == GP_PLATE_FRONT ? d->front.box : d->back.box;
-}
-
 /* --- ledge checks ---------------------------------------------------------- */
-
-static int64_t box_edge(struct gp_box b, enum gp_side s)
-{
-	switch (s) {
-	case GP_SIDE_BOTTOM: return b.y0;
-	case GP_SIDE_TOP: return b.y1;
-	case GP_SIDE_LEFT: return b.x0;
-	default: return b.x1;
-	}
-}
 
 /* How far plate a sticks out past plate b on side s (negative: less). */
 static int64_t overhang(struct gp_box a, struct gp_box b, enum gp_side s)
@@ -256,7 +141,7 @@ static bool is_block_net(const struct gp_build *b, int net, bool *common,
 static void add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
-	if (n->cand_count < 8)
+	if (n->cand_count < 16)
 		n->cands[n->cand_count++] = (struct cand){ side, at, width };
 }
 
@@ -282,6 +167,94 @@ static void block_cands(struct route *r, int net, struct netstate *n)
 	}
 }
 
+/* Any other electrode: leave from its outermost point on each side, or
+ * from the outermost point of its first or last third along that side
+ * (so that an icon's front electrode and its back patch, whose outermost
+ * points line up, can leave side by side); each starts a little inside
+ * the electrode so that lead and electrode share area. */
+struct extreme {
+	struct gp_point p;
+	bool found;
+};
+
+static void consider(struct extreme *e, struct gp_point p, enum gp_side side)
+{
+	bool better = !e->found;
+	switch (side) {
+	case GP_SIDE_BOTTOM: better |= p.y < e->p.y; break;
+	case GP_SIDE_TOP: better |= p.y > e->p.y; break;
+	case GP_SIDE_LEFT: better |= p.x < e->p.x; break;
+	default: better |= p.x > e->p.x; break;
+	}
+	if (better)
+		e->p = p, e->found = true;
+}
+
+static void shape_cands(struct route *r, int net, struct netstate *n)
+{
+	const struct gp_artwork *art = &r->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(art->nets[net].plate);
+	struct gp_box b = gp_box_none();
+	for (size_t i = 0; i < art->shape_count; i++)
+		if (art->shapes[i].net == net && art->shapes[i].layer == layer)
+			b = gp_box_union(b, gp_polygon_bounds(&art->shapes[i].poly));
+	if (gp_box_is_empty(b))
+		return;
+	/* [side][0 whole, 1 first third, 2 last third] */
+	struct extreme e[GP_SIDE_COUNT][3];
+	memset(e, 0, sizeof(e));
+	int64_t w3 = (b.x1 - b.x0) / 3, h3 = (b.y1 - b.y0) / 3;
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->layer != layer)
+			continue;
+		const struct gp_ring *o = &s->poly.outer;
+		for (size_t k = 0; k < o->count; k++) {
+			struct gp_point p = o->points[k];
+			for (int d = 0; d < GP_SIDE_COUNT; d++) {
+				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
+				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
+				int64_t third = across ? w3 : h3;
+				consider(&e[d][0], p, (enum gp_side)d);
+				if (at <= third)
+					consider(&e[d][1], p, (enum gp_side)d);
+				if (at >= 2 * third)
+					consider(&e[d][2], p, (enum gp_side)d);
+			}
+		}
+	}
+	int64_t w = r->g->leads.width;
+	int64_t depth = min64(w, r->design->rules.registration / 2);
+	depth = min64(depth, min64(b.x1 - b.x0, b.y1 - b.y0) / 4);
+	static const enum gp_side order[] = { GP_SIDE_BOTTOM, GP_SIDE_LEFT,
+					      GP_SIDE_RIGHT, GP_SIDE_TOP };
+	for (int k = 0; k < 4; k++) {
+		for (int t = 0; t < 3; t++) {
+			if (!e[order[k]][t].found)
+				continue;
+			struct gp_point p = e[order[k]][t].p;
+			switch (order[k]) {
+			case GP_SIDE_BOTTOM: p.y += depth; break;
+			case GP_SIDE_TOP: p.y -= depth; break;
+			case GP_SIDE_LEFT: p.x += depth; break;
+			default: p.x -= depth; break;
+			}
+			add_cand(n, order[k], p, w);
+		}
+	}
+}
+
+static bool has_port(const struct route *r, int net)
+{
+	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+		const struct gp_digit_row *row = &r->build->digit_rows[i];
+		for (size_t k = 0; k < row->port_count; k++)
+			if (row->ports[k].net == net)
+				return true;
+	}
+	return false;
+}
+
 static bool collect_cands(struct route *r)
 {
 	const struct gp_artwork *art = &r->build->art;
@@ -300,9 +273,27 @@ static bool collect_cands(struct route *r)
 		if (e->net >= 0 && (size_t)e->net < r->net_count)
 			add_cand(&r->nets[e->net], e->side, e->at, e->width);
 	}
+	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+		const struct gp_digit_row *row = &r->build->digit_rows[i];
+		for (size_t k = 0; k < row->port_count; k++) {
+			const struct gp_digit_port *p = &row->ports[k];
+			if (p->net >= 0 && (size_t)p->net < r->net_count)
+				add_cand(&r->nets[p->net], GP_SIDE_BOTTOM,
+					 p->at, p->width);
+		}
+	}
 	for (size_t i = 0; i < r->net_count; i++)
 		if (r->nets[i].cand_count == 0)
 			block_cands(r, (int)i, &r->nets[i]);
+	/* every other net may also leave from its outer points (after the
+	 * ends its layout offered) */
+	for (size_t i = 0; i < r->net_count; i++) {
+		bool common = false;
+		int row, rows;
+		if (!is_block_net(r->build, (int)i, &common, &row, &rows) &&
+		    !has_port(r, (int)i))
+			shape_cands(r, (int)i, &r->nets[i]);
+	}
 	return true;
 }
 
@@ -359,12 +350,39 @@ static bool shape_is_box(const struct gp_shape *s)
 
 struct blocker {
 	struct route *r;
+	struct gp_geos *geos;
 	int net;
 	enum gp_plate plate;
 	struct gp_box box;
 	int hit;                  /* net that blocks, or -1 */
 	bool plate_hit;           /* on the other plate */
 };
+
+static bool shape_overlaps(struct blocker *k, const struct gp_shape *s,
+			   struct gp_box box)
+{
+	struct gp_geos_shape *a = gp_geos_shape_from_polygon(k->geos, &s->poly);
+	struct gp_geos_shape *b = gp_geos_shape_from_box(k->geos, box);
+	bool hit = true;
+	if (a && b)
+		hit = gp_geos_shape_overlaps_area(k->geos, b, a);
+	gp_geos_shape_destroy(k->geos, a);
+	gp_geos_shape_destroy(k->geos, b);
+	return hit;
+}
+
+static bool shape_nearer(struct blocker *k, const struct gp_shape *s,
+			 int64_t gap)
+{
+	struct gp_geos_shape *a = gp_geos_shape_from_polygon(k->geos, &s->poly);
+	struct gp_geos_shape *b = gp_geos_shape_from_box(k->geos, k->box);
+	double d = 0;
+	if (a && b && !gp_geos_shape_distance(k->geos, b, a, &d))
+		d = 0;
+	gp_geos_shape_destroy(k->geos, a);
+	gp_geos_shape_destroy(k->geos, b);
+	return d < (double)gap;
+}
 
 static void visit_blocker(void *user, size_t item)
 {
@@ -375,16 +393,20 @@ static void visit_blocker(void *user, size_t item)
 	enum gp_plate plate = s->layer == GP_LAYER_FRONT_ITO ? GP_PLATE_FRONT
 							     : GP_PLATE_BACK;
 	struct gp_box b = gp_polygon_bounds(&s->poly);
-	/* Bounds are exact for boxes and conservative otherwise. */
+	/* Bounds are exact for boxes; other shapes are asked of GEOS. */
 	if (plate != k->plate) {
+		/* a back patch gives way: it is notched round the lead */
+		if (s->role == GP_ROLE_PATCH)
+			return;
 		struct gp_box inner = k->box;
 		if (!boxes_overlap(inner, k->r->s_in) || !boxes_overlap(b, inner))
 			return;
-		if (!shape_is_box(s) || boxes_overlap(b, inner))
+		if (shape_is_box(s) || shape_overlaps(k, s, inner))
 			k->hit = s->net, k->plate_hit = true;
 	} else {
 		double gap = (double)k->r->min_space;
-		if (box_gap2(b, k->box) < gap * gap)
+		if (box_gap2(b, k->box) < gap * gap &&
+		    (shape_is_box(s) || shape_nearer(k, s, k->r->min_space)))
 			k->hit = s->net, k->plate_hit = false;
 	}
 }
@@ -430,167 +452,324 @@ static int64_t transfer_zone(const struct route *r)
 	return t->count * (t->size + t->margin) + t->margin;
 }
 
-static bool choose_ends(struct route *r, struct gp_geos_index *index)
+/* Candidates of a net ranked, each either free of the shapes already
+ * there or not; n->order[0..n->usable) are the free ones, best first. */
+static bool rank_ends(struct route *r, struct gp_geos_index *index,
+		      struct gp_geos *geos, int net)
 {
-	bool ok = true;
-	for (size_t i = 0; i < r->net_count; i++) {
-		struct netstate *n = &r->nets[i];
-		if (n->ledge < 0)
-			continue;
-		const struct gp_ledge *l = &r->g->ledges[n->ledge];
-		enum gp_plate plate = r->build->art.nets[i].plate;
-		n->transfer = plate != l->plate;
-		n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-		int order[8] = { 0 };
-		for (int k = 0; k < n->cand_count; k++)
-			order[k] = k;
-		for (int k = 1; k < n->cand_count; k++)
-			for (int j = k; j > 0 &&
-					cand_rank(r, n, &n->cands[order[j]]) <
-						cand_rank(r, n,
-							  &n->cands[order[j - 1]]);
-			     j--) {
-				int t = order[j];
-				order[j] = order[j - 1];
-				order[j - 1] = t;
-			}
-		n->chosen = -1;
-		struct blocker k = { .r = r, .net = (int)i, .plate = plate };
-		for (int c = 0; c < n->cand_count && n->chosen < 0; c++) {
-			k.box = corridor_box(r, &n->cands[order[c]], n->ext);
-			k.hit = -1;
-			struct gp_box q = k.box;
-			q.x0 -= r->min_space, q.y0 -= r->min_space;
-			q.x1 += r->min_space, q.y1 += r->min_space;
-			if (!gp_geos_index_query(index, q, visit_blocker, &k))
-				return false;
-			if (k.hit < 0)
-				n->chosen = order[c];
+	struct netstate *n = &r->nets[net];
+	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	enum gp_plate plate = r->build->art.nets[net].plate;
+	n->transfer = plate != l->plate;
+	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
+	int order[16] = { 0 };
+	for (int k = 0; k < n->cand_count; k++)
+		order[k] = k;
+	for (int k = 1; k < n->cand_count; k++)
+		for (int j = k; j > 0 && cand_rank(r, n, &n->cands[order[j]]) <
+						 cand_rank(r, n, &n->cands[order[j - 1]]);
+		     j--) {
+			int t = order[j];
+			order[j] = order[j - 1];
+			order[j - 1] = t;
 		}
-		if (n->cand_count == 0) {
-			ok = gp_diag_error(r->diag, NULL,
-					   "%s: net %s has no place to lead "
-					   "it out",
-					   r->design->spec->file,
-					   net_name(r, (int)i));
-		} else if (n->chosen < 0) {
-			char x[32], y[32];
-			const struct cand *c = &n->cands[order[0]];
-			ok = gp_diag_error(
-				r->diag, NULL,
-				"%s: the lead-out of %s from (%s, %s) mm "
-				"towards the %s is blocked by %s on the %s "
-				"plate, and so is every other way out",
-				r->design->spec->file, net_name(r, (int)i),
-				mm(x, c->at.x), mm(y, c->at.y),
-				gp_side_name(c->side), net_name(r, k.hit),
-				k.plate_hit ? "other" : "same");
-		} else {
-			n->corridor = corridor_box(r, &n->cands[n->chosen],
-						   n->ext);
-		}
+	struct blocker k = { .r = r, .geos = geos, .net = net, .plate = plate };
+	n->usable = 0;
+	n->first_hit = -1;
+	for (int c = 0; c < n->cand_count; c++) {
+		k.box = corridor_box(r, &n->cands[order[c]], n->ext);
+		k.hit = -1;
+		struct gp_box q = k.box;
+		q.x0 -= r->min_space, q.y0 -= r->min_space;
+		q.x1 += r->min_space, q.y1 += r->min_space;
+		if (!gp_geos_index_query(index, q, visit_blocker, &k))
+			return false;
+		if (k.hit < 0)
+			n->order[n->usable++] = order[c];
+		else if (n->first_hit < 0)
+			n->first_hit = k.hit, n->first_hit_plate = k.plate_hit;
 	}
-	return ok;
+	if (n->cand_count == 0)
+		return gp_diag_error(r->diag, NULL,
+				     "%s: net %s has no place to lead it out",
+				     r->design->spec->file, net_name(r, net));
+	if (n->usable == 0) {
+		char x[32], y[32];
+		const struct cand *c = &n->cands[order[0]];
+		return gp_diag_error(
+			r->diag, NULL,
+			"%s: the lead-out of %s from (%s, %s) mm towards the %s "
+			"is blocked by %s on the %s plate, and so is every other "
+			"way out",
+			r->design->spec->file, net_name(r, net), mm(x, c->at.x),
+			mm(y, c->at.y), gp_side_name(c->side),
+			net_name(r, n->first_hit),
+			n->first_hit_plate ? "other" : "same");
+	}
+	n->pick = 0;
+	return true;
 }
 
-/* Inside the seal, no two chosen corridors may clash. */
-static bool check_corridors(struct route *r, struct gp_geos *geos)
+/* What a chosen end occupies: its corridor on the electrode plate, and on
+ * the ledge plate where the narrow lead starts (and the transfer pad). */
+struct footprint {
+	int net;
+	enum gp_plate plate;
+	struct gp_box box;
+	bool corridor;            /* inside the seal: other plate must not
+				   * overlap it */
+	bool wide;                /* electrode-like: min_space applies */
+};
+
+static void set_choice(struct route *r, int net)
 {
+	struct netstate *n = &r->nets[net];
+	n->chosen = n->order[n->pick];
+	n->corridor = corridor_box(r, &n->cands[n->chosen], n->ext);
+}
+
+static size_t footprints(const struct route *r, int net, struct footprint *f)
+{
+	const struct netstate *n = &r->nets[net];
+	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	const struct cand *c = &n->cands[n->chosen];
 	size_t count = 0;
-	int *which = malloc((r->net_count + 1) * sizeof(*which));
-	struct gp_box *boxes = malloc((r->net_count + 1) * sizeof(*boxes));
+	f[count++] = (struct footprint){ net, r->build->art.nets[net].plate,
+					 n->corridor, true, true };
+	/* narrow lead just outside the seal, with its own space around */
+	int64_t w = min64(r->g->leads.width, c->width);
+	int64_t reach = n->ext + r->space + w;
+	struct cand stub = *c;
+	stub.width = w;
+	struct gp_box box = corridor_box(r, &stub, n->ext);
+	struct gp_box o = r->s_out;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: box = gp_box_make(box.x0, o.y0 - reach, box.x1, o.y0); break;
+	case GP_SIDE_TOP: box = gp_box_make(box.x0, o.y1, box.x1, o.y1 + reach); break;
+	case GP_SIDE_LEFT: box = gp_box_make(o.x0 - reach, box.y0, o.x0, box.y1); break;
+	default: box = gp_box_make(o.x1, box.y0, o.x1 + reach, box.y1); break;
+	}
+	f[count++] = (struct footprint){ net, l->plate, box, false, false };
+	if (n->transfer) {
+		struct cand pad = *c;
+		pad.width = r->g->transfers.size + 2 * r->g->transfers.margin;
+		f[count++] = (struct footprint){ net, l->plate,
+						 corridor_box(r, &pad, n->ext),
+						 false, true };
+	}
+	return count;
+}
+
+/* Two footprints clash: same plate and nearer than the space that
+ * applies, or other plates and overlapping inside the seal. */
+static bool clash(const struct route *r, const struct footprint *a,
+		  const struct footprint *b)
+{
+	if (a->net == b->net)
+		return false;
+	if (a->plate == b->plate) {
+		int64_t gap = a->wide && b->wide ? r->min_space : r->space;
+		return box_gap2(a->box, b->box) < (double)gap * (double)gap;
+	}
+	if (!a->corridor || !b->corridor || !boxes_overlap(a->box, b->box))
+		return false;
+	struct gp_box both = gp_box_make(max64(a->box.x0, b->box.x0),
+					 max64(a->box.y0, b->box.y0),
+					 min64(a->box.x1, b->box.x1),
+					 min64(a->box.y1, b->box.y1));
+	return boxes_overlap(both, r->s_in);
+}
+
+/* Finds the first clash among the chosen ends; false on error. */
+static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
+			int *nb, struct gp_box *where)
+{
+	size_t cap = 3 * r->net_count + 1, count = 0;
+	struct footprint *f = malloc(cap * sizeof(*f));
+	struct gp_box *boxes = malloc(cap * sizeof(*boxes));
 	struct gp_index_pair *pairs = NULL;
 	size_t pair_count = 0;
-	bool ok = which && boxes;
-	for (size_t i = 0; ok && i < r->net_count; i++) {
-		if (r->nets[i].ledge < 0 || r->nets[i].chosen < 0)
-			continue;
-		which[count] = (int)i;
-		boxes[count++] = r->nets[i].corridor;
-	}
-	ok = ok && gp_geos_box_pairs(geos, boxes, count, r->min_space, &pairs,
+	bool ok = f && boxes;
+	for (size_t i = 0; ok && i < r->net_count; i++)
+		if (r->nets[i].ledge >= 0)
+			count += footprints(r, (int)i, f + count);
+	for (size_t i = 0; ok && i < count; i++)
+		boxes[i] = f[i].box;
+	int64_t gap = max64(r->space, r->min_space);
+	ok = ok && gp_geos_box_pairs(geos, boxes, count, gap, &pairs,
 				     &pair_count);
-	for (size_t p = 0; ok && p < pair_count; p++) {
-		int a = which[pairs[p].a], b = which[pairs[p].b];
-		enum gp_plate pa = r->build->art.nets[a].plate;
-		enum gp_plate pb = r->build->art.nets[b].plate;
-		struct gp_box ba = boxes[pairs[p].a], bb = boxes[pairs[p].b];
-		bool clash = pa == pb ? box_gap2(ba, bb) <
-						(double)r->min_space *
-							(double)r->min_space
-				      : boxes_overlap(ba, bb);
-		if (clash) {
-			char x[32], y[32];
-			ok = gp_diag_error(r->diag, NULL,
-					   "%s: the lead-outs of %s and %s "
-					   "clash inside the seal near (%s, "
-					   "%s) mm",
-					   r->design->spec->file,
-					   net_name(r, a), net_name(r, b),
-					   mm(x, max64(ba.x0, bb.x0)),
-					   mm(y, max64(ba.y0, bb.y0)));
+	*na = *nb = -1;
+	for (size_t p = 0; ok && p < pair_count && *na < 0; p++) {
+		const struct footprint *a = &f[pairs[p].a], *b = &f[pairs[p].b];
+		if (clash(r, a, b)) {
+			*na = a->net < b->net ? a->net : b->net;
+			*nb = a->net < b->net ? b->net : a->net;
+			*where = gp_box_make(max64(a->box.x0, b->box.x0),
+					     max64(a->box.y0, b->box.y0),
+					     min64(a->box.x1, b->box.x1),
+					     min64(a->box.y1, b->box.y1));
 		}
 	}
 	free(pairs);
-	free(which);
+	free(f);
 	free(boxes);
+	return ok || gp_diag_error(r->diag, NULL, "out of memory");
+}
+
+/* Of two clashing nets, the one to take its next free end: the one now
+ * leaving a worse way (never trading a lead towards the ledge for one
+ * that is not), the later one on a tie; -1 when neither may move. */
+static int pick_mover(const struct route *r, int a, int b)
+{
+	const struct netstate *na = &r->nets[a], *nb = &r->nets[b];
+	int ra = cand_rank(r, na, &na->cands[na->chosen]);
+	int rb = cand_rank(r, nb, &nb->cands[nb->chosen]);
+	int left_a = na->usable - na->pick - 1, left_b = nb->usable - nb->pick - 1;
+	if (ra == rb && left_a > 0 && left_a > left_b)
+		return a;
+	if (left_b > 0 && rb >= ra)
+		return b;
+	if (left_a > 0 && ra >= rb)
+		return a;
+	/* moving the one with the better way would trade it for worse,
+	 * unless that way is not towards the ledge either */
+	if (left_b > 0 && rb > 0)
+		return b;
+	if (left_a > 0 && ra > 0)
+		return a;
+	return -1;
+}
+
+/* Every net takes its best free end; while two clash, the one with
+ * another free end (the later net first) moves to it. */
+static bool choose_ends(struct route *r, struct gp_geos_index *index,
+			struct gp_geos *geos)
+{
+	bool ok = true;
+	size_t rounds = 0;
+	for (size_t i = 0; i < r->net_count; i++) {
+		if (r->nets[i].ledge < 0)
+			continue;
+		if (!rank_ends(r, index, geos, (int)i))
+			ok = false;
+		else
+			set_choice(r, (int)i);
+		rounds += (size_t)r->nets[i].usable;
+	}
+	while (ok) {
+		int a, b;
+		struct gp_box where;
+		if (!first_clash(r, geos, &a, &b, &where))
+			return false;
+		if (a < 0)
+			return true;
+		int move = pick_mover(r, a, b);
+		if (move < 0 || rounds-- == 0) {
+			char x[32], y[32];
+			return gp_diag_error(
+				r->diag, NULL,
+				"%s: the lead-outs of %s and %s come too close "
+				"near (%s, %s) mm and neither has another way "
+				"out; move one of the elements",
+				r->design->spec->file, net_name(r, a),
+				net_name(r, b), mm(x, where.x0), mm(y, where.y0));
+		}
+		r->nets[move].pick++;
+		set_choice(r, move);
+	}
 	return ok;
 }
 
-/* --- shapes ------------------------------------------------------------------ */
+/* --- notches ------------------------------------------------------------- */
 
-/* Outline of a path of straight segments of width w with mitred corners
- * (corners here are 45 or 90 degrees, so mitres stay short). */
-static bool path_polygon(const struct gp_point *p, size_t n, int64_t w,
-			 struct gp_polygon *poly)
+/* Where a lead-out crosses a back patch of another net (the margin round
+ * an icon or digit), the patch is cut back from the lead by the distance a
+ * plate shift can bring them together (registration x sqrt 2), except
+ * under the patch's own front shapes, which stay covered.  A patch may not
+ * fall apart. */
+static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
+		      struct gp_box corridor, int lead_net)
 {
-	double h = (double)w / 2;
-	double *nx = malloc(n * sizeof(double)), *ny = malloc(n * sizeof(double));
-	bool ok = nx && ny;
-	for (size_t i = 0; ok && i + 1 < n; i++) {
-		double dx = (double)(p[i + 1].x - p[i].x);
-		double dy = (double)(p[i + 1].y - p[i].y);
-		double len = sqrt(dx * dx + dy * dy);
-		nx[i] = -dy / len;
-		ny[i] = dx / len;
+	struct gp_artwork *art = &r->build->art;
+	int net = art->shapes[shape].net;
+	int64_t clear = (int64_t)ceil((double)r->design->rules.registration *
+				      SQRT2) +
+			r->design->rules.chord_tolerance;
+	struct gp_polyset cut, keep, notch, patch, left;
+	gp_polyset_init(&cut);
+	gp_polyset_init(&keep);
+	gp_polyset_init(&notch);
+	gp_polyset_init(&patch);
+	gp_polyset_init(&left);
+	struct gp_polygon p;
+	gp_polygon_init(&p);
+	struct gp_box grown = gp_box_make(corridor.x0 - clear, corridor.y0 - clear,
+					  corridor.x1 + clear, corridor.y1 + clear);
+	bool ok = gp_polygon_set_box(&p, grown) && gp_polyset_take(&cut, &p);
+	for (size_t i = 0; ok && i < art->pixel_count; i++) {
+		const struct gp_pixel *px = &art->pixels[i];
+		if (px->common != net && px->segment != net)
+			continue;
+		ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
+					   : gp_polygon_set_box(&p, px->box);
+		ok = ok && gp_polyset_take(&keep, &p);
 	}
-	for (int side = 1; ok && side >= -1; side -= 2) {
-		for (size_t k = 0; k < n; k++) {
-			size_t i = side > 0 ? k : n - 1 - k;
-			double ox, oy;
-			if (i == 0) {
-				ox = nx[0], oy = ny[0];
-			} else if (i == n - 1) {
-				ox = nx[n - 2], oy = ny[n - 2];
-			} else {
-				double d = 1 + nx[i - 1] * nx[i] +
-					   ny[i - 1] * ny[i];
-				ox = (nx[i - 1] + nx[i]) / d;
-				oy = (ny[i - 1] + ny[i]) / d;
-			}
-			ok &= gp_ring_push(&poly->outer,
-					   p[i].x + llround(side * h * ox),
-					   p[i].y + llround(side * h * oy));
+	ok = ok && gp_geos_difference(geos, &cut, &keep, &notch) &&
+	     gp_polygon_copy(&p, &art->shapes[shape].poly) &&
+	     gp_polyset_take(&patch, &p) &&
+	     gp_geos_difference(geos, &patch, &notch, &left);
+	if (ok && left.count == 1) {
+		gp_polygon_finish(&art->shapes[shape].poly);
+		art->shapes[shape].poly = left.items[0];
+		gp_polygon_init(&left.items[0]);
+	} else if (ok) {
+		char x[32], y[32];
+		ok = gp_diag_error(r->diag, NULL,
+				   "%s: the lead-out of %s would cut the back "
+				   "patch of %s in %s near (%s, %s) mm; move "
+				   "the element or its neighbour",
+				   r->design->spec->file, net_name(r, lead_net),
+				   net_name(r, net),
+				   left.count ? "pieces" : "nothing",
+				   mm(x, corridor.x0), mm(y, corridor.y0));
+	}
+	gp_polygon_finish(&p);
+	gp_polyset_finish(&cut);
+	gp_polyset_finish(&keep);
+	gp_polyset_finish(&notch);
+	gp_polyset_finish(&patch);
+	gp_polyset_finish(&left);
+	return ok;
+}
+
+static bool notch_patches(struct route *r, struct gp_geos *geos)
+{
+	struct gp_artwork *art = &r->build->art;
+	bool ok = true;
+	for (size_t i = 0; ok && i < r->net_count; i++) {
+		struct netstate *n = &r->nets[i];
+		if (n->ledge < 0 || n->chosen < 0)
+			continue;
+		enum gp_layer other = gp_plate_ito_layer(
+			art->nets[i].plate == GP_PLATE_FRONT ? GP_PLATE_BACK
+							     : GP_PLATE_FRONT);
+		for (size_t k = 0; ok && k < art->shape_count; k++) {
+			const struct gp_shape *s = &art->shapes[k];
+			if (s->role != GP_ROLE_PATCH || s->layer != other ||
+			    s->net == (int)i)
+				continue;
+			struct gp_box b = gp_polygon_bounds(&s->poly);
+			int64_t c = r->design->rules.registration * 2;
+			struct gp_box q = n->corridor;
+			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
+			if (boxes_overlap(b, q))
+				ok = notch_one(r, geos, k, n->corridor, (int)i);
 		}
 	}
-	free(nx);
-	free(ny);
-	if (ok)
-		gp_polygon_normalize(poly);
 	return ok;
 }
 
-static bool add_path(struct route *r, enum gp_plate plate, int net,
-		     const struct gp_point *p, size_t n, int64_t w)
-{
-	struct gp_polygon poly;
-	gp_polygon_init(&poly);
-	bool ok = n >= 2 && path_polygon(p, n, w, &poly) &&
-		  gp_artwork_add_shape(&r->build->art, gp_plate_ito_layer(plate),
-				       GP_ROLE_LEAD, net, &poly);
-	gp_polygon_finish(&poly);
-	return ok;
-}
+/* --- transfers ---------------------------------------------------------- */
 
 /* A flattened circle: vertices on the circle, chord error within tol. */
 static bool circle_polygon(struct gp_point c, int64_t d, int64_t tol,
@@ -665,7 +844,10 @@ static bool check_transfer_room(struct route *r)
 	if (need <= band)
 		return true;
 	char a[32], b[32], c[32], d[32];
-	return gp_diag_error(r->diag, &t->where,
+	const struct gp_where *where = t->where.file ? &t->where
+			 : r->g->seal.where.file ? &r->g->seal.where
+						 : &r->g->ledges[0].where;
+	return gp_diag_error(r->diag, where,
 			     "%ld transfer dots of %s mm with %s mm margins "
 			     "need %s mm across the seal band, which is %s mm "
 			     "wide; use smaller or fewer dots, a wider seal "
@@ -673,869 +855,6 @@ static bool check_transfer_room(struct route *r)
 			     t->count, mm(a, t->size), mm(b, t->margin),
 			     mm(c, need), mm(d, band));
 }
-
-/* --- per ledge: order, pads, tracks, fan-out ---------------------------------- */
-
-struct item {
-	int net;
-	enum gp_side side;        /* canonical */
-	int64_t pos;              /* canonical coordinate along the side */
-	int64_t width;            /* narrow lead width */
-	int group;                /* 0 top-left, 1 left, 2 bottom, 3 right, 4 top-right */
-	int64_t key;
-	int pin;                  /* index into build->pins */
-	int64_t pad;              /* canonical pad centre x */
-	int64_t track;            /* track coordinate (x for sides, y for top) */
-	int64_t top_track;        /* y of the track above the seal */
-	int64_t arrive;           /* x where it enters the fan-out */
-	int64_t ytop, ybot;      /* diagonal fan-out */
-	bool orth;               /* fan-out with a horizontal run */
-	int64_t level_y, chamfer;
-};
-
-static int compare_items(const void *a, const void *b)
-{
-	const struct item *x = a, *y = b;
-	if (x->group != y->group)
-		return x->group < y->group ? -1 : 1;
-	if (x->key != y->key)
-		return x->key < y->key ? -1 : 1;
-	return (x->net > y->net) - (x->net < y->net);
-}
-
-struct ledge_ctx {
-	struct route *r;
-	struct gp_ledge *l;
-	int index;
-	struct gp_box out;        /* seal outer edge, canonical */
-	struct gp_box plate;      /* ledge plate, canonical */
-	struct item *items;
-	size_t count;
-	int64_t clear;            /* edge clearance for leads */
-};
-
-/* "COM1-COM8, SEG1-SEG80, COM16-COM9" */
-static void describe_order(const struct route *r, const int *nets, size_t n,
-			   char *out, size_t size)
-{
-	size_t used = 0;
-	out[0] = '\0';
-	for (size_t i = 0; i < n && used + 1 < size;) {
-		size_t j = i;
-		const struct gp_net *a = nets[i] >= 0 ? &r->build->art.nets[nets[i]] : NULL;
-		int step = 0;
-		while (a && j + 1 < n && nets[j + 1] >= 0) {
-			const struct gp_net *b = &r->build->art.nets[nets[j + 1]];
-			const struct gp_net *p = &r->build->art.nets[nets[j]];
-			int d = b->number - p->number;
-			if (b->kind != a->kind || (d != 1 && d != -1) ||
-			    (step && d != step))
-				break;
-			step = d;
-			j++;
-		}
-		if (j > i)
-			used += (size_t)snprintf(out + used, size - used,
-						 "%s%s-%s", i ? ", " : "",
-						 net_name(r, nets[i]),
-						 net_name(r, nets[j]));
-		else
-			used += (size_t)snprintf(out + used, size - used,
-						 "%s%s", i ? ", " : "",
-						 net_name(r, nets[i]));
-		if (used >= size)
-			used = size - 1;
-		i = j + 1;
-	}
-}
-
-static bool make_items(struct ledge_ctx *c)
-{
-	struct route *r = c->r;
-	size_t n = 0;
-	for (size_t i = 0; i < r->net_count; i++)
-		if (r->nets[i].ledge == c->index)
-			n++;
-	c->items = calloc(n ? n : 1, sizeof(*c->items));
-	if (!c->items)
-		return gp_diag_error(r->diag, NULL, "out of memory");
-	int64_t cut = (c->out.x0 + c->out.x1) / 2;
-	for (size_t i = 0; i < r->net_count; i++) {
-		struct netstate *ns = &r->nets[i];
-		if (ns->ledge != c->index)
-			continue;
-		const struct cand *cd = &ns->cands[ns->chosen];
-		struct item *it = &c->items[c->count++];
-		struct gp_point at = to_canon(c->l->side, cd->at);
-		it->net = (int)i;
-		it->side = side_to_canon(c->l->side, cd->side);
-		it->pos = it->side == GP_SIDE_BOTTOM || it->side == GP_SIDE_TOP
-				  ? at.x
-				  : at.y;
-		int64_t w = min64(r->g->leads.width, cd->width);
-		w = min64(w, c->l->pad_width);
-		it->width = max64(w, r->design->rules.min_line);
-		it->pin = ns->pin;
-		switch (it->side) {
-		case GP_SIDE_BOTTOM: it->group = 2, it->key = it->pos; break;
-		case GP_SIDE_LEFT: it->group = 1, it->key = -it->pos; break;
-		case GP_SIDE_RIGHT: it->group = 3, it->key = it->pos; break;
-		default:
-			it->group = it->pos < cut ? 0 : 4;
-			it->key = -it->pos;
-			break;
-		}
-	}
-	qsort(c->items, c->count, sizeof(*c->items), compare_items);
-	return true;
-}
-
-/* Leads leaving one side must be far enough apart outside the seal. */
-static bool check_exit_spacing(struct ledge_ctx *c)
-{
-	for (size_t i = 0; i + 1 < c->count; i++) {
-		struct item *a = &c->items[i], *b = &c->items[i + 1];
-		if (a->side != b->side)
-			continue;
-		int64_t need = (a->width + b->width) / 2 + c->r->space;
-		int64_t have = a->pos > b->pos ? a->pos - b->pos : b->pos - a->pos;
-		if (have < need) {
-			char x[32], y[32];
-			return gp_diag_error(
-				c->r->diag, &c->l->where,
-				"ledge '%s': the leads of %s and %s leave the "
-				"seal %s mm apart (centre to centre); they "
-				"need %s mm (lead width plus space)",
-				c->l->name, net_name(c->r, a->net),
-				net_name(c->r, b->net), mm(x, have),
-				mm(y, need));
-		}
-	}
-	return true;
-}
-
-/* Pad boxes of pins first.. first + count - 1 from the ledge's pin 1:
- * the span is the datum, pad k sits at pin1 + k * pitch directly. */
-static void place_pads(struct route *r, const struct gp_ledge *l,
-		       size_t first, size_t count)
-{
-	struct gp_box plate = plate_box(r->design, l->plate);
-	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
-	int64_t edge = box_edge(plate, l->side);
-	int sign = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_LEFT ? 1 : -1;
-	int64_t near = edge + sign * l->edge_clearance;
-	int64_t far = near + sign * l->pad_length;
-	for (size_t k = 0; k < count; k++) {
-		int64_t along = l->pin1 + l->direction * (int64_t)k * l->pitch;
-		int64_t w0 = l->pad_width / 2, w1 = l->pad_width - w0;
-		struct gp_pin *p = &r->build->pins[first + k];
-		p->box = across ? gp_box_make(along - w0, min64(near, far),
-					      along + w1, max64(near, far))
-				: gp_box_make(min64(near, far), along - w0,
-					      max64(near, far), along + w1);
-		p->centre = across ? (struct gp_point){ along, (near + far) / 2 }
-				   : (struct gp_point){ (near + far) / 2, along };
-	}
-}
-
-/* Pads of the ledge in the real frame, numbered; with a pin map the nets
- * are already on them. */
-static bool make_pads(struct route *r, struct gp_ledge *l, int index,
-		      size_t count, int first_pin)
-{
-	const struct gp_design *d = r->design;
-	struct gp_box plate = plate_box(d, l->plate);
-	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
-	int64_t lo = across ? plate.x0 : plate.y0;
-	int64_t hi = across ? plate.x1 : plate.y1;
-	int64_t clear = d->rules.edge_clearance;
-	int64_t span = (int64_t)(count - 1) * l->pitch;
-	char a[32], b[32], c[32], e[32], f[32], g[32];
-	if ((int64_t)count * l->pitch > hi - lo - 2 * clear + l->pitch - l->pad_width)
-		return gp_diag_error(
-			r->diag, &l->where,
-			"ledge '%s' is too short: %zu pads need %zu x (%s + "
-			"%s) = %s mm along the %s of the %s plate, but only "
-			"%s mm is available (%s mm between the edge "
-			"clearances and the %s mm gap the last pad does not "
-			"need)",
-			l->name, count, count, mm(a, l->pad_width),
-			mm(b, l->pitch - l->pad_width),
-			mm(c, (int64_t)count * l->pitch), gp_side_name(l->side),
-			l->plate == GP_PLATE_FRONT ? "front" : "back",
-			mm(e, hi - lo - 2 * clear + l->pitch - l->pad_width),
-			mm(f, hi - lo - 2 * clear), mm(g, l->pitch - l->pad_width));
-	if (!l->pin1_given)
-		l->pin1 = (lo + hi) / 2 - l->direction * (span / 2);
-	int64_t first = l->pin1, last = l->pin1 + l->direction * span;
-	int64_t low = min64(first, last) - l->pad_width / 2;
-	int64_t high = max64(first, last) + l->pad_width - l->pad_width / 2;
-	if (low < lo + clear || high > hi - clear)
-		return gp_diag_error(
-			r->diag, &l->where,
-			"ledge '%s': the pad row runs from %s to %s mm but "
-			"the ledge, less the edge clearance, is from %s to "
-			"%s mm; move 'pin1'",
-			l->name, mm(a, low), mm(b, high), mm(c, lo + clear),
-			mm(e, hi - clear));
-	/* across the ledge: from the edge clearance inwards */
-	int64_t edge = box_edge(plate, l->side);
-	int sign = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_LEFT ? 1 : -1;
-	int64_t near = edge + sign * l->edge_clearance;
-	int64_t far = near + sign * l->pad_length;
-	struct gp_box other = plate_box(d, l->plate == GP_PLATE_FRONT
-						   ? GP_PLATE_BACK
-						   : GP_PLATE_FRONT);
-	int64_t other_edge = box_edge(other, l->side);
-	if ((sign > 0 && far > other_edge) || (sign < 0 && far < other_edge))
-		return gp_diag_error(
-			r->diag, &l->where,
-			"ledge '%s': pads end at %s mm, under the other plate "
-			"(its edge is at %s mm); shorten 'pad_length' or "
-			"'edge_clearance'",
-			l->name, mm(a, far), mm(b, other_edge));
-	for (size_t k = 0; k < count; k++) {
-		struct gp_pin *p = &r->build->pins[r->build->pin_count++];
-		p->number = first_pin + (int)k;
-		p->ledge = index;
-		p->net = GP_NET_NONE;
-	}
-	place_pads(r, l, r->build->pin_count - count, count);
-	return true;
-}
-
-/* Tracks of the leads that go round the left (or, mirrored, right) of the
- * seal: the first in walking order is outermost. */
-static bool side_tracks(struct ledge_ctx *c, size_t from, size_t to,
-			bool left)
-{
-	struct route *r = c->r;
-	if (from == to)
-		return true;
-	int64_t edge = left ? c->out.x0 : c->out.x1;
-	int64_t sign = left ? -1 : 1;
-	int64_t at = edge + sign * (c->r->nets[c->items[from].net].ext +
-				    r->space);
-	int64_t need = 0;
-	/* inner to outer */
-	for (size_t k = 0; k < to - from; k++) {
-		size_t i = left ? to - 1 - k : from + k;
-		struct item *it = &c->items[i];
-		it->track = at + sign * (it->width / 2);
-		at += sign * (it->width + r->space);
-		need += it->width + r->space;
-	}
-	int64_t limit = left ? c->plate.x0 + c->clear : c->plate.x1 - c->clear;
-	int64_t last = at - sign * r->space;
-	if ((left && last >= limit) || (!left && last <= limit))
-		return true;
-	char a[32], b[32], d[32], e[32];
-	enum gp_side real = side_from_canon(c->l->side,
-					    left ? GP_SIDE_LEFT : GP_SIDE_RIGHT);
-	int64_t have = left ? edge - limit : limit - edge;
-	have -= r->nets[c->items[from].net].ext + r->space;
-	return gp_diag_error(
-		r->diag, &c->l->where,
-		"ledge '%s': %zu leads (%s to %s) pass the %s of the seal "
-		"outside it; they need %zu x (%s + %s) = %s mm but only %s "
-		"mm is free there between the seal and the edge clearance",
-		c->l->name, to - from, net_name(r, c->items[from].net),
-		net_name(r, c->items[to - 1].net), gp_side_name(real),
-		to - from, mm(a, c->items[from].width), mm(b, r->space),
-		mm(d, need), mm(e, have > 0 ? have : 0));
-}
-
-static bool top_tracks(struct ledge_ctx *c, size_t from, size_t to,
-		       bool left)
-{
-	struct route *r = c->r;
-	if (from == to)
-		return true;
-	int64_t at = c->out.y1 + r->nets[c->items[from].net].ext + r->space;
-	int64_t need = 0;
-	for (size_t k = 0; k < to - from; k++) {
-		/* left part: the first (nearest the cut) is outermost */
-		size_t i = left ? to - 1 - k : from + k;
-		struct item *it = &c->items[i];
-		it->top_track = at + it->width / 2;
-		at += it->width + r->space;
-		need += it->width + r->space;
-	}
-	if (at - r->space <= c->plate.y1 - c->clear)
-		return true;
-	char a[32], b[32], d[32], e[32];
-	enum gp_side real = side_from_canon(c->l->side, GP_SIDE_TOP);
-	int64_t have = c->plate.y1 - c->clear - c->out.y1 -
-		       r->nets[c->items[from].net].ext - r->space;
-	return gp_diag_error(
-		r->diag, &c->l->where,
-		"ledge '%s': %zu leads (%s to %s) leave the %s of the seal "
-		"and go round it; they need %zu x (%s + %s) = %s mm but only "
-		"%s mm is free there",
-		c->l->name, to - from, net_name(r, c->items[from].net),
-		net_name(r, c->items[to - 1].net), gp_side_name(real),
-		to - from, mm(a, c->items[from].width), mm(b, r->space),
-		mm(d, need), mm(e, have > 0 ? have : 0));
-}
-
-/* The fan-out from the arrivals to the pads works on runs: maximal
- * stretches of neighbours that move the same way.  Leads of different runs
- * never share an x (a lead moving right lies in [arrive, pad], the next
- * one moving left in [pad', arrive'] with pad' >= pad + w + s), so each run
- * takes whichever form fits. */
-static int direction(const struct item *it)
-{
-	return (it->pad > it->arrive) - (it->pad < it->arrive);
-}
-
-/* 45-degree form: leads moving the same way start their diagonals in a
- * staircase so that parallel diagonals keep lead width plus space between
- * them (their centre lines x + y = const then differ by at least
- * sqrt(2) (w + s)).  False when some lead would reach below y_pad. */
-static bool fan_diagonal(struct ledge_ctx *c, size_t from, size_t to,
-			 int64_t y_gather, int64_t y_pad)
-{
-	struct route *r = c->r;
-	struct item *it = c->items;
-	for (size_t i = from; i < to; i++)
-		it[i].ytop = y_gather, it[i].orth = false;
-	for (size_t i = to; i-- > from + 1;) {
-		struct item *a = &it[i - 1], *b = &it[i];
-		int64_t g = (a->width + b->width) / 2 + r->space;
-		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
-		if (direction(a) > 0)
-			a->ytop = min64(y_gather, b->ytop + (b->arrive - a->arrive) - need);
-	}
-	for (size_t i = from + 1; i < to; i++) {
-		struct item *a = &it[i - 1], *b = &it[i];
-		int64_t g = (a->width + b->width) / 2 + r->space;
-		int64_t need = (int64_t)ceil(SQRT2 * (double)g) + 2;
-		if (direction(b) < 0)
-			b->ytop = min64(y_gather, a->ytop + (b->arrive - a->arrive) - need);
-	}
-	bool fits = true;
-	for (size_t i = from; i < to; i++) {
-		int64_t shift = it[i].pad - it[i].arrive;
-		it[i].ybot = it[i].ytop - (shift < 0 ? -shift : shift);
-		fits &= it[i].ybot - it[i].width >= y_pad;
-	}
-	return fits;
-}
-
-/* Form with horizontal runs, for shifts too long to make at 45 degrees:
- * each lead goes down, along its level, and down to its pad, with its
- * corners cut at 45 degrees.  Of two neighbours whose runs overlap, the
- * one ahead takes the higher level, so no run crosses a neighbour's drop.
- * Levels are (widest lead + space) apart; corner cuts are at most half
- * that, so cut corners of neighbours stay more than sqrt(2) (w + s) apart
- * along their diagonals. */
-static bool fan_levels(struct ledge_ctx *c, size_t from, size_t to,
-		       int64_t y_gather, int64_t y_pad)
-{
-	struct route *r = c->r;
-	struct item *it = c->items;
-	int64_t maxw = 0;
-	for (size_t i = 0; i < c->count; i++)
-		maxw = max64(maxw, it[i].width);
-	int64_t step = maxw + r->space, cut = step / 2;
-	int dir = direction(&it[from]);
-	long *level = calloc(to - from, sizeof(*level));
-	if (!level)
-		return gp_diag_error(r->diag, NULL, "out of memory");
-	if (dir > 0) {
-		for (size_t i = to; i-- > from + 1;)
-			if (it[i - 1].pad + step > it[i].arrive)
-				level[i - 1 - from] = level[i - from] + 1;
-	} else {
-		for (size_t i = from + 1; i < to; i++)
-			if (it[i].pad - step < it[i - 1].arrive)
-				level[i - from] = level[i - 1 - from] + 1;
-	}
-	long most = 0;
-	size_t deepest = from;
-	for (size_t i = from; i < to; i++) {
-		int64_t shift = it[i].pad - it[i].arrive;
-		int64_t mag = shift < 0 ? -shift : shift;
-		if (level[i - from] > most)
-			most = level[i - from], deepest = i;
-		it[i].orth = true;
-		it[i].level_y = y_gather - cut - level[i - from] * step;
-		it[i].chamfer = min64(cut, mag / 2);
-	}
-	free(level);
-	/* room: levels from y_gather - cut down, the lowest still a corner
-	 * cut and a lead width above the pads */
-	int64_t need = (most + 1) * step;
-	int64_t have = y_gather - y_pad - 2 * cut - maxw + step;
-	if (need <= have)
-		return true;
-	/* the chain of leads stacked with the deepest */
-	size_t first = deepest, last = deepest;
-	while (dir > 0 && last + 1 < to &&
-	       it[last].pad + step > it[last + 1].arrive)
-		last++;
-	while (dir < 0 && first > from &&
-	       it[first].pad - step < it[first - 1].arrive)
-		first--;
-	char a[32], b[32], d[32], e[32];
-	return gp_diag_error(
-		r->diag, &c->l->where,
-		"ledge '%s': to fan out to the pads, %ld leads (%s to %s) must "
-		"run sideways one above the other between the seal and the "
-		"pads; they need %ld x (%s + %s) = %s mm but only %s mm is "
-		"free there; make the ledge deeper, move the seal or bring "
-		"the pad pitch closer to the electrode pitch",
-		c->l->name, most + 1, net_name(r, it[first].net),
-		net_name(r, it[last].net), most + 1, mm(a, maxw),
-		mm(b, r->space), mm(d, need), mm(e, have > 0 ? have : 0));
-}
-
-static bool fan_out(struct ledge_ctx *c, int64_t y_gather, int64_t y_pad)
-{
-	struct item *it = c->items;
-	for (size_t from = 0; from < c->count;) {
-		size_t to = from + 1;
-		int dir = direction(&it[from]);
-		while (dir != 0 && to < c->count && direction(&it[to]) == dir)
-			to++;
-		if (dir == 0) {
-			it[from].orth = false;
-			it[from].ytop = it[from].ybot = y_gather;
-		} else if (!fan_diagonal(c, from, to, y_gather, y_pad) &&
-			   !fan_levels(c, from, to, y_gather, y_pad)) {
-			return false;
-		}
-		from = to;
-	}
-	return true;
-}
-
-struct pathbuf {
-	struct gp_point p[16];
-	size_t n;
-};
-
-static int sgn(int64_t v)
-{
-	return (v > 0) - (v < 0);
-}
-
-static void push(struct pathbuf *b, int64_t x, int64_t y)
-{
-	struct gp_point q = { x, y };
-	if (b->n && b->p[b->n - 1].x == x && b->p[b->n - 1].y == y)
-		return;
-	if (b->n >= 2) {
-		struct gp_point u = b->p[b->n - 2], v = b->p[b->n - 1];
-		/* drop v when u->v and v->q run the same way (segments
-		 * here are horizontal, vertical or at 45 degrees) */
-		if (sgn(v.x - u.x) == sgn(q.x - v.x) &&
-		    sgn(v.y - u.y) == sgn(q.y - v.y)) {
-			b->p[b->n - 1] = q;
-			return;
-		}
-	}
-	if (b->n < 16)
-		b->p[b->n++] = q;
-}
-
-static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
-{
-	struct route *r = c->r;
-	enum gp_plate plate = c->l->plate;
-	for (size_t i = 0; i < c->count; i++) {
-		struct item *it = &c->items[i];
-		struct netstate *ns = &r->nets[it->net];
-		int64_t ov = it->width / 2;   /* overlap into the wide part */
-		int64_t start_out = ns->ext;
-		struct pathbuf b = { .n = 0 };
-		switch (it->side) {
-		case GP_SIDE_BOTTOM:
-			push(&b, it->pos, c->out.y0 - start_out + ov);
-			break;
-		case GP_SIDE_LEFT:
-			push(&b, c->out.x0 - start_out + ov, it->pos);
-			break;
-		case GP_SIDE_RIGHT:
-			push(&b, c->out.x1 + start_out - ov, it->pos);
-			break;
-		default:
-			push(&b, it->pos, c->out.y1 + start_out - ov);
-			push(&b, it->pos, it->top_track);
-			break;
-		}
-		if (it->side != GP_SIDE_BOTTOM) {
-			if (it->side == GP_SIDE_TOP)
-				push(&b, it->track, it->top_track);
-			else
-				push(&b, it->track, it->pos);
-		}
-		if (it->orth) {
-			int64_t k = it->chamfer;
-			int s = sgn(it->pad - it->arrive);
-			push(&b, it->arrive, it->level_y + k);
-			push(&b, it->arrive + s * k, it->level_y);
-			push(&b, it->pad - s * k, it->level_y);
-			push(&b, it->pad, it->level_y - k);
-		} else {
-			push(&b, it->arrive, it->ytop);
-			push(&b, it->pad, it->ybot);
-		}
-		push(&b, it->pad, y_pad_centre);
-		for (size_t k = 0; k < b.n; k++)
-			b.p[k] = from_canon(c->l->side, b.p[k]);
-		if (!add_path(r, plate, it->net, b.p, b.n, it->width))
-			return gp_diag_error(r->diag, NULL, "out of memory");
-	}
-	return true;
-}
-
-/* Pins of a ledge from its explicit map: nets onto pads. */
-static int find_net(const struct route *r, const char *name)
-{
-	for (size_t i = 0; i < r->net_count; i++)
-		if (strcmp(r->build->art.nets[i].name, name) == 0)
-			return (int)i;
-	return -1;
-}
-
-static int first_pin_number(const struct route *r, int ledge)
-{
-	int best = 0;
-	for (size_t i = 0; i < r->build->pin_count; i++)
-		if (r->build->pins[i].ledge == ledge &&
-		    (best == 0 || r->build->pins[i].number < best))
-			best = r->build->pins[i].number;
-	return best;
-}
-
-static bool check_planar(struct ledge_ctx *c)
-{
-	struct route *r = c->r;
-	for (size_t i = 0; i + 1 < c->count; i++) {
-		struct item *a = &c->items[i], *b = &c->items[i + 1];
-		if (a->pad < b->pad)
-			continue;
-		/* suggest: the same pads in walking order */
-		size_t n = c->count;
-		int64_t *pads = malloc(n * sizeof(*pads));
-		int *order = malloc(n * sizeof(*order));
-		char text[2048];
-		if (!pads || !order) {
-			free(pads);
-			free(order);
-			return gp_diag_error(r->diag, NULL, "out of memory");
-		}
-		for (size_t k = 0; k < n; k++)
-			pads[k] = c->items[k].pad;
-		for (size_t k = 1; k < n; k++)
-			for (size_t j = k; j > 0 && pads[j] < pads[j - 1]; j--) {
-				int64_t t = pads[j];
-				pads[j] = pads[j - 1];
-				pads[j - 1] = t;
-			}
-		/* pads sorted by canonical x get items in walking order;
-		 * list them by pin number */
-		size_t m = 0;
-		struct gp_pin *pins = r->build->pins;
-		for (size_t p = 0; p < r->build->pin_count; p++) {
-			if (pins[p].ledge != c->index)
-				continue;
-			int64_t x = to_canon(c->l->side, pins[p].centre).x;
-			int net = GP_NET_NONE;
-			for (size_t k = 0; k < n; k++)
-				if (pads[k] == x)
-					net = c->items[k].net;
-			order[m++] = net;
-			if (m == n)
-				break;
-		}
-		describe_order(r, order, m, text, sizeof(text));
-		free(pads);
-		free(order);
-		const struct gp_node *map = c->l->map;
-		return gp_diag_error(
-			r->diag, map ? &map->where : &c->l->where,
-			"pin map of ledge '%s' makes the leads of %s (pin %d) "
-			"and %s (pin %d) cross: they leave the seal in the "
-			"order %s, %s walking round it towards the ledge; a "
-			"routable order from pin %d is: %s",
-			c->l->name, net_name(r, a->net),
-			r->build->pins[a->pin].number, net_name(r, b->net),
-			r->build->pins[b->pin].number, net_name(r, a->net),
-			net_name(r, b->net),
-			first_pin_number(r, c->index), text);
-	}
-	return true;
-}
-
-/* With no pin 1 given, the pad row goes where it makes the leads that
- * leave the seal towards the ledge move sideways least: under the middle
- * of (arrival - k * pitch), k counted along the row, kept on the ledge.
- * (Leads coming round the seal arrive bunched in tracks; they take the
- * form with horizontal runs whatever their shift.) */
-static void centre_row(struct ledge_ctx *c, size_t first)
-{
-	struct route *r = c->r;
-	struct gp_ledge *l = c->l;
-	size_t n = c->count;
-	if (n == 0)
-		return;
-	int64_t lo = INT64_MAX, hi = INT64_MIN;
-	bool any = false;
-	for (size_t k = 0; k < n; k++)
-		any |= c->items[k].side == GP_SIDE_BOTTOM;
-	for (size_t k = 0; k < n; k++) {
-		if (any && c->items[k].side != GP_SIDE_BOTTOM)
-			continue;
-		int64_t v = c->items[k].arrive - (int64_t)k * l->pitch;
-		lo = min64(lo, v);
-		hi = max64(hi, v);
-	}
-	int64_t q0 = lo + (hi - lo) / 2;   /* canonical x of the lowest pad */
-	/* canonical x runs with real x (bottom), -x (top), -y (left), y */
-	int sgnc = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_RIGHT ? 1 : -1;
-	int64_t span = (int64_t)(n - 1) * l->pitch;
-	int64_t low_end = sgnc > 0 ? q0 : -(q0 + span);   /* real, lowest pad */
-	struct gp_box plate = plate_box(r->design, l->plate);
-	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
-	int64_t clear = r->design->rules.edge_clearance;
-	int64_t min_c = (across ? plate.x0 : plate.y0) + clear + l->pad_width / 2;
-	int64_t max_c = (across ? plate.x1 : plate.y1) - clear -
-			(l->pad_width - l->pad_width / 2) - span;
-	if (low_end > max_c)
-		low_end = max_c;
-	if (low_end < min_c)
-		low_end = min_c;
-	l->pin1 = l->direction > 0 ? low_end : low_end + span;
-	place_pads(r, l, first, n);
-}
-
-static bool route_ledge(struct route *r, int index)
-{
-	struct ledge_ctx c = {
-		.r = r,
-		.l = (struct gp_ledge *)&r->g->ledges[index],
-		.index = index,
-		.clear = r->design->rules.edge_clearance,
-	};
-	c.out = box_map(r->s_out, c.l->side, true);
-	c.plate = box_map(plate_box(r->design, c.l->plate), c.l->side, true);
-	bool ok = make_items(&c) && check_exit_spacing(&c);
-	if (!ok)
-		goto out;
-	/* groups: [0, nl) go round the left, [nr, count) round the right */
-	size_t nl = 0, nt = 0, nr = c.count, nt2 = c.count;
-	while (nl < c.count && c.items[nl].group <= 1)
-		nl++;
-	while (nt < c.count && c.items[nt].group == 0)
-		nt++;
-	while (nr > 0 && c.items[nr - 1].group >= 3)
-		nr--;
-	while (nt2 > 0 && c.items[nt2 - 1].group == 4)
-		nt2--;
-	ok = side_tracks(&c, 0, nl, true) && side_tracks(&c, nr, c.count, false) &&
-	     top_tracks(&c, 0, nt, true) && top_tracks(&c, nt2, c.count, false);
-	if (!ok)
-		goto out;
-	int64_t bottom_ext = 0, maxw = 0;
-	for (size_t i = 0; i < c.count; i++) {
-		struct item *it = &c.items[i];
-		it->arrive = it->side == GP_SIDE_BOTTOM ? it->pos : it->track;
-		maxw = max64(maxw, it->width);
-		if (it->side == GP_SIDE_BOTTOM)
-			bottom_ext = max64(bottom_ext, r->nets[it->net].ext);
-	}
-	for (size_t i = 0; i < c.count; i++)
-		c.items[i].arrive = c.items[i].side == GP_SIDE_BOTTOM
-					    ? c.items[i].pos
-					    : c.items[i].track;
-	/* pads: by map, or in walking order */
-	if (c.l->map) {
-		for (size_t i = 0; i < c.count; i++)
-			c.items[i].pad = to_canon(c.l->side,
-						  r->build->pins[c.items[i].pin].centre)
-						 .x;
-		if (!(ok = check_planar(&c)))
-			goto out;
-	} else {
-		size_t first = r->pin_first[index];
-		if (!c.l->pin1_given)
-			centre_row(&c, first);
-		int64_t *xs = malloc((c.count ? c.count : 1) * sizeof(*xs));
-		size_t *idx = malloc((c.count ? c.count : 1) * sizeof(*idx));
-		if (!xs || !idx) {
-			free(xs);
-			free(idx);
-			ok = gp_diag_error(r->diag, NULL, "out of memory");
-			goto out;
-		}
-		for (size_t k = 0; k < c.count; k++) {
-			xs[k] = to_canon(c.l->side, r->build->pins[first + k].centre).x;
-			idx[k] = first + k;
-		}
-		for (size_t k = 1; k < c.count; k++)
-			for (size_t j = k; j > 0 && xs[j] < xs[j - 1]; j--) {
-				int64_t t = xs[j];
-				size_t u = idx[j];
-				xs[j] = xs[j - 1], idx[j] = idx[j - 1];
-				xs[j - 1] = t, idx[j - 1] = u;
-			}
-		for (size_t k = 0; k < c.count; k++) {
-			c.items[k].pad = xs[k];
-			c.items[k].pin = (int)idx[k];
-			r->build->pins[idx[k]].net = c.items[k].net;
-			r->nets[c.items[k].net].pin = (int)idx[k];
-		}
-		free(xs);
-		free(idx);
-	}
-	int64_t y_gather = c.out.y0 - bottom_ext - r->space - maxw;
-	int64_t y_pad = c.plate.y0 + c.l->edge_clearance + c.l->pad_length;
-	int64_t y_pad_centre = c.plate.y0 + c.l->edge_clearance +
-			       c.l->pad_length / 2;
-	ok = fan_out(&c, y_gather, y_pad) && build_paths(&c, y_pad_centre);
-out:
-	free(c.items);
-	return ok;
-}
-
-/* --- pins: which ledge carries which net --------------------------------------- */
-
-static bool carried(const struct gp_ledge *l, const struct gp_net *net)
-{
-	return l->carries == GP_CARRIES_ALL ||
-	       (l->carries == GP_CARRIES_COMMONS && net->kind == GP_NET_COMMON) ||
-	       (l->carries == GP_CARRIES_SEGMENTS && net->kind == GP_NET_SEGMENT);
-}
-
-/* Reads the explicit pin map: pins.LEDGE: [NET or NC, ...] in pin order. */
-static bool read_map(struct route *r)
-{
-	const struct gp_node *pins = r->g->pins;
-	struct gp_routing *g = (struct gp_routing *)r->g;
-	const char *names[GP_MAX_LEDGES];
-	for (size_t i = 0; i < g->ledge_count; i++)
-		names[i] = g->ledges[i].name;
-	bool ok = true;
-	for (size_t k = 0; k < pins->count; k++) {
-		const char *key = pins->keys[k]->text;
-		size_t li = 0;
-		while (li < g->ledge_count && strcmp(names[li], key) != 0)
-			li++;
-		if (li == g->ledge_count) {
-			const char *near = gp_nearest_word(key, names, g->ledge_count);
-			ok = gp_diag_error(r->diag, &pins->keys[k]->where,
-					   "'pins' names ledge '%s', which is "
-					   "not in 'ledges'%s%s%s",
-					   key, near ? "; did you mean '" : "",
-					   near ? near : "", near ? "'?" : "");
-			continue;
-		}
-		if (!gp_node_expect_sequence(pins->items[k], 0, r->diag)) {
-			ok = false;
-			continue;
-		}
-		g->ledges[li].map = pins->items[k];
-	}
-	if (ok)
-		for (size_t i = 0; i < g->ledge_count; i++)
-			if (!g->ledges[i].map)
-				ok = gp_diag_error(r->diag, &pins->where,
-						   "'pins' gives no map for "
-						   "ledge '%s'; with a pin map "
-						   "every ledge needs one",
-						   g->ledges[i].name);
-	return ok;
-}
-
-static int next_first_pin(const struct route *r, const struct gp_ledge *l)
-{
-	if (l->first_pin)
-		return (int)l->first_pin;
-	int last = 0;
-	for (size_t i = 0; i < r->build->pin_count; i++)
-		if (r->build->pins[i].number > last)
-			last = r->build->pins[i].number;
-	return last + 1;
-}
-
-static bool assign_nets(struct route *r)
-{
-	const struct gp_routing *g = r->g;
-	size_t total = 0;
-	bool ok = true;
-	if (g->pins && !read_map(r))
-		return false;
-	for (size_t i = 0; i < g->ledge_count; i++)
-		total += g->ledges[i].map ? g->ledges[i].map->count : r->net_count;
-	r->build->pins = calloc(total ? total : 1, sizeof(*r->build->pins));
-	if (!r->build->pins)
-		return gp_diag_error(r->diag, NULL, "out of memory");
-	for (size_t i = 0; i < r->net_count; i++)
-		r->nets[i].ledge = -1, r->nets[i].pin = -1;
-	for (size_t li = 0; li < g->ledge_count; li++) {
-		struct gp_ledge *l = (struct gp_ledge *)&g->ledges[li];
-		size_t first = r->build->pin_count;
-		r->pin_first[li] = first;
-		if (l->map) {
-			if (!make_pads(r, l, (int)li, l->map->count,
-				       next_first_pin(r, l)))
-				return false;
-			for (size_t k = 0; k < l->map->count; k++) {
-				const struct gp_node *item = l->map->items[k];
-				if (!gp_node_expect_scalar(item, r->diag)) {
-					ok = false;
-					continue;
-				}
-				if (strcmp(item->text, "NC") == 0)
-					continue;
-				int net = find_net(r, item->text);
-				if (net < 0) {
-					ok = gp_diag_error(r->diag, &item->where,
-							   "pin map names net "
-							   "'%s', which the "
-							   "glass does not have",
-							   item->text);
-					continue;
-				}
-				if (r->nets[net].ledge >= 0) {
-					ok = gp_diag_error(r->diag, &item->where,
-							   "pin map gives net "
-							   "%s a second pin",
-							   item->text);
-					continue;
-				}
-				r->nets[net].ledge = (int)li;
-				r->nets[net].pin = (int)(first + k);
-				r->nets[net].has_pad = true;
-				r->build->pins[first + k].net = net;
-			}
-			continue;
-		}
-		size_t count = 0;
-		for (size_t i = 0; i < r->net_count; i++) {
-			if (r->nets[i].ledge < 0 &&
-			    carried(l, &r->build->art.nets[i])) {
-				r->nets[i].ledge = (int)li;
-				count++;
-			}
-		}
-		if (count && !make_pads(r, l, (int)li, count,
-					next_first_pin(r, l)))
-			return false;
-	}
-	for (size_t i = 0; ok && i < r->net_count; i++)
-		if (r->nets[i].ledge < 0)
-			ok = gp_diag_error(r->diag, g->pins ? &g->pins->where
-							    : &g->ledges[0].where,
-					   "net %s has no pin: %s",
-					   net_name(r, (int)i),
-					   g->pins ? "add it to the pin map"
-						   : "no ledge 'carries' it");
-	return ok;
-}
-
 /* --- the stage --------------------------------------------------------------- */
 
 static bool check_seal_fits(struct route *r)
@@ -1609,7 +928,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		goto out;
 	if (g->ledge_count == 0)
 		goto seal;
-	ok = check_transfer_room(&r) && assign_nets(&r) && collect_cands(&r);
+	ok = check_transfer_room(&r) && gp_route_assign_nets(&r) && collect_cands(&r);
 	if (!ok)
 		goto out;
 	index = gp_geos_index_create(geos);
@@ -1621,7 +940,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 				    s->layer == GP_LAYER_BACK_ITO))
 			ok = gp_geos_index_add(index, gp_polygon_bounds(&s->poly), i);
 	}
-	ok = ok && choose_ends(&r, index) && check_corridors(&r, geos);
+	ok = ok && choose_ends(&r, index, geos) && notch_patches(&r, geos);
 	if (!ok)
 		goto out;
 	for (size_t i = 0; ok && i < r.net_count; i++) {
@@ -1636,7 +955,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 			gp_diag_error(diag, NULL, "out of memory");
 	}
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
-		ok = route_ledge(&r, (int)i);
+		ok = gp_route_ledge(&r, (int)i);
 	for (size_t i = 0; ok && i < build->pin_count; i++) {
 		struct gp_pin *p = &build->pins[i];
 		const struct gp_ledge *l = &g->ledges[p->ledge];

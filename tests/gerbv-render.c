@@ -168,8 +168,15 @@ bool gerbv_render(const char *gerbv, const char *gbr, const char *png,
 	}
 	char dpi_arg[64], origin[128], window[64], err_path[4200];
 	snprintf(dpi_arg, sizeof(dpi_arg), "--dpi=%.6g", dpi);
-	snprintf(origin, sizeof(origin), "--origin=%.12gx%.12g", ox / dpi,
-		 oy / dpi);
+	/* gerbv 2.9 rejects an origin longer than 20 characters ("Specified
+	 * origin is not recognized"): drop digits until it fits; at 4 digits
+	 * the error is still far below a pixel at any dpi used here */
+	for (int digits = 12; digits >= 4; digits--) {
+		snprintf(origin, sizeof(origin), "--origin=%.*gx%.*g", digits,
+			 ox / dpi, digits, oy / dpi);
+		if (strlen(origin) <= strlen("--origin=") + 20)
+			break;
+	}
 	snprintf(window, sizeof(window), "--window=%.0fx%.0f", ex - ox,
 		 ey - oy);
 	snprintf(err_path, sizeof(err_path), "%s.stderr", png);

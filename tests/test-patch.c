@@ -96,7 +96,7 @@ static void make_patch(struct fixture *f, const struct gp_polygon *front,
 		       size_t n, int64_t margin, struct gp_polyset *patch)
 {
 	struct gp_patch_group group = { "icon SAMPLE", front, n };
-	struct gp_patch_rules rules = { margin, 20 * UM, 30 * UM, UM };
+	struct gp_patch_rules rules = { margin, 20 * UM, 30 * UM, UM, false };
 	gp_polyset_init(patch);
 	assert_true(gp_patch_make(f->geos, &group, 1, NULL, 0, &rules, patch,
 				  &f->diag));
@@ -196,7 +196,7 @@ static void test_notch(void **state)
 	box_of(&traces[0], MM + 50 * UM, -2 * MM, MM + 100 * UM, 3 * MM);
 	box_of(&traces[1], 400 * UM, -2 * MM, 450 * UM, 0);
 	struct gp_patch_group group = { "COM1", &square, 1 };
-	struct gp_patch_rules rules = { margin, 20 * UM, clearance, UM };
+	struct gp_patch_rules rules = { margin, 20 * UM, clearance, UM, false };
 
 	/* without notches both traces lie over the patch (so this test can
 	 * see a missing notch) */
@@ -257,7 +257,7 @@ static void test_separation(void **state)
 	box_of(&b, MM + 100 * UM, 0, 2 * MM + 100 * UM, MM);
 	struct gp_patch_group groups[2] = { { "COM1", &a, 1 },
 					    { "COM2", &b, 1 } };
-	struct gp_patch_rules rules = { margin, space, 30 * UM, tol };
+	struct gp_patch_rules rules = { margin, space, 30 * UM, tol, false };
 	struct gp_polyset patches[2];
 	gp_polyset_init(&patches[0]);
 	gp_polyset_init(&patches[1]);
@@ -306,7 +306,7 @@ static void test_too_close_warns(void **state)
 	box_of(&b, MM + 10 * UM, 0, 2 * MM, MM);
 	struct gp_patch_group groups[2] = { { "COM1", &a, 1 },
 					    { "COM2", &b, 1 } };
-	struct gp_patch_rules rules = { 50 * UM, 20 * UM, 30 * UM, UM };
+	struct gp_patch_rules rules = { 50 * UM, 20 * UM, 30 * UM, UM, false };
 	struct gp_polyset patches[2];
 	gp_polyset_init(&patches[0]);
 	gp_polyset_init(&patches[1]);

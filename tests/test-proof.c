@@ -290,6 +290,123 @@ static void test_routed_sample(void **state)
 	unload(&f);
 }
 
+/* Detail views: the first icon and the first digit at 10:1 (ISO 5455
+ * enlargement) with their sizes; absent parts are said to be absent. */
+static void test_details(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	struct gp_proof_plan plan;
+	load_file(&f, "../samples/tank-logger.yaml", "icons");
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	char *text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
+			 plan.sheet_details + plan.detail_sheets - 1, f.path);
+	assert_non_null(strstr(text, "One icon"));
+	assert_non_null(strstr(text, "One dot-matrix cell"));
+	assert_non_null(strstr(text, "scale 10:1"));
+	assert_non_null(strstr(text, "no digits in this design"));
+	/* the cell of block 'reading': 5 dots at 0.5 pitch, 0.45 wide */
+	assert_non_null(strstr(text, "cell 2.45"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+
+	load_file(&f, "../samples/timer-4digit-quarter.yaml", "digits");
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
+		   plan.sheet_details + plan.detail_sheets - 1, f.path);
+	assert_non_null(strstr(text, "One digit"));
+	assert_non_null(strstr(text, "no icons in this design"));
+	free(text);
+	text = run("pdftotext -f 1 -l 1 '%s' -", f.path);
+	assert_non_null(strstr(text, "digit pitch (9)"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
+/* Centre (mm from the top-left corner) of the word on page whose text
+ * is word and which lies nearest to (x, y) mm; returns the distance. */
+static double nearest_word(const char *pdf, int page, const char *word,
+			   double x, double y, double *cx, double *cy)
+{
+	char *text = run("pdftotext -bbox -f %d -l %d '%s' -", page, page,
+			 pdf);
+	double best = INFINITY;
+	char tail[64];
+	snprintf(tail, sizeof(tail), "\">%s</word>", word);
+	for (const char *s = text; (s = strstr(s, "<word ")); s++) {
+		double x0, y0, x1, y1;
+		const char *end = strstr(s, "</word>");
+		const char *close = strstr(s, "\">");
+		if (!end || !close || strncmp(close, tail, strlen(tail)) != 0)
+			continue;
+		if (sscanf(s, "<word xMin=\"%lf\" yMin=\"%lf\" xMax=\"%lf\" "
+			      "yMax=\"%lf\"", &x0, &y0, &x1, &y1) != 4)
+			continue;
+		/* points to mm */
+		double mx = (x0 + x1) / 2 * 25.4 / 72, my = (y0 + y1) / 2 * 25.4 / 72;
+		double d = hypot(mx - x, my - y);
+		if (d < best) {
+			best = d;
+			*cx = mx;
+			*cy = my;
+		}
+	}
+	free(text);
+	return best;
+}
+
+/* A planted defect (tests/checks: the common strip comes within 0.45 mm
+ * of the back plate's edge, the rule's limit being 0.5 mm) has its
+ * finding's number printed where the finding is, found with pdftotext
+ * -bbox; a clean glass says so. */
+static void test_findings(void **state)
+{
+	struct fixture f;
+	struct gp_buffer out;
+	struct gp_proof_plan plan;
+	load_file(&f, "checks/edge.yaml", "edge");
+	assert_true(f.build->checked);
+	assert_int_equal(f.build->checks.count, 1);
+	const struct gp_finding *finding = &f.build->checks.findings[0];
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	double x = plan.ox + plan.scale * (double)finding->place.x / 1e6;
+	double y = plan.oy - plan.scale * (double)finding->place.y / 1e6;
+	double cx = 0, cy = 0;
+	double d = nearest_word(f.path, plan.sheet_findings, "1", x, y, &cx,
+				&cy);
+	if (d > 0.3)
+		fail_msg("finding 1 is marked at (%.2f, %.2f) mm, expected "
+			 "(%.2f, %.2f)", cx, cy, x, y);
+	/* and listed with rule, net, value and limit */
+	char *text = run("pdftotext -layout -f %d -l %d '%s' -",
+			 plan.sheet_findings, plan.sheet_findings +
+			 plan.finding_sheets - 1, f.path);
+	assert_non_null(strstr(text, "1 finding (1 error, 0 warnings)"));
+	assert_non_null(strstr(text, "edge-clearance"));
+	assert_non_null(strstr(text, "0.45 mm"));
+	assert_non_null(strstr(text, "0.5 mm"));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+
+	load_file(&f, "checks/clean.yaml", "clean");
+	assert_int_equal(f.build->checks.count, 0);
+	write_proof(&f, &out);
+	gp_proof_plan(f.build, &plan);
+	assert_int_equal(plan.finding_sheets, 1);
+	text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_findings,
+		   plan.sheet_findings, f.path);
+	assert_non_null(strstr(text, "No findings: every check passed."));
+	free(text);
+	gp_buffer_finish(&out);
+	unload(&f);
+}
+
 /* Two runs give the same bytes; no date unless SOURCE_DATE_EPOCH (which
  * the tool hands to the build). */
 static void test_deterministic(void **state)
@@ -500,6 +617,8 @@ int main(void)
 		cmocka_unit_test(test_pages),
 		cmocka_unit_test(test_text),
 		cmocka_unit_test(test_routed_sample),
+		cmocka_unit_test(test_details),
+		cmocka_unit_test(test_findings),
 		cmocka_unit_test(test_deterministic),
 		cmocka_unit_test(test_scale),
 		cmocka_unit_test(test_paper),

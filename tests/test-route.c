@@ -9,6 +9,7 @@
 #include <cmocka.h>
 
 #include "build.h"
+#include "gerbv-render.h"
 #include "geos.h"
 #include "route.h"
 #include "units.h"
@@ -181,12 +182,12 @@ static int find(int *parent, int i)
  * (a dot joins the pieces it lies on, one on each plate), form one
  * connected whole with exactly one pad. */
 static void check_connected(struct gp_geos *geos, const struct gp_artwork *art,
-			    const struct netgeo *n)
+			    const struct netgeo *n, size_t pads)
 {
 	for (size_t i = 0; i < art->net_count; i++) {
 		const struct netgeo *g = &n[i];
 		size_t front = g->plate[0].count, total = front + g->plate[1].count;
-		if (g->pads != 1)
+		if (g->pads != pads)
 			fail_msg("%s has %zu pads", art->nets[i].name, g->pads);
 		int *parent = malloc((total + 1) * sizeof(int));
 		for (size_t k = 0; k < total; k++)
@@ -303,8 +304,9 @@ static struct gp_geos_shape *plate_union(struct gp_geos *geos,
 static void check_overlap(struct gp_geos *geos, const struct gp_build *b)
 {
 	const struct gp_artwork *art = &b->art;
-	struct gp_box in, out;
-	gp_seal_boxes(b->design, &in, &out);
+	struct gp_box in = b->design->viewing, out;
+	if (b->design->routing)
+		gp_seal_boxes(b->design, &in, &out);
 	struct gp_geos_shape *front = plate_union(geos, art, GP_LAYER_FRONT_ITO);
 	struct gp_geos_shape *back = plate_union(geos, art, GP_LAYER_BACK_ITO);
 	struct gp_geos_shape *inside = gp_geos_shape_from_box(geos, in);
@@ -377,7 +379,7 @@ static void check_all(const struct gp_build *b)
 	struct gp_geos *geos = gp_geos_create(&diag);
 	const struct gp_artwork *art = &b->art;
 	struct netgeo *n = net_geometry(geos, art);
-	check_connected(geos, art, n);
+	check_connected(geos, art, n, 1);
 	check_spacing(geos, art, n, b->design->rules.min_space);
 	check_widths(geos, art, b->design->rules.min_line);
 	check_overlap(geos, b);
@@ -551,6 +553,40 @@ static void route_round_the_top(void **state)
 		"ledges:\n"
 		"  main: {side: bottom, pitch: 0.5}\n"
 		"seal: {width: 1, distance: 0.5}\n";
+	struct fixture f;
+	load_ok(&f, text);
+	check_all(f.build);
+	finish(&f);
+}
+
+/* Icons beside a block: their front electrodes and back patches lead out
+ * like any electrode, and the patches are notched where a front lead-out
+ * leaves them (checked by the overlap rule). */
+static void route_icons(void **state)
+{
+	(void)state;
+	const char *text =
+		"glass: {part: T-6}\n"
+		"front: {size: [50, 27], position: [0, -3]}\n"
+		"back: {size: [50, 20], position: [0, 4]}\n"
+		"viewing_area: {position: [4, 7], size: [42, 15]}\n"
+		"blocks:\n"
+		"  r: {origin: [5, 20.5], cells: [6, 1], dots: [5, 8],"
+		" dot_size: [0.45, 0.5], dot_pitch: [0.5, 0.55], cell_pitch: 3}\n"
+		"icons:\n"
+		"  bat: {shape: rectangle, size: [3, 1.5], position: [28, 19],"
+		" common: c1, segment: s1}\n"
+		"  dot: {shape: circle, diameter: 1.2, position: [34, 19],"
+		" common: c2, segment: s2}\n"
+		"  tri: {shape: triangle, size: [1.6, 1.2], position: [40, 12],"
+		" common: c3, segment: s3}\n"
+		"  ring: {shape: ring, diameter: 2, width: 0.4,"
+		" position: [28, 12], common: c4, segment: s4}\n"
+		"ledges:\n"
+		"  main: {side: bottom, pitch: 0.6, pad_width: 0.3,"
+		" pad_length: 1.5, edge_clearance: 0.3}\n"
+		"seal: {width: 1, distance: 0.2}\n"
+		"leads: {width: 0.05, space: 0.05}\n";
 	struct fixture f;
 	load_ok(&f, text);
 	check_all(f.build);
@@ -788,6 +824,61 @@ static void header_agrees_with_csv(void **state)
 	finish(&f);
 }
 
+/* gerbv (Debian package, 2.9) reads every layer of routed glasses without
+ * a complaint, and draws something for each. */
+static void gerbv_reads_layers(const char *text)
+{
+	struct fixture f;
+	load_ok(&f, text);
+	char *folder = temporary_folder();
+	assert_true(gp_build_write(f.build, folder, &f.diag));
+	static const char *const layers[] = { "front-ito", "back-ito", "seal",
+					      "transfer", "front-outline",
+					      "back-outline" };
+	const struct gp_box fb = f.design->front.box, bb = f.design->back.box;
+	struct gerbv_frame frame = {
+		gp_mm(fb.x0 < bb.x0 ? fb.x0 : bb.x0) - 1,
+		gp_mm(fb.y0 < bb.y0 ? fb.y0 : bb.y0) - 1,
+		gp_mm(fb.x1 > bb.x1 ? fb.x1 : bb.x1) + 1,
+		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 200, 2
+	};
+	int seen = 0;
+	for (size_t i = 0; i < sizeof(layers) / sizeof(layers[0]); i++) {
+		char gbr[1024], png[1024], err[256];
+		snprintf(gbr, sizeof(gbr), "%s/%s.gbr", folder, layers[i]);
+		snprintf(png, sizeof(png), "%s/%s.png", folder, layers[i]);
+		if (access(gbr, R_OK) != 0)
+			continue;
+		struct gerbv_result result;
+		memset(&result, 0, sizeof(result));
+		if (!gerbv_render(getenv("GERBV"), gbr, png, &frame, &result,
+				  err, sizeof(err)))
+			fail_msg("%s: %s", layers[i], err);
+		if (result.complaints[0] || !result.any_dark)
+			fail_msg("%s: gerbv says \"%s\"%s", layers[i],
+				 result.complaints,
+				 result.any_dark ? "" : " and drew nothing");
+		gerbv_result_finish(&result);
+		seen++;
+	}
+	assert_int_equal(seen, 6);
+	char command[1200];
+	snprintf(command, sizeof(command), "rm -rf '%s'", folder);
+	assert_int_equal(system(command), 0);
+	free(folder);
+	finish(&f);
+}
+
+static void gerbv_reads_routed(void **state)
+{
+	(void)state;
+	char *text = glass("    pitch: 0.5\n    pad_width: 0.25\n",
+			   "transfers: {size: 0.2, count: 3, place: outside}\n"
+			   "leads: {commons: left, width: 0.08, space: 0.06}\n");
+	gerbv_reads_layers(text);
+	free(text);
+}
+
 static void csv_columns(void **state)
 {
 	(void)state;
@@ -812,6 +903,7 @@ int main(void)
 		cmocka_unit_test(route_two_ledges),
 		cmocka_unit_test(route_left_ledge),
 		cmocka_unit_test(route_round_the_top),
+		cmocka_unit_test(route_icons),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(capacity_tracks),
@@ -823,6 +915,7 @@ int main(void)
 		cmocka_unit_test(map_unknown_net),
 		cmocka_unit_test(header_agrees_with_csv),
 		cmocka_unit_test(csv_columns),
+		cmocka_unit_test(gerbv_reads_routed),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -1,0 +1,135 @@
+/* Private to the routing (route.c, ledge.c): the routing state, frames
+ * and small helpers.  Units: nm, glass frame unless said "canonical" (the
+ * frame turned so that the ledge being routed is at the bottom). */
+#ifndef GP_ROUTE_PRIVATE_H
+#define GP_ROUTE_PRIVATE_H
+
+#include "build.h"
+#include "geos.h"
+#include "route.h"
+#include "units.h"
+
+#include <stdbool.h>
+#include <stdint.h>
+
+#define PI 3.14159265358979323846
+#define SQRT2 1.41421356237309504880
+
+/* --- frames ---------------------------------------------------------------- */
+
+static inline struct gp_point to_canon(enum gp_side ledge, struct gp_point p)
+{
+	switch (ledge) {
+	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
+	case GP_SIDE_LEFT: return (struct gp_point){ -p.y, p.x };
+	case GP_SIDE_RIGHT: return (struct gp_point){ p.y, -p.x };
+	default: return p;
+	}
+}
+
+static inline struct gp_point from_canon(enum gp_side ledge, struct gp_point p)
+{
+	switch (ledge) {
+	case GP_SIDE_TOP: return (struct gp_point){ -p.x, -p.y };
+	case GP_SIDE_LEFT: return (struct gp_point){ p.y, -p.x };
+	case GP_SIDE_RIGHT: return (struct gp_point){ -p.y, p.x };
+	default: return p;
+	}
+}
+
+static inline struct gp_box box_map(struct gp_box b, enum gp_side ledge, bool in)
+{
+	struct gp_point a = { b.x0, b.y0 }, c = { b.x1, b.y1 };
+	a = in ? to_canon(ledge, a) : from_canon(ledge, a);
+	c = in ? to_canon(ledge, c) : from_canon(ledge, c);
+	return gp_box_make(a.x < c.x ? a.x : c.x, a.y < c.y ? a.y : c.y,
+			   a.x > c.x ? a.x : c.x, a.y > c.y ? a.y : c.y);
+}
+
+static inline enum gp_side side_to_canon(enum gp_side ledge, enum gp_side s)
+{
+	return (enum gp_side)((s - ledge + GP_SIDE_COUNT) % GP_SIDE_COUNT);
+}
+
+static inline enum gp_side side_from_canon(enum gp_side ledge, enum gp_side s)
+{
+	return (enum gp_side)((s + ledge) % GP_SIDE_COUNT);
+}
+
+static inline const char *mm(char *buf, int64_t nm)
+{
+	gp_format_mm_short(buf, 32, nm);
+	return buf;
+}
+
+static inline int64_t max64(int64_t a, int64_t b) { return a > b ? a : b; }
+static inline int64_t min64(int64_t a, int64_t b) { return a < b ? a : b; }
+
+/* --- the routing state ------------------------------------------------------- */
+
+struct cand {
+	enum gp_side side;
+	struct gp_point at;
+	int64_t width;
+};
+
+struct netstate {
+	int ledge;                /* -1: not routed */
+	struct cand cands[16];
+	int cand_count;
+	int chosen;
+	int order[16];            /* free candidates, best first */
+	int usable, pick;
+	int first_hit;            /* what blocked the best one */
+	bool first_hit_plate;
+	bool has_pad;             /* explicit map: pad known before routing */
+	int pin;                  /* index into build->pins, -1 */
+	bool transfer;
+	struct gp_box corridor;   /* electrode plate, real frame */
+	struct gp_box centre;     /* bounds of the net's electrodes */
+	int64_t ext;              /* narrow lead starts this far past the seal */
+	bool block_common;
+	int block_row;            /* row within its block, for the split */
+	int block_rows;
+};
+
+struct route {
+	struct gp_build *build;
+	const struct gp_design *design;
+	const struct gp_routing *g;
+	struct gp_diag *diag;
+	struct gp_box s_in, s_out;
+	struct netstate *nets;
+	size_t net_count;
+	int64_t space;            /* leads.space */
+	int64_t min_space;        /* rules.min_space */
+	size_t pin_first[GP_MAX_LEDGES];  /* first pad of each ledge */
+};
+
+static inline const char *net_name(const struct route *r, int net)
+{
+	return net >= 0 ? r->build->art.nets[net].name : "NC";
+}
+
+/* Plate box and the other plate's box. */
+static inline struct gp_box plate_box(const struct gp_design *d, enum gp_plate p)
+{
+	return p == GP_PLATE_FRONT ? d->front.box : d->back.box;
+}
+
+static inline int64_t box_edge(struct gp_box b, enum gp_side s)
+{
+	switch (s) {
+	case GP_SIDE_BOTTOM: return b.y0;
+	case GP_SIDE_TOP: return b.y1;
+	case GP_SIDE_LEFT: return b.x0;
+	default: return b.x1;
+	}
+}
+
+/* ledge.c: nets onto ledges and pads (explicit map or automatic). */
+bool gp_route_assign_nets(struct route *r);
+/* ledge.c: order, pads, tracks round the seal and fan-out of one ledge. */
+bool gp_route_ledge(struct route *r, int index);
+
+#endif
