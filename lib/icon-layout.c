@@ -22,9 +22,7 @@
 struct icon_work {
 	struct gp_polyset front;    /* electrode */
 	struct gp_polyset bridges;  /* front bridges */
-	struct gp_polyset leads;    /* front lead-in (routing) */
 	struct gp_polyset back_bridges;
-	struct gp_polyset back_leads; /* lead-out of its own common's patch */
 	int common, segment;        /* net indices */
 	size_t group;               /* patch group (one per common) */
 };
@@ -426,16 +424,9 @@ static bool front_traces(struct layout *l, struct gp_polyset *traces)
 			return false;
 	}
 	for (size_t i = 0; i < l->design->icon_count; i++)
-		if (!copy_into(traces, &l->icons[i].bridges) ||
-		    !copy_into(traces, &l->icons[i].leads))
+		if (!copy_into(traces, &l->icons[i].bridges))
 			return false;
 	return true;
-}
-
-/* An icon's own front traces: its bridges and its lead-in. */
-static bool own_traces(const struct icon_work *w, struct gp_polyset *out)
-{
-	return copy_into(out, &w->bridges) && copy_into(out, &w->leads);
 }
 
 static void patch_name(struct layout *l, size_t g, char *buf, size_t size)
@@ -500,7 +491,7 @@ static bool foreign_front(struct layout *l, size_t self,
 	}
 	for (size_t i = 0; i < l->design->icon_count; i++)
 		if (i != self && (!copy_into(out, &l->icons[i].front) ||
-				  !own_traces(&l->icons[i], out)))
+				  !copy_into(out, &l->icons[i].bridges)))
 			return false;
 	return true;
 }
@@ -525,23 +516,21 @@ static bool other_patches_set(struct layout *l, size_t group,
 static bool reclaim_margin(struct layout *l, size_t i)
 {
 	struct icon_work *w = &l->icons[i];
-	if (w->bridges.count == 0 && w->leads.count == 0)
+	if (w->bridges.count == 0)
 		return true;
 	const struct gp_rules *r = &l->design->rules;
 	int64_t reach = shift_reach(r) + r->chord_tolerance;
 	struct gp_polyset ring, near, want, foreign, away, others, apart, add,
-		step, merged, own;
+		step, merged;
 	struct gp_polyset *all[] = { &ring, &near, &want, &foreign, &away,
-				     &others, &apart, &add, &step, &merged,
-				     &own };
-	for (size_t k = 0; k < 11; k++)
+				     &others, &apart, &add, &step, &merged };
+	for (size_t k = 0; k < 10; k++)
 		gp_polyset_init(all[k]);
 	struct gp_polyset *patch = &l->patches[w->group];
 	bool ok =
-		own_traces(w, &own) &&
 		gp_geos_dilate_box(l->geos, &w->front, r->registration,
 				   r->registration, &ring) &&
-		gp_geos_offset(l->geos, &own, reach, GP_JOIN_ROUND,
+		gp_geos_offset(l->geos, &w->bridges, reach, GP_JOIN_ROUND,
 			       r->chord_tolerance, &near) &&
 		gp_geos_intersection(l->geos, &ring, &near, &want) &&
 		foreign_front(l, i, &foreign) &&
@@ -559,7 +548,7 @@ static bool reclaim_margin(struct layout *l, size_t i)
 		*patch = merged;
 		gp_polyset_init(&merged);
 	}
-	for (size_t k = 0; k < 11; k++)
+	for (size_t k = 0; k < 10; k++)
 		gp_polyset_finish(all[k]);
 	return ok;
 }
@@ -568,16 +557,13 @@ static bool reclaim_margin(struct layout *l, size_t i)
 static bool lit_spurs(struct layout *l, size_t i, struct gp_polyset *out)
 {
 	struct icon_work *w = &l->icons[i];
-	struct gp_polyset over, own;
+	struct gp_polyset over;
 	gp_polyset_init(&over);
-	gp_polyset_init(&own);
-	bool ok = own_traces(w, &own) &&
-		  (own.count == 0 ||
-		   (gp_geos_intersection(l->geos, &own, &l->patches[w->group],
-					 &over) &&
-		    gp_geos_difference(l->geos, &over, &w->front, out)));
+	bool ok = w->bridges.count == 0 ||
+		  (gp_geos_intersection(l->geos, &w->bridges,
+					&l->patches[w->group], &over) &&
+		   gp_geos_difference(l->geos, &over, &w->front, out));
 	gp_polyset_finish(&over);
-	gp_polyset_finish(&own);
 	return ok;
 }
 
@@ -798,10 +784,6 @@ static bool emit(struct layout *l)
 			     w->segment) ||
 		    !add_set(l, &w->back_bridges, l->back_plate,
 			     GP_ROLE_BRIDGE, w->common) ||
-		    !add_set(l, &w->leads, l->front_plate, GP_ROLE_LEAD,
-			     w->segment) ||
-		    !add_set(l, &w->back_leads, l->back_plate, GP_ROLE_LEAD,
-			     w->common) ||
 		    !add_pixel(l, i))
 			return oom(l);
 	}
@@ -812,297 +794,60 @@ static bool emit(struct layout *l)
 	return true;
 }
 
-/* --- lead-ins for the router ------------------------------------------------ */
+/* --- lead ends ----------------------------------------------------------- */
 
-/* The router leads each net out straight towards a side, from an end the
- * electrode offers, and refuses a way out that crosses anything of
- * another net on the other plate (by bounds).  From inside an icon every
- * way crosses its own patch; so each icon plans its own lead-in on its
- * plate past everything in the way, and offers the router its far end.
- * Sides are tried towards the first ledge first, then across, then away. */
-static int side_order(const struct layout *l, int k)
+/* The routing stage leads each net out straight towards one side of the
+ * glass, from an end the electrode offers.  For every side: the part's
+ * outermost corner that way, moved one lead width inwards so that the lead
+ * overlaps the part rather than touching a point of it. */
+static bool offer_ends(struct layout *l, int net, const struct gp_polyset *set)
 {
-	int first = l->design->routing && l->design->routing->ledge_count
-			    ? (int)l->design->routing->ledges[0].side
-			    : GP_SIDE_BOTTOM;
-	static const int turn[4] = { 0, 1, 3, 2 };
-	return (first + turn[k]) % GP_SIDE_COUNT;
-}
-
-static bool routed(const struct layout *l)
-{
-	return l->design->routing && l->design->routing->ledge_count > 0;
-}
-
-static int64_t lead_width(const struct layout *l)
-{
-	return 2 * l->design->rules.min_line;
-}
-
-/* ITO shapes of the artwork on one plate but those of skip_net. */
-static bool plate_shapes(struct layout *l, enum gp_plate plate, int skip_net,
-			 struct gp_polyset *set)
-{
-	const struct gp_artwork *art = &l->build->art;
-	enum gp_layer layer = gp_plate_ito_layer(plate);
-	for (size_t i = 0; i < art->shape_count; i++) {
-		const struct gp_shape *s = &art->shapes[i];
-		if (s->layer != layer || s->open_path || s->net == skip_net)
-			continue;
-		struct gp_polygon copy;
-		if (!gp_polygon_copy(&copy, &s->poly) ||
-		    !gp_polyset_take(set, &copy))
-			return false;
-	}
-	return true;
-}
-
-static bool add_boxes(const struct gp_polyset *set, int64_t grow,
-		      struct gp_box **boxes, size_t *count)
-{
-	for (size_t k = 0; k < set->count; k++) {
-		struct gp_box *more = realloc(*boxes, (*count + 1) *
-							      sizeof(*more));
-		if (!more)
-			return false;
-		*boxes = more;
-		struct gp_box b = gp_polygon_bounds(&set->items[k]);
-		b.x0 -= grow, b.y0 -= grow, b.x1 += grow, b.y1 += grow;
-		(*boxes)[(*count)++] = b;
-	}
-	return true;
-}
-
-/* The router leads dot-matrix strips out straight along themselves
- * (segments up or down, commons left or right): the whole line of every
- * strip is kept free for it. */
-static bool block_corridors(struct layout *l, struct gp_box **boxes,
-			    size_t *count)
-{
-	const struct gp_build *b = l->build;
-	const struct gp_artwork *art = &b->art;
-	const int64_t far = GP_LENGTH_MAX;
-	for (size_t i = 0; i < art->shape_count; i++) {
-		const struct gp_shape *s = &art->shapes[i];
-		if (s->role != GP_ROLE_ELECTRODE || s->net < 0)
-			continue;
-		for (size_t k = 0; k < b->design->block_count; k++) {
-			const struct gp_block_nets *n = &b->blocks[k];
-			bool common = s->net >= n->first_common &&
-				      s->net < n->first_common + n->common_count;
-			bool segment = s->net >= n->first_segment &&
-				       s->net < n->first_segment +
-							n->segment_count;
-			if (!common && !segment)
-				continue;
-			struct gp_box box = gp_polygon_bounds(&s->poly);
-			enum gp_commons_exit e = l->design->routing->leads.commons;
-			if (common && e != GP_COMMONS_RIGHT)
-				box.x0 = -far;
-			if (common && e != GP_COMMONS_LEFT)
-				box.x1 = far;
-			if (!common)
-				box.y0 = -far, box.y1 = far;
-			struct gp_box *more = realloc(*boxes, (*count + 1) *
-								      sizeof(*more));
-			if (!more)
-				return false;
-			*boxes = more;
-			(*boxes)[(*count)++] = box;
-			break;
+	int64_t width = 2 * l->design->rules.min_line;
+	for (int side = 0; side < GP_SIDE_COUNT; side++) {
+		struct gp_point best = { 0, 0 };
+		int64_t best_key = INT64_MIN;
+		for (size_t k = 0; k < set->count; k++) {
+			const struct gp_ring *ring = &set->items[k].outer;
+			for (size_t j = 0; j < ring->count; j++) {
+				struct gp_point p = ring->points[j];
+				int64_t key = side == GP_SIDE_BOTTOM ? -p.y
+					      : side == GP_SIDE_RIGHT ? p.x
+					      : side == GP_SIDE_TOP   ? p.y
+								      : -p.x;
+				if (key > best_key) {
+					best_key = key;
+					best = p;
+				}
+			}
 		}
-	}
-	return true;
-}
-
-static bool no_lead(struct layout *l, const struct gp_icon *icon,
-		    const char *what)
-{
-	return gp_diag_error(l->diag, &icon->where,
-			     "icon '%s': no straight lead-out for its %s "
-			     "reaches the edge of the viewing area on any side "
-			     "without crossing other electrodes; move the icon "
-			     "or make room around it", icon->name, what);
-}
-
-/* Tries the sides in order; on success stores the lead and offers its
- * end to the router. */
-static bool find_lead(struct layout *l, const struct gp_polyset *from,
-		      struct gp_lead_keep *keep, int net,
-		      struct gp_polyset *out, bool *found)
-{
-	*found = false;
-	for (int k = 0; k < GP_SIDE_COUNT && !*found; k++) {
-		int side = side_order(l, k);
-		struct gp_polygon lead;
-		struct gp_point end;
-		if (!gp_lead_find(l->geos, from, side, lead_width(l), keep,
-				  &lead, &end, found))
-			return false;
-		if (!*found)
-			continue;
-		if (!gp_polyset_take(out, &lead) ||
-		    !gp_build_add_lead_end(l->build, net, (enum gp_side)side,
-					   end, lead_width(l))) {
-			gp_polygon_finish(&lead);
+		if (best_key == INT64_MIN)
+			return true;
+		switch (side) {
+		case GP_SIDE_BOTTOM: best.y += width; break;
+		case GP_SIDE_RIGHT: best.x -= width; break;
+		case GP_SIDE_TOP: best.y -= width; break;
+		default: best.x += width; break;
+		}
+		if (!gp_build_add_lead_end(l->build, net, (enum gp_side)side,
+					   best, width))
 			return oom(l);
-		}
 	}
 	return true;
 }
 
-/* Lead-in of icon i's segment, on the front, before the patches exist:
- * other icons' patches are foreseen as their electrodes grown by the
- * margin box. */
-static bool front_lead(struct layout *l, size_t i)
+/* Ends for every icon's segment and for its own common's patch (a common
+ * shared with a dot-matrix row is led out from the row's strips). */
+static bool offer_all_ends(struct layout *l)
 {
-	const struct gp_rules *r = &l->design->rules;
-	struct icon_work *w = &l->icons[i];
-	int64_t reach = shift_reach(r);
-	struct gp_polyset same, other;
-	gp_polyset_init(&same);
-	gp_polyset_init(&other);
-	struct gp_box *boxes = NULL;
-	size_t count = 0;
-	bool ok = plate_shapes(l, l->front_plate, w->segment, &same) &&
-		  plate_shapes(l, l->back_plate, -2, &other) &&
-		  add_boxes(&other, 0, &boxes, &count);
-	for (size_t j = 0; ok && j < l->design->icon_count; j++) {
-		struct icon_work *o = &l->icons[j];
-		if (o->segment != w->segment)
-			ok = copy_into(&same, &o->front) &&
-			     own_traces(o, &same);
-		struct gp_polyset g;
-		gp_polyset_init(&g);
-		ok = ok && gp_geos_dilate_box(l->geos, &o->front,
-					      r->registration, r->registration,
-					      &g) &&
-		     add_boxes(&g, reach, &boxes, &count) &&
-		     (j == i || copy_into(&other, &g));
-		gp_polyset_finish(&g);
+	for (size_t i = 0; i < l->design->icon_count; i++) {
+		struct icon_work *w = &l->icons[i];
+		if (!offer_ends(l, w->segment, &w->front))
+			return false;
+		if (l->design->icons[i].common &&
+		    !offer_ends(l, w->common, &l->patches[w->group]))
+			return false;
 	}
-	struct gp_box *blocked = NULL;
-	size_t blocked_count = 0;
-	ok = ok && add_boxes(&same, 0, &blocked, &blocked_count) &&
-	     block_corridors(l, &blocked, &blocked_count);
-	struct gp_lead_keep keep = {
-		.same = ok ? gp_geos_shape_from_polyset(l->geos, &same) : NULL,
-		.same_distance = r->min_space,
-		.other = ok ? gp_geos_shape_from_polyset(l->geos, &other) : NULL,
-		.other_distance = reach,
-		.beyond = boxes,
-		.beyond_count = count,
-		.past = reach + r->min_space,
-		.blocked = blocked,
-		.blocked_count = blocked_count,
-	};
-	bool found = false;
-	ok = ok && keep.same && keep.other &&
-	     find_lead(l, &w->front, &keep, w->segment, &w->leads, &found);
-	free(blocked);
-	gp_geos_shape_destroy(l->geos, keep.same);
-	gp_geos_shape_destroy(l->geos, keep.other);
-	free(boxes);
-	gp_polyset_finish(&same);
-	gp_polyset_finish(&other);
-	if (ok && !found)
-		return no_lead(l, &l->design->icons[i], "segment");
-	return ok;
-}
-
-/* Lead-out of a group's patch (its own common) on the back, once the
- * patches are made: the first icon of the group plans it. */
-static bool back_lead(struct layout *l, size_t i)
-{
-	const struct gp_rules *r = &l->design->rules;
-	struct icon_work *w = &l->icons[i];
-	int64_t reach = shift_reach(r);
-	struct gp_polyset same, other, from;
-	gp_polyset_init(&same);
-	gp_polyset_init(&other);
-	gp_polyset_init(&from);
-	struct gp_box *boxes = NULL;
-	size_t count = 0;
-	bool ok = plate_shapes(l, l->back_plate, w->common, &same) &&
-		  plate_shapes(l, l->front_plate, -2, &other) &&
-		  add_boxes(&other, 0, &boxes, &count) &&
-		  copy_into(&from, &l->patches[w->group]) &&
-		  copy_into(&from, &w->back_bridges);
-	for (size_t g = 0; ok && g < l->group_count; g++)
-		if (g != w->group)
-			ok = copy_into(&same, &l->patches[g]);
-	for (size_t j = 0; ok && j < l->design->icon_count; j++) {
-		struct icon_work *o = &l->icons[j];
-		ok = add_boxes(&o->front, 0, &boxes, &count) &&
-		     own_traces(o, &other) &&
-		     add_boxes(&o->bridges, 0, &boxes, &count) &&
-		     add_boxes(&o->leads, 0, &boxes, &count) &&
-		     (o->group == w->group || copy_into(&other, &o->front)) &&
-		     (o->group == w->group ||
-		      copy_into(&same, &o->back_leads));
-	}
-	struct gp_box *blocked = NULL;
-	size_t blocked_count = 0;
-	ok = ok && add_boxes(&same, 0, &blocked, &blocked_count) &&
-	     block_corridors(l, &blocked, &blocked_count);
-	struct gp_lead_keep keep = {
-		.same = ok ? gp_geos_shape_from_polyset(l->geos, &same) : NULL,
-		.same_distance = r->min_space,
-		.other = ok ? gp_geos_shape_from_polyset(l->geos, &other) : NULL,
-		.other_distance = reach,
-		.beyond = boxes,
-		.beyond_count = count,
-		.past = reach + r->min_space,
-		.blocked = blocked,
-		.blocked_count = blocked_count,
-	};
-	/* the router puts the common's transfer dots where this lead meets
-	 * the seal: leave room for them beside the front's leads */
-	const struct gp_transfer_spec *t = &l->design->routing->transfers;
-	keep.other_distance += t->size + 2 * t->margin + r->min_space;
-	bool found = false;
-	ok = ok && keep.same && keep.other &&
-	     find_lead(l, &from, &keep, w->common, &w->back_leads, &found);
-	free(blocked);
-	gp_geos_shape_destroy(l->geos, keep.same);
-	gp_geos_shape_destroy(l->geos, keep.other);
-	free(boxes);
-	gp_polyset_finish(&same);
-	gp_polyset_finish(&other);
-	gp_polyset_finish(&from);
-	if (ok && !found)
-		return no_lead(l, &l->design->icons[i], "common");
-	return ok;
-}
-
-/* Front lead-ins, one per segment net (the router takes one way out per
- * net; the first icon using the segment plans it). */
-static bool plan_front_leads(struct layout *l)
-{
-	bool ok = true;
-	for (size_t i = 0; ok && routed(l) && i < l->design->icon_count; i++) {
-		bool first = true;
-		for (size_t j = 0; j < i; j++)
-			first &= l->icons[j].segment != l->icons[i].segment;
-		if (first)
-			ok = front_lead(l, i);
-	}
-	return ok;
-}
-
-/* Back lead-outs, one per icon common (a dot-matrix row's common is led
- * out from the row's strips). */
-static bool plan_back_leads(struct layout *l)
-{
-	bool ok = true;
-	for (size_t i = 0; ok && routed(l) && i < l->design->icon_count; i++) {
-		bool first = l->design->icons[i].common != NULL;
-		for (size_t j = 0; j < i; j++)
-			first &= l->icons[j].group != l->icons[i].group;
-		if (first)
-			ok = back_lead(l, i);
-	}
-	return ok;
+	return true;
 }
 
 /* --- the stage ------------------------------------------------------------ */
@@ -1112,9 +857,7 @@ static void layout_finish(struct layout *l)
 	for (size_t i = 0; l->icons && i < l->design->icon_count; i++) {
 		gp_polyset_finish(&l->icons[i].front);
 		gp_polyset_finish(&l->icons[i].bridges);
-		gp_polyset_finish(&l->icons[i].leads);
 		gp_polyset_finish(&l->icons[i].back_bridges);
-		gp_polyset_finish(&l->icons[i].back_leads);
 	}
 	for (size_t g = 0; l->patches && g < l->group_count; g++)
 		gp_polyset_finish(&l->patches[g]);
@@ -1141,11 +884,11 @@ static bool make_all_bridges(struct layout *l)
 	bool ok = true;
 	for (size_t i = 0; i < l->design->icon_count; i++)
 		ok &= front_bridges(l, i);
-	if (!ok || !plan_front_leads(l) || !make_patches(l))
+	if (!ok || !make_patches(l))
 		return false;
 	for (size_t i = 0; i < l->design->icon_count; i++)
 		ok &= back_bridges(l, i);
-	return ok && plan_back_leads(l);
+	return ok;
 }
 
 bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
@@ -1167,14 +910,13 @@ bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
 	for (size_t i = 0; ok && i < d->icon_count; i++) {
 		gp_polyset_init(&l.icons[i].front);
 		gp_polyset_init(&l.icons[i].bridges);
-		gp_polyset_init(&l.icons[i].leads);
 		gp_polyset_init(&l.icons[i].back_bridges);
-		gp_polyset_init(&l.icons[i].back_leads);
 	}
 	if (!ok)
 		oom(&l);
 	ok = ok && make_all_fronts(&l) && assign_nets(&l) &&
-	     make_groups(&l) && make_all_bridges(&l) && emit(&l);
+	     make_groups(&l) && make_all_bridges(&l) && emit(&l) &&
+	     offer_all_ends(&l);
 	for (size_t i = 0; ok && i < d->icon_count; i++)
 		ok = note_icon(&l, i);
 	if (ok) {

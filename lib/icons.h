@@ -55,32 +55,4 @@ bool gp_bridges_join(struct gp_geos *geos, const struct gp_polyset *parts,
 		     size_t keep_count, struct gp_polyset *out,
 		     size_t *unjoined, struct gp_point *where);
 
-/* What a lead-in keeps away from. */
-struct gp_lead_keep {
-	struct gp_geos_shape *same;    /* same plate, other nets */
-	int64_t same_distance;
-	struct gp_geos_shape *other;   /* other plate, other nets */
-	int64_t other_distance;
-	/* bounds the lead must run past (those the router tests its straight
-	 * lead-outs against), and by how much */
-	const struct gp_box *beyond;
-	size_t beyond_count;
-	int64_t past;
-	/* bounds on the lead's own plate that no straight way out may pass
-	 * (within same_distance) beyond the part */
-	const struct gp_box *blocked;
-	size_t blocked_count;
-};
-
-/* A straight lead-in of the given width from one of the polygons of from
- * towards side (enum gp_side: bottom, right, top, left): starting up to a
- * width inside the part it leaves last, ending past every `beyond` box in
- * its band, its part outside from clear of the keep-outs.  Tried at the
- * part's outermost point that way first, then in steps of one width to
- * either side.  *end is a width back from the far end (where a further
- * lead may start); *found false when no position works. */
-bool gp_lead_find(struct gp_geos *geos, const struct gp_polyset *from,
-		  int side, int64_t width, const struct gp_lead_keep *keep,
-		  struct gp_polygon *lead, struct gp_point *end, bool *found);
-
 #endif
