@@ -464,6 +464,19 @@ static void test_pin_counts(void **state)
 			assert_int_equal(b.build->art.pixel_count,
 					 (size_t)(parts * c.count));
 			check_pairs(b.build, duty);
+			/* the firmware map's name of a pixel */
+			const struct gp_artwork *art = &b.build->art;
+			for (size_t i = 0; i < art->pixel_count; i++) {
+				const struct gp_pixel *px = &art->pixels[i];
+				const struct gp_digit_unit *u =
+					&b.build->digit_rows[0].units[px->d];
+				char label[96], want[96];
+				gp_digits_pixel_label(b.build, px, label,
+						      sizeof(label));
+				snprintf(want, sizeof(want), "digits row digit %d %s",
+					 px->a + 1, u->parts[px->b].name);
+				assert_string_equal(label, want);
+			}
 			built_finish(&b);
 		}
 	}
