@@ -726,7 +726,8 @@ static void test_lit_areas(void **state)
 		check_lit(f, &cases[i]);
 }
 
-/* Too narrow a gap for the lead-in through it is reported, naming both. */
+/* Too narrow a gap for the lead-in through it is reported, naming both;
+ * a row that leaves the glass is reported. */
 static void test_spacing_reported(void **state)
 {
 	(void)state;
@@ -736,6 +737,12 @@ static void test_spacing_reported(void **state)
 	assert_false(build_row(&c, &b));
 	assert_non_null(strstr(last_message(&b), "closer than the minimum "
 				"space 0.03 mm"));
+	built_finish(&b);
+	struct row_case far = { 7, "bevelled", "0", 1, 16, "0.2", "5", "1",
+				"9", "0.04", NULL };
+	assert_false(build_row(&far, &b));
+	assert_non_null(strstr(last_message(&b), "does not fit where the two "
+				"plates overlap"));
 	built_finish(&b);
 }
 
