@@ -286,17 +286,24 @@ static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
 	return !out->failed || gp_diag_error(diag, NULL, "out of memory");
 }
 
+bool gp_build_outputs(struct gp_build *build,
+		      struct gp_output_set *set,
+		      struct gp_diag *diag)
+{
+	return add_gerbers(build, set, diag) &&
+	       add_proof(build, set, diag) &&
+	       gp_route_write(build, set, diag) &&
+	       gp_build_add_check_reports(build, set, diag) &&
+	       add_checksums(set, diag);
+}
+
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 			      struct gp_diag *diag)
 {
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	stage(build, "writing");
-	bool ok = add_gerbers(build, &set, diag) &&
-		  add_proof(build, &set, diag) &&
-		  gp_route_write(build, &set, diag) &&
-		  gp_build_add_check_reports(build, &set, diag) &&
-		  add_checksums(&set, diag) &&
+	bool ok = gp_build_outputs(build, &set, diag) &&
 		  gp_output_commit(&set, folder, diag);
 	build->written.size = 0;
 	for (size_t i = 0; ok && i < set.count; i++) {

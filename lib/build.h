@@ -8,6 +8,7 @@
 #include "check.h"
 #include "diag.h"
 #include "model.h"
+#include "output.h"
 #include "route.h"
 
 struct gp_block_nets {
@@ -73,6 +74,15 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag);
 /* Net index of a block's common for dot row `row` (0-based over the whole
  * block, line by line), or -1 if out of range. */
 int gp_block_common_net(const struct gp_build *build, size_t block, long row);
+
+/* Renders every output of the build into set, in memory, touching no
+ * file: gp_build_write is this followed by gp_output_commit.  Every
+ * writer is called from here, so that the outputs in memory and on disk
+ * are the same set.  The fuzz
+ * harness and tests use it to run the whole pipeline without a disk. */
+bool gp_build_outputs(struct gp_build *build,
+		      struct gp_output_set *set,
+		      struct gp_diag *diag);
 
 /* Lays out every icon: nets, front electrodes and bridges, back patches
  * and bridges, pixels, summary lines (icon-layout.c). */

@@ -17,6 +17,7 @@ void gp_diag_finish(struct gp_diag *diag)
 	gp_diag_init(diag);
 }
 
+__attribute__((format(printf, 2, 0)))
 static char *format_message(const struct gp_where *where, const char *format,
 			    va_list args)
 {

@@ -9,6 +9,7 @@
 #include "digits.h"
 #include "geos.h"
 #include "patch.h"
+#include "route.h"
 
 #include "units.h"
 
@@ -85,11 +86,14 @@ static bool add_front(struct gp_build *build, size_t row_index,
 					gp_polygon_bounds(&p->poly[j]));
 				if (!px || !gp_polygon_copy(&px->shape, &p->poly[j]))
 					return oom(diag);
+				/* a: digit from 0 (-1: the sign unit),
+				 * b: part, c: its polygon, d: unit */
 				px->owner_kind = GP_OWNER_DIGITS;
 				px->owner = (int)row_index;
-				px->a = u->number;
+				px->a = u->number - 1;
 				px->b = k;
 				px->c = j;
+				px->d = (int)i;
 			}
 		}
 		int first = u->first_line_net;
@@ -476,6 +480,163 @@ done:
 	return ok;
 }
 
+/* --- lead ends --------------------------------------------------------------- */
+
+/* A static row's common is one net but a piece per digit (and per colon):
+ * the pieces are joined on the common plate by a riser from each up to a
+ * bus above the row.  Above the figures the segment plate is free but for
+ * the top bars' lead-ins, which turn outwards from the bar's ends, so the
+ * risers go up from the middle of each top bar (from the upper colon dot,
+ * which its lower dot joins straight below it). */
+static bool push_line(struct gp_polyset *set, struct gp_point a,
+		      struct gp_point b, int64_t w)
+{
+	struct gp_polygon poly;
+	gp_polygon_init(&poly);
+	int64_t h = w / 2;
+	struct gp_box box = a.x == b.x
+		? gp_box_make(a.x - h, a.y < b.y ? a.y : b.y, a.x + h,
+			      a.y < b.y ? b.y : a.y)
+		: gp_box_make(a.x < b.x ? a.x : b.x, a.y - h,
+			      a.x < b.x ? b.x : a.x, a.y + h);
+	return gp_polygon_set_box(&poly, box) && gp_polyset_take(set, &poly);
+}
+
+static bool static_bus(struct gp_build *build, const struct gp_digits *row,
+		       struct gp_digit_row *out, struct gp_diag *diag)
+{
+	const struct gp_rules *rules = &build->design->rules;
+	int64_t w = 2 * rules->min_line;
+	int64_t keep = (int64_t)ceil(2 * sqrt(2.0) * (double)rules->registration) +
+		       rules->min_space;
+	int64_t top = INT64_MIN;
+	for (size_t i = 0; i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		for (int t = 0; t < u->trace_count; t++) {
+			struct gp_box b = gp_polygon_bounds(&u->traces[t].poly);
+			top = b.y1 > top ? b.y1 : top;
+		}
+		for (int k = 0; k < u->part_count; k++)
+			for (int j = 0; j < u->parts[k].poly_count; j++) {
+				struct gp_box b = gp_polygon_bounds(&u->parts[k].poly[j]);
+				top = b.y1 > top ? b.y1 : top;
+			}
+	}
+	int64_t bus_y = top + keep + w / 2;
+	struct gp_polyset set;
+	gp_polyset_init(&set);
+	int64_t x0 = INT64_MAX, x1 = INT64_MIN;
+	bool ok = true;
+	for (size_t i = 0; ok && i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		struct gp_figure_spec fs = row->figure;
+		if (u->number == 0)
+			fs.figure = GP_FIGURE_7;
+		struct gp_figure_frame fr;
+		gp_figure_frame(&fs, &fr);
+		double v = fr.H - fr.S / 2;
+		double uu = fs.figure == GP_FIGURE_16 ? fr.cc : fr.W / 2;
+		if (u->number == 0)
+			uu = fr.W - fr.sv / 2, v = (fr.mtop + fr.H - fr.S) / 2;
+		struct gp_point a = { u->origin.x + llround(uu + v * fr.t),
+				      u->origin.y + llround(v) };
+		if (u->number == 0 && !row->one) /* the minus alone */
+			a = (struct gp_point){ u->origin.x + llround(fr.W / 2 + fr.m * fr.t),
+					       u->origin.y + llround(fr.m) };
+		ok = push_line(&set, a, (struct gp_point){ a.x, bus_y }, w);
+		x0 = a.x < x0 ? a.x : x0;
+		x1 = a.x > x1 ? a.x : x1;
+		for (int k = 0; ok && k < u->part_count; k++) {
+			const struct gp_digit_part *p = &u->parts[k];
+			if (strcmp(p->name, "colon") != 0)
+				continue;
+			struct gp_box lo = gp_polygon_bounds(&p->poly[0]);
+			struct gp_box hi = gp_polygon_bounds(&p->poly[1]);
+			struct gp_point cl = { (lo.x0 + lo.x1) / 2, (lo.y0 + lo.y1) / 2 };
+			struct gp_point ch = { (hi.x0 + hi.x1) / 2, (hi.y0 + hi.y1) / 2 };
+			ok = push_line(&set, cl, (struct gp_point){ cl.x, ch.y }, w) &&
+			     push_line(&set, (struct gp_point){ cl.x, ch.y }, ch, w) &&
+			     push_line(&set, ch, (struct gp_point){ ch.x, bus_y }, w);
+			x0 = ch.x < x0 ? ch.x : x0;
+			x1 = ch.x > x1 ? ch.x : x1;
+		}
+	}
+	ok = ok && push_line(&set, (struct gp_point){ x0 - w / 2, bus_y },
+			     (struct gp_point){ x1 + w / 2, bus_y }, w);
+	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
+	for (size_t i = 0; ok && i < set.count; i++)
+		ok = gp_artwork_add_shape(&build->art, layer, GP_ROLE_BRIDGE,
+					  out->first_common, &set.items[i]) != NULL;
+	int net = out->first_common;
+	ok = ok &&
+	     gp_build_add_lead_end(build, net, GP_SIDE_TOP,
+				   (struct gp_point){ (x0 + x1) / 2, bus_y }, w) &&
+	     gp_build_add_lead_end(build, net, GP_SIDE_LEFT,
+				   (struct gp_point){ x0, bus_y }, w) &&
+	     gp_build_add_lead_end(build, net, GP_SIDE_RIGHT,
+				   (struct gp_point){ x1, bus_y }, w);
+	gp_polyset_finish(&set);
+	return ok || gp_diag_error(diag, NULL, "out of memory");
+}
+
+/* Every segment line leaves from its port, down toward the ledge; a
+ * multiplexed common from each of its patches' top (the patches of one
+ * common are not joined yet: see the README). */
+static bool offer_ends(struct gp_build *build, const struct gp_digits *row,
+		       struct gp_digit_row *out, struct gp_diag *diag)
+{
+	for (size_t i = 0; i < out->port_count; i++)
+		if (!gp_build_add_lead_end(build, out->ports[i].net,
+					   GP_SIDE_BOTTOM, out->ports[i].at,
+					   out->ports[i].width))
+			return gp_diag_error(diag, NULL, "out of memory");
+	if (row->duty == 1)
+		return static_bus(build, row, out, diag);
+	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
+	int64_t w = 2 * build->design->rules.min_line;
+	for (size_t s = 0; s < build->art.shape_count; s++) {
+		const struct gp_shape *sh = &build->art.shapes[s];
+		if (sh->layer != layer || sh->role != GP_ROLE_PATCH ||
+		    sh->net < out->first_common ||
+		    sh->net >= out->first_common + out->common_count)
+			continue;
+		struct gp_point best = { 0, INT64_MIN };
+		for (size_t k = 0; k < sh->poly.outer.count; k++)
+			if (sh->poly.outer.points[k].y > best.y)
+				best = sh->poly.outer.points[k];
+		best.y -= w;
+		if (!gp_build_add_lead_end(build, sh->net, GP_SIDE_TOP, best, w))
+			return gp_diag_error(diag, NULL, "out of memory");
+	}
+	return true;
+}
+
+void gp_digits_pixel_label(const struct gp_build *build,
+			   const struct gp_pixel *px, char *buffer, size_t size)
+{
+	const struct gp_design *d = build->design;
+	snprintf(buffer, size, "digits");
+	if (px->owner_kind != GP_OWNER_DIGITS || px->owner < 0 ||
+	    (size_t)px->owner >= build->digit_row_count)
+		return;
+	const struct gp_digit_row *row = &build->digit_rows[px->owner];
+	if (px->d < 0 || (size_t)px->d >= row->unit_count)
+		return;
+	const struct gp_digit_unit *u = &row->units[px->d];
+	if (px->b < 0 || px->b >= u->part_count)
+		return;
+	const char *name = u->parts[px->b].name;
+	const char *piece = u->parts[px->b].poly_count < 2 ? ""
+			    : px->c == 0 ? (strcmp(name, "one") ? " lower" : " upper")
+					 : (strcmp(name, "one") ? " upper" : " lower");
+	if (u->number == 0)
+		snprintf(buffer, size, "digits %s sign %s%s",
+			 d->digits[px->owner].name, name, piece);
+	else
+		snprintf(buffer, size, "digits %s digit %d %s%s",
+			 d->digits[px->owner].name, u->number, name, piece);
+}
+
 static const char *figure_name(enum gp_figure f)
 {
 	return f == GP_FIGURE_7 ? "7" : f == GP_FIGURE_14 ? "14" : "16";
@@ -522,7 +683,8 @@ bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag)
 		     make_nets(build, row, out, diag) &&
 		     add_front(build, i, out, diag) &&
 		     check_spacing(build, row, out, geos, diag) &&
-		     add_patches(build, row, out, geos, diag);
+		     add_patches(build, row, out, geos, diag) &&
+		     offer_ends(build, row, out, diag);
 		if (ok) {
 			build->digit_row_count = i + 1;
 			note_row(build, row, out);

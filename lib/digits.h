@@ -248,6 +248,12 @@ struct gp_build;
 bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag);
 void gp_digit_rows_free(struct gp_digit_row *rows, size_t count);
 
+struct gp_pixel;
+/* "digits clock digit 2 g", "digits clock sign minus": what a digit pixel
+ * is, for the firmware map and reports. */
+void gp_digits_pixel_label(const struct gp_build *build,
+			   const struct gp_pixel *px, char *buffer, size_t size);
+
 /* The name of a unit for messages: "digit 3" or "the sign unit". */
 void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,
 			 size_t size);

@@ -338,7 +338,8 @@ static int compare_span(const void *x, const void *y)
 static bool shortest_gap(struct span *spans, size_t count, double width,
 			 double *t0, double *t1, double *gap_out)
 {
-	qsort(spans, count, sizeof(*spans), compare_span);
+	if (count > 1) /* spans may be NULL when empty */
+		qsort(spans, count, sizeof(*spans), compare_span);
 	double best = INFINITY;
 	for (size_t i = 0; i + 1 < count; i++) {
 		const struct span *p = &spans[i], *q = &spans[i + 1];

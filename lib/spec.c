@@ -537,11 +537,12 @@ static const struct gp_node *find_key(const struct gp_reader *reader,
 	return NULL;
 }
 
-/* Is some key of the map a near miss of key? */
+/* Is some key of the map a near miss of key (but not key itself)? */
 static bool misspelt(const struct gp_reader *reader, const char *key)
 {
 	for (size_t i = 0; i < reader->map->count; i++)
-		if (gp_nearest_word(reader->map->keys[i]->text, &key, 1))
+		if (strcmp(reader->map->keys[i]->text, key) != 0 &&
+		    gp_nearest_word(reader->map->keys[i]->text, &key, 1))
 			return true;
 	return false;
 }
@@ -558,14 +559,21 @@ const struct gp_node *gp_read_node(struct gp_reader *reader, const char *key,
 			reader->known[reader->known_count++] = key;
 	}
 	const struct gp_node *node = find_key(reader, key);
+	const struct gp_node *empty = NULL;
 	if (node && node->kind == GP_NODE_SCALAR && !node->quoted &&
 	    (node->text[0] == '\0' || strcmp(node->text, "~") == 0 ||
-	     strcmp(node->text, "null") == 0))
-		node = NULL; /* "key:" with nothing after it */
+	     strcmp(node->text, "null") == 0)) {
+		empty = node; /* "key:" with nothing after it */
+		node = NULL;
+	}
 	if (!node && required && reader->map) {
 		reader->ok = false;
+		if (empty)
+			gp_diag_error(reader->diag, &empty->where,
+				      "required key '%s' in %s has no value",
+				      key, reader->what);
 		/* a misspelt key is reported once, as unknown, at the end */
-		if (!misspelt(reader, key))
+		else if (!misspelt(reader, key))
 			gp_diag_error(reader->diag, &reader->map->where,
 				      "missing required key '%s' in %s", key,
 				      reader->what);

@@ -1,0 +1,37 @@
+#!/bin/sh
+# Runs every libFuzzer harness for a time budget from the kept corpus plus
+# the samples and the broken descriptions; fails on any finding.  New
+# inputs go to a scratch folder, never into the repository.
+# usage: tests/fuzz/run-fuzzers.sh BUILD_DIR [SECONDS_PER_HARNESS]
+# BUILD_DIR was set up with: CC=clang meson setup BUILD_DIR -Dfuzzing=true
+#   -Db_sanitize=address,undefined -Db_lundef=false
+set -u
+build=$1
+seconds=${2:-60}
+root=$(cd "$(dirname "$0")/../.." && pwd)
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+status=0
+for harness in load build; do
+	exe=$build/tests/fuzz/fuzz-$harness
+	mkdir -p "$work/$harness/new" "$work/$harness/findings"
+	"$exe" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
+		-max_len=65536 -print_final_stats=1 \
+		-artifact_prefix="$work/$harness/findings/" \
+		"$work/$harness/new" "$root/tests/fuzz/corpus-$harness" \
+		"$root/samples" "$root/tests/errors" \
+		>"$work/$harness/log" 2>&1
+	rc=$?
+	runs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$work/$harness/log")
+	echo "fuzz-$harness: ${runs:-?} executions in ${seconds} s, exit status $rc"
+	if [ "$rc" -ne 0 ] || [ -n "$(ls "$work/$harness/findings")" ]; then
+		status=1
+		tail -n 60 "$work/$harness/log"
+		for f in "$work/$harness/findings"/*; do
+			[ -e "$f" ] || continue
+			echo "finding $(basename "$f") (base64, add it to tests/fuzz/corpus-$harness/):"
+			base64 "$f"
+		done
+	fi
+done
+exit $status
