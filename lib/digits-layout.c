@@ -637,6 +637,40 @@ void gp_digits_pixel_label(const struct gp_build *build,
 			 d->digits[px->owner].name, u->number, name, piece);
 }
 
+/* Everything the row draws must lie where both plates are. */
+static bool check_fits(const struct gp_build *build, const struct gp_digits *row,
+		       const struct gp_digit_row *out, struct gp_diag *diag)
+{
+	const struct gp_design *d = build->design;
+	struct gp_box f = d->front.box, k = d->back.box;
+	struct gp_box both = {
+		f.x0 > k.x0 ? f.x0 : k.x0, f.y0 > k.y0 ? f.y0 : k.y0,
+		f.x1 < k.x1 ? f.x1 : k.x1, f.y1 < k.y1 ? f.y1 : k.y1,
+	};
+	struct gp_box e = gp_box_none();
+	for (size_t i = 0; i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		for (int p = 0; p < u->part_count; p++)
+			for (int j = 0; j < u->parts[p].poly_count; j++)
+				e = gp_box_union(e, gp_polygon_bounds(&u->parts[p].poly[j]));
+		for (int t = 0; t < u->trace_count; t++)
+			e = gp_box_union(e, gp_polygon_bounds(&u->traces[t].poly));
+	}
+	if (gp_box_is_empty(e) || (e.x0 >= both.x0 && e.x1 <= both.x1 &&
+				   e.y0 >= both.y0 && e.y1 <= both.y1))
+		return true;
+	char x0[32], y0[32], x1[32], y1[32];
+	gp_format_mm_short(x0, sizeof(x0), e.x0);
+	gp_format_mm_short(y0, sizeof(y0), e.y0);
+	gp_format_mm_short(x1, sizeof(x1), e.x1);
+	gp_format_mm_short(y1, sizeof(y1), e.y1);
+	return gp_diag_error(diag, &row->where,
+			     "digits '%s' with their lead-ins span x %s..%s, "
+			     "y %s..%s mm, which does not fit where the two "
+			     "plates overlap",
+			     row->name, x0, x1, y0, y1);
+}
+
 static const char *figure_name(enum gp_figure f)
 {
 	return f == GP_FIGURE_7 ? "7" : f == GP_FIGURE_14 ? "14" : "16";
@@ -680,6 +714,7 @@ bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag)
 		const struct gp_digits *row = &design->digits[i];
 		struct gp_digit_row *out = &build->digit_rows[i];
 		ok = gp_digits_plan(row, &dr, out, diag) &&
+		     check_fits(build, row, out, diag) &&
 		     make_nets(build, row, out, diag) &&
 		     add_front(build, i, out, diag) &&
 		     check_spacing(build, row, out, geos, diag) &&

@@ -464,6 +464,19 @@ static void test_pin_counts(void **state)
 			assert_int_equal(b.build->art.pixel_count,
 					 (size_t)(parts * c.count));
 			check_pairs(b.build, duty);
+			/* the firmware map's name of a pixel */
+			const struct gp_artwork *art = &b.build->art;
+			for (size_t i = 0; i < art->pixel_count; i++) {
+				const struct gp_pixel *px = &art->pixels[i];
+				const struct gp_digit_unit *u =
+					&b.build->digit_rows[0].units[px->d];
+				char label[96], want[96];
+				gp_digits_pixel_label(b.build, px, label,
+						      sizeof(label));
+				snprintf(want, sizeof(want), "digits row digit %d %s",
+					 px->a + 1, u->parts[px->b].name);
+				assert_string_equal(label, want);
+			}
 			built_finish(&b);
 		}
 	}
@@ -713,7 +726,8 @@ static void test_lit_areas(void **state)
 		check_lit(f, &cases[i]);
 }
 
-/* Too narrow a gap for the lead-in through it is reported, naming both. */
+/* Too narrow a gap for the lead-in through it is reported, naming both;
+ * a row that leaves the glass is reported. */
 static void test_spacing_reported(void **state)
 {
 	(void)state;
@@ -723,6 +737,12 @@ static void test_spacing_reported(void **state)
 	assert_false(build_row(&c, &b));
 	assert_non_null(strstr(last_message(&b), "closer than the minimum "
 				"space 0.03 mm"));
+	built_finish(&b);
+	struct row_case far = { 7, "bevelled", "0", 1, 16, "0.2", "5", "1",
+				"9", "0.04", NULL };
+	assert_false(build_row(&far, &b));
+	assert_non_null(strstr(last_message(&b), "does not fit where the two "
+				"plates overlap"));
 	built_finish(&b);
 }
 
