@@ -590,7 +590,8 @@ static int roots_of(const struct gp_digit_row *row, int unit, int part,
 	int n = 0;
 	const struct gp_digit_unit *un = &row->units[unit];
 	for (int t = 0; t < un->trace_count; t++)
-		n += un->traces[t].part == part && un->traces[t].piece == piece;
+		n += (un->traces[t].part == part && un->traces[t].piece == piece) +
+		     (un->traces[t].part2 == part);
 	return n;
 }
 
@@ -672,9 +673,21 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					gp_geos_shape_destroy(f->geos, own);
 					gp_geos_shape_destroy(f->geos, whole);
 				}
+				if (tr->part2 >= 0) {
+					struct gp_geos_shape *end = gp_geos_shape_from_polygon(
+						f->geos, &un->parts[tr->part2].poly[0]);
+					struct gp_geos_shape *cut =
+						gp_geos_shape_difference(f->geos, lead, end);
+					gp_geos_shape_destroy(f->geos, end);
+					gp_geos_shape_destroy(f->geos, lead);
+					lead = cut;
+				}
 				int own = tr->part >= 0
 						  ? un->parts[tr->part].common - 1
 						  : -1;
+				int own2 = tr->part2 >= 0
+						   ? un->parts[tr->part2].common - 1
+						   : -1;
 				for (int n = 0; n < row->common_count; n++) {
 					double lit = overlap_mm2(f, lead, coms[n]);
 					/* nominal: none; shifted: only its own
@@ -682,7 +695,7 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					 * by at most line x shift (twice at a
 					 * corner) */
 					double most = 0;
-					if (k != 4 && n == own)
+					if (k != 4 && (n == own || n == own2))
 						most = 2 * gp_mm(b.design->rules.min_line + 2) *
 						       gp_mm(m) * sqrt(2.0);
 					if (lit > most + AREA_EPS)
@@ -721,6 +734,11 @@ static void test_lit_areas(void **state)
 		  "    point: {size: 0.8}\n" },
 		{ 14, "bevelled", "0", 4, 2, "0.45", "7", "0.8", "12", "0.04",
 		  "    point: {size: 0.8}\n" },
+		/* the grid: lines inside the digits, commons across */
+		{ 7, "bevelled", "6", 4, 3, "0.2", "5", "1", "9", "0.04",
+		  "    point: {size: 0.9}\n" },
+		{ 7, "square", "-5", 4, 2, "0.2", "5", "1", "9", "0.04",
+		  "    point: {shape: square, size: 0.8}\n" },
 	};
 	for (size_t i = 0; i < sizeof(cases) / sizeof(*cases); i++)
 		check_lit(f, &cases[i]);
