@@ -548,9 +548,13 @@ static struct table finding_table(void)
 	return t;
 }
 
+/* Findings marked and listed; report.txt has them all. */
+#define MAX_SHOWN_FINDINGS 2000
+
 static size_t finding_count(const struct gp_build *build)
 {
-	return build->checked ? build->checks.count : 0;
+	size_t n = build->checked ? build->checks.count : 0;
+	return n < MAX_SHOWN_FINDINGS ? n : MAX_SHOWN_FINDINGS;
 }
 
 /* Findings listed per sheet. */
@@ -672,8 +676,15 @@ static void findings_summary(struct proof *p, double x, double y)
 			    r->errors == 1 ? "" : "s", r->warnings,
 			    r->warnings == 1 ? "" : "s",
 			    p->plan.finding_sheets > 2 ? "s" : "");
+	if (r->count > finding_count(p->build))
+		proof_textf(p, x, y + 4.5, ALIGN_LEFT,
+			    "The first %zu are marked and listed; report.txt "
+			    "has them all.",
+			    finding_count(p->build));
 	/* what the checks skipped or stood in for, one line each */
 	proof_font(p, 2.2, false);
+	if (r->count > finding_count(p->build))
+		y += 4.5;
 	const char *s = r->notes.data ? r->notes.data : "";
 	for (int line = 0; *s && line < 6; line++) {
 		const char *end = strchr(s, '\n');

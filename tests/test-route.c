@@ -910,9 +910,9 @@ static void route_bench_glass(void **state)
 		" cell_pitch: 3.2, line_pitch: 5.6}\n"
 		"ledges:\n"
 		"  segments: {side: bottom, pitch: 0.64, pad_width: 0.32,"
-		" pad_length: 2, edge_clearance: 0.3, carries: segments}\n"
+		" pad_length: 2, carries: segments}\n"
 		"  commons: {side: right, pitch: 0.7, pad_width: 0.35,"
-		" pad_length: 2, edge_clearance: 0.3, carries: commons}\n"
+		" pad_length: 2, carries: commons}\n"
 		"seal: {width: 1, distance: 0.5}\n";
 	struct fixture f;
 	load_ok(&f, text);

@@ -1,5 +1,5 @@
 /* Benchmark of the PDF proof alone: the 320 x 240-dot glass of
- * bench-build (times a scale factor), routed to two ledges, laid out once;
+ * bench-build (times a scale factor), routed to two ledges, built once;
  * then gp_proof_write is timed.  Prints the time, the PDF's size and the
  * growth of peak memory while writing it.
  * usage: bench-proof [SCALE] [OUT.pdf] */
@@ -28,22 +28,23 @@ static double peak_mb(void)
 	return (double)usage.ru_maxrss / 1024.0;
 }
 
-/* 5 x 8 dot cells as in bench-build; commons to a ledge on the left,
- * segments to a ledge at the bottom. */
+/* The description of bench-build.c, copied: 5 x 8 dot cells; scale
+ * multiplies the pixel count; segments to a ledge at the bottom, commons to
+ * one on the right. */
 static char *describe(double scale, long *pixels)
 {
 	long cells = lround(64 * sqrt(scale)), lines = lround(30 * sqrt(scale));
 	*pixels = cells * lines * 40;
-	double width = cells * 3.2 + 80, height = lines * 5.6 + 80;
+	double width = cells * 3.2 + 20, height = lines * 5.6 + 20;
 	char *text = malloc(4096);
 	snprintf(text, 4096,
 		 "glass: {part: BENCH-%ld}\n"
 		 "front: {size: [%.1f, %.1f]}\n"
-		 "back: {size: [%.1f, %.1f], position: [8, 8]}\n"
-		 "viewing_area: {position: [40, 40], size: [%.1f, %.1f]}\n"
+		 "back: {size: [%.1f, %.1f], position: [0, 5]}\n"
+		 "viewing_area: {position: [5, 10], size: [%.1f, %.1f]}\n"
 		 "blocks:\n"
 		 "  matrix:\n"
-		 "    origin: [45, %.1f]\n"
+		 "    origin: [10, %.1f]\n"
 		 "    cells: [%ld, %ld]\n"
 		 "    dots: [5, 8]\n"
 		 "    dot_size: [0.5, 0.55]\n"
@@ -51,19 +52,13 @@ static char *describe(double scale, long *pixels)
 		 "    cell_pitch: 3.2\n"
 		 "    line_pitch: 5.6\n"
 		 "ledges:\n"
-		 "  segments:\n"
-		 "    {side: bottom, plate: front, pitch: 0.5, pad_width: 0.25,\n"
-		 "     pad_length: 2, edge_clearance: 0.5, carries: segments,\n"
-		 "     connection: {method: elastomeric, pitch: 0.05}}\n"
-		 "  commons:\n"
-		 "    {side: left, plate: front, pitch: 0.7, pad_width: 0.35,\n"
-		 "     pad_length: 2, edge_clearance: 0.5, carries: commons,\n"
-		 "     connection: {method: elastomeric, pitch: 0.05}}\n"
-		 "leads: {width: 0.05, space: 0.05}\n"
-		 "seal: {width: 1, distance: 0.5}\n"
-		 "transfers: {size: 0.3, count: 2, place: seal}\n",
-		 *pixels, width, height, width - 8, height - 8,
-		 width - 60, height - 60, height - 25, cells, lines);
+		 "  segments: {side: bottom, pitch: 0.64, pad_width: 0.32,"
+		 " pad_length: 2, edge_clearance: 0.3, carries: segments}\n"
+		 "  commons: {side: right, pitch: 0.7, pad_width: 0.35,"
+		 " pad_length: 2, edge_clearance: 0.3, carries: commons}\n"
+		 "seal: {width: 1, distance: 0.5}\n",
+		 *pixels, width, height + 5, width + 6, height, width - 10,
+		 height - 10, height, cells, lines);
 	return text;
 }
 
