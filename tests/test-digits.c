@@ -872,6 +872,42 @@ static void test_gerbv_round_trip(void **state)
 	built_finish(&b);
 }
 
+/* The two samples routed to the ledge: pins as the schemes' formulas say
+ * (static: 7 segments x 4 + colon + point + 1 common = 31; 1/4 duty with a
+ * point on each digit: 2 lines x 4 + 4 commons = 12), every pin used, and
+ * the checks find nothing that blocks manufacture. */
+static void test_samples_routed(void **state)
+{
+	(void)state;
+	static const struct {
+		const char *file;
+		size_t pins;
+	} cases[] = {
+		{ "timer-4digit-static.yaml", 7 * 4 + 1 + 1 + 1 },
+		{ "timer-4digit-quarter.yaml", 2 * 4 + 4 },
+	};
+	for (size_t i = 0; i < 2; i++) {
+		char path[1024];
+		snprintf(path, sizeof(path), "%s/%s", env_or_fail("GP_SAMPLES"),
+			 cases[i].file);
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		struct gp_design *design = gp_design_load(path, NULL, 0, &diag);
+		assert_non_null(design);
+		struct gp_build *build = gp_build_create(design, &diag);
+		if (!build)
+			fail_msg("%s: %s", path, diag.count ?
+				 diag.entries[diag.count - 1].message : "");
+		assert_int_equal(build->pin_count, cases[i].pins);
+		for (size_t k = 0; k < build->pin_count; k++)
+			assert_true(build->pins[k].net >= 0);
+		assert_int_equal(diag.errors, 0);
+		gp_build_destroy(build);
+		gp_design_destroy(design);
+		gp_diag_finish(&diag);
+	}
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -885,6 +921,7 @@ int main(void)
 		cmocka_unit_test(test_spacing_reported),
 		cmocka_unit_test_setup_teardown(test_gerbv_round_trip, setup,
 						teardown),
+		cmocka_unit_test(test_samples_routed),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
