@@ -855,6 +855,12 @@ static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
 					     "gaps",
 					     row->name, label, line, most);
 		if (last - first + 1 != count) {
+			char order[GP_UNIT_MAX_PARTS * 8] = "";
+			for (int k = 0; k < u->part_count; k++) {
+				size_t n = strlen(order);
+				snprintf(order + n, sizeof(order) - n, "%s%s",
+					 k ? " " : "", u->parts[u->order[k]].name);
+			}
 			const char *in = "";
 			for (int k = first; k <= last; k++)
 				if (u->parts[u->order[k]].line != line)
@@ -869,8 +875,7 @@ static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
 				"to right: %s)",
 				row->name, line, label,
 				u->parts[u->order[first]].name,
-				u->parts[u->order[last]].name, in, line,
-				"see the order in the README");
+				u->parts[u->order[last]].name, in, line, order);
 		}
 	}
 	u->line_count = most;
