@@ -579,6 +579,188 @@ static bool static_bus(struct gp_build *build, const struct gp_digits *row,
 	return ok || gp_diag_error(diag, NULL, "out of memory");
 }
 
+/* --- the grid's commons ---------------------------------------------------------- */
+
+struct grid_at {
+	const struct gp_digit_unit *u;
+	struct gp_figure_frame fr;
+};
+
+static struct gp_point gat(const struct grid_at *g, double u, double v)
+{
+	return (struct gp_point){ g->u->origin.x + llround(u + v * g->fr.t),
+				  g->u->origin.y + llround(v) };
+}
+
+static bool back_line(struct gp_build *build, int net, const struct gp_point *pts,
+		      size_t n, int64_t w)
+{
+	struct gp_polygon poly;
+	if (!gp_digit_thick_line(pts, n, w, &poly))
+		return false;
+	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
+	if (gp_artwork_add_shape(&build->art, layer, GP_ROLE_BRIDGE, net, &poly))
+		return true;
+	gp_polygon_finish(&poly);
+	return false;
+}
+
+static struct gp_point part_centre(const struct gp_digit_unit *u,
+				   const char *name)
+{
+	for (int k = 0; k < u->part_count; k++)
+		if (strcmp(u->parts[k].name, name) == 0) {
+			struct gp_box b = gp_polygon_bounds(&u->parts[k].poly[0]);
+			return (struct gp_point){ b.x0 / 2 + b.x1 / 2,
+						  b.y0 / 2 + b.y1 / 2 };
+		}
+	return (struct gp_point){ 0, 0 };
+}
+
+/* The exits of one digit for each common, upright (u, v): left and right,
+ * where the links to the neighbours start; and the links inside it. */
+struct grid_exits {
+	struct gp_point left[4], right[4];
+};
+
+/* Two points either side of the line through upright points (pu, pv) and
+ * (qu, qv), at fraction t along it, reach from it (a link across a gap). */
+static void across(const struct grid_at *g, double pu, double pv, double qu,
+		   double qv, double t, double reach, struct gp_point out[2])
+{
+	double t0 = g->fr.t;
+	double px = pu + pv * t0, py = pv, qx = qu + qv * t0, qy = qv;
+	double mx = px + t * (qx - px), my = py + t * (qy - py);
+	double dx = qx - px, dy = qy - py, l = sqrt(dx * dx + dy * dy);
+	double nx = -dy / l, ny = dx / l;
+	out[0] = (struct gp_point){ g->u->origin.x + llround(mx + nx * reach),
+				    g->u->origin.y + llround(my + ny * reach) };
+	out[1] = (struct gp_point){ g->u->origin.x + llround(mx - nx * reach),
+				    g->u->origin.y + llround(my - ny * reach) };
+}
+
+static bool grid_digit(struct gp_build *build, const struct gp_digits *row,
+		       const struct gp_digit_row *out, size_t i, double w,
+		       double keep, struct grid_exits *x)
+{
+	struct grid_at g;
+	g.u = &out->units[i];
+	gp_figure_frame(&row->figure, &g.fr);
+	const struct gp_figure_frame *f = &g.fr;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	double upper = (f->mtop + H - S) / 2, lower = (S + f->mlo) / 2;
+	double ul = -(keep + w / 2), ur = W + keep + w / 2;
+	double vtop = H + keep + w / 2, v4 = -(keep + w / 2);
+	double reach = G / 2 + 2.5 * w;
+	int c0 = out->first_common;
+	int64_t lw = (int64_t)w;
+	bool bev = row->figure.ends == GP_ENDS_BEVELLED;
+	/* COM1: a and b across the top right corner; out over a's left end
+	 * (above f, which it must not cross) and from b's side */
+	struct gp_point ab[2], fg[2];
+	if (bev)
+		across(&g, W, H, W - sv, H - S, 0.5, reach, ab);
+	else
+		across(&g, W - sv / 2, H - S - G / 2, W - sv / 2 + 1,
+		       H - S - G / 2, 0, reach, ab);
+	struct gp_point a_up[3] = { gat(&g, sv / 2 + G + S, H - S / 2),
+				    gat(&g, sv / 2 + G + S, vtop),
+				    gat(&g, ul, vtop) };
+	struct gp_point b_out[3] = { gat(&g, W - sv / 2, upper),
+				     gat(&g, ur, upper), gat(&g, ur, vtop) };
+	/* COM2: f and g across their gap; out from f's side and from g's
+	 * end through the gap between b and c */
+	if (bev) {
+		across(&g, sv / 2, f->m, sv, f->mtop, 0.5, reach, fg);
+	} else {
+		double v = (f->mc + G / 2 + f->mtop) / 2;
+		double u = sv + G * f->sec / 2;
+		across(&g, u, v, u, v + 1, 0, reach, fg);
+	}
+	struct gp_point f_out[2] = { gat(&g, sv / 2, upper), gat(&g, ul, upper) };
+	struct gp_point g_out[2] = {
+		gat(&g, W - sv - G * f->sec - S / 2, f->mc), gat(&g, ur, f->mc),
+	};
+	/* COM3: straight across e, the lower counter and c */
+	struct gp_point ec[2] = { gat(&g, ul, lower), gat(&g, ur, lower) };
+	/* COM4: from d's two ends down under the baseline: to the left, and
+	 * to the point, which it enters from below beside the point's
+	 * lead-in; out from the point's side */
+	struct gp_point pc = part_centre(g.u, "dp");
+	double r = (double)row->point_size / 2;
+	double pv = (double)(pc.y - g.u->origin.y);
+	double pu = (double)(pc.x - g.u->origin.x) - pv * f->t;
+	double dl = bev ? sv + G + S / 2 : S, dr = W - sv - G - S / 2;
+	struct gp_point d_left[3] = { gat(&g, dl, S / 2), gat(&g, dl, v4),
+				      gat(&g, ul, v4) };
+	struct gp_point dp_link[4] = {
+		gat(&g, dr, S / 2), gat(&g, dr, v4), gat(&g, pu - r / 3, v4),
+		gat(&g, pu - r / 3, pv),
+	};
+	double pr = pu + r + keep + w / 2;
+	struct gp_point dp_out[3] = { gat(&g, pu, pv), gat(&g, pr, pv),
+				      gat(&g, pr, v4) };
+	x->left[0] = a_up[2];
+	x->left[1] = f_out[1];
+	x->left[2] = ec[0];
+	x->left[3] = d_left[2];
+	x->right[0] = b_out[2];
+	x->right[1] = g_out[1];
+	x->right[2] = ec[1];
+	x->right[3] = dp_out[2];
+	return back_line(build, c0, ab, 2, lw) &&
+	       back_line(build, c0, a_up, 3, lw) &&
+	       back_line(build, c0, b_out, 3, lw) &&
+	       back_line(build, c0 + 1, fg, 2, lw) &&
+	       back_line(build, c0 + 1, f_out, 2, lw) &&
+	       back_line(build, c0 + 1, g_out, 2, lw) &&
+	       back_line(build, c0 + 2, ec, 2, lw) &&
+	       back_line(build, c0 + 3, d_left, 3, lw) &&
+	       back_line(build, c0 + 3, dp_link, 4, lw) &&
+	       back_line(build, c0 + 3, dp_out, 3, lw);
+}
+
+/* Links between digits, and lead ends at the row's two ends. */
+static bool grid_back(struct gp_build *build, const struct gp_digits *row,
+		      struct gp_digit_row *out, struct gp_diag *diag)
+{
+	const struct gp_rules *rules = &build->design->rules;
+	double w = (double)rules->min_line + 2;
+	double keep = fmax((double)rules->min_space,
+			   2 * sqrt(2.0) * (double)rules->registration + 2);
+	struct grid_exits prev = { 0 }, cur;
+	bool ok = true;
+	for (size_t i = 0; ok && i < out->unit_count; i++) {
+		ok = grid_digit(build, row, out, i, w, keep, &cur);
+		if (ok && i > 0) {
+			int c0 = out->first_common;
+			int64_t lw = (int64_t)w;
+			int64_t mid = (prev.right[1].x + cur.left[1].x) / 2;
+			struct gp_point l0[2] = { prev.right[0], cur.left[0] };
+			struct gp_point l1[4] = {
+				prev.right[1], { mid, prev.right[1].y },
+				{ mid, cur.left[1].y }, cur.left[1],
+			};
+			struct gp_point l2[2] = { prev.right[2], cur.left[2] };
+			struct gp_point l3[2] = { prev.right[3], cur.left[3] };
+			ok = back_line(build, c0, l0, 2, lw) &&
+			     back_line(build, c0 + 1, l1, 4, lw) &&
+			     back_line(build, c0 + 2, l2, 2, lw) &&
+			     back_line(build, c0 + 3, l3, 2, lw);
+		}
+		if (ok && i == 0)
+			for (int k = 0; ok && k < 4; k++)
+				ok = gp_build_add_lead_end(build, out->first_common + k,
+							   GP_SIDE_LEFT, cur.left[k],
+							   (int64_t)w);
+		prev = cur;
+	}
+	for (int k = 0; ok && k < 4; k++)
+		ok = gp_build_add_lead_end(build, out->first_common + k,
+					   GP_SIDE_RIGHT, prev.right[k], (int64_t)w);
+	return ok || gp_diag_error(diag, NULL, "out of memory");
+}
+
 /* Every segment line leaves from its port, down toward the ledge; a
  * multiplexed common from each of its patches' top (the patches of one
  * common are not joined yet: see the README). */
@@ -592,6 +774,8 @@ static bool offer_ends(struct gp_build *build, const struct gp_digits *row,
 			return gp_diag_error(diag, NULL, "out of memory");
 	if (row->duty == 1)
 		return static_bus(build, row, out, diag);
+	if (gp_digits_grid(row))
+		return grid_back(build, row, out, diag);
 	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
 	int64_t w = 2 * build->design->rules.min_line;
 	for (size_t s = 0; s < build->art.shape_count; s++) {

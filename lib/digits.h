@@ -185,6 +185,7 @@ struct gp_digit_trace {
 	struct gp_polygon poly;
 	int part;                 /* part it starts from, -1 for a bar */
 	int piece;                /* which polygon of that part */
+	int part2;                /* part a bridge ends in, else -1 */
 	int line;                 /* segment line, 1-based, once assigned */
 	double u_end;             /* upright position where it ends, nm */
 };
@@ -233,6 +234,17 @@ struct gp_digit_rules {
 	int64_t registration;
 	int64_t chord_tolerance;
 };
+
+/* Whether a row is laid out as a grid (see digits-plan.c): 7 segments
+ * with a point on every digit at 1/4 duty, no colon, no sign unit, the
+ * documented assignment.  Its segment lines run inside the digits and its
+ * commons across them, so that the commons can be joined digit to digit. */
+bool gp_digits_grid(const struct gp_digits *row);
+
+/* A line width wide along pts (mitred corners, square ends), as one
+ * polygon.  n <= 8. */
+bool gp_digit_thick_line(const struct gp_point *pts, size_t n, int64_t width,
+			 struct gp_polygon *out);
 
 /* Geometry, lead-ins and assignment of one row (no nets yet).  out is
  * initialised here; free it with gp_digit_row_finish. */

@@ -590,7 +590,8 @@ static int roots_of(const struct gp_digit_row *row, int unit, int part,
 	int n = 0;
 	const struct gp_digit_unit *un = &row->units[unit];
 	for (int t = 0; t < un->trace_count; t++)
-		n += un->traces[t].part == part && un->traces[t].piece == piece;
+		n += (un->traces[t].part == part && un->traces[t].piece == piece) +
+		     (un->traces[t].part2 == part);
 	return n;
 }
 
@@ -672,9 +673,21 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					gp_geos_shape_destroy(f->geos, own);
 					gp_geos_shape_destroy(f->geos, whole);
 				}
+				if (tr->part2 >= 0) {
+					struct gp_geos_shape *end = gp_geos_shape_from_polygon(
+						f->geos, &un->parts[tr->part2].poly[0]);
+					struct gp_geos_shape *cut =
+						gp_geos_shape_difference(f->geos, lead, end);
+					gp_geos_shape_destroy(f->geos, end);
+					gp_geos_shape_destroy(f->geos, lead);
+					lead = cut;
+				}
 				int own = tr->part >= 0
 						  ? un->parts[tr->part].common - 1
 						  : -1;
+				int own2 = tr->part2 >= 0
+						   ? un->parts[tr->part2].common - 1
+						   : -1;
 				for (int n = 0; n < row->common_count; n++) {
 					double lit = overlap_mm2(f, lead, coms[n]);
 					/* nominal: none; shifted: only its own
@@ -682,7 +695,7 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					 * by at most line x shift (twice at a
 					 * corner) */
 					double most = 0;
-					if (k != 4 && n == own)
+					if (k != 4 && (n == own || n == own2))
 						most = 2 * gp_mm(b.design->rules.min_line + 2) *
 						       gp_mm(m) * sqrt(2.0);
 					if (lit > most + AREA_EPS)
@@ -721,6 +734,11 @@ static void test_lit_areas(void **state)
 		  "    point: {size: 0.8}\n" },
 		{ 14, "bevelled", "0", 4, 2, "0.45", "7", "0.8", "12", "0.04",
 		  "    point: {size: 0.8}\n" },
+		/* the grid: lines inside the digits, commons across */
+		{ 7, "bevelled", "6", 4, 3, "0.2", "5", "1", "9", "0.04",
+		  "    point: {size: 0.9}\n" },
+		{ 7, "square", "-5", 4, 2, "0.2", "5", "1", "9", "0.04",
+		  "    point: {shape: square, size: 0.8}\n" },
 	};
 	for (size_t i = 0; i < sizeof(cases) / sizeof(*cases); i++)
 		check_lit(f, &cases[i]);
@@ -854,6 +872,42 @@ static void test_gerbv_round_trip(void **state)
 	built_finish(&b);
 }
 
+/* The two samples routed to the ledge: pins as the schemes' formulas say
+ * (static: 7 segments x 4 + colon + point + 1 common = 31; 1/4 duty with a
+ * point on each digit: 2 lines x 4 + 4 commons = 12), every pin used, and
+ * the checks find nothing that blocks manufacture. */
+static void test_samples_routed(void **state)
+{
+	(void)state;
+	static const struct {
+		const char *file;
+		size_t pins;
+	} cases[] = {
+		{ "timer-4digit-static.yaml", 7 * 4 + 1 + 1 + 1 },
+		{ "timer-4digit-quarter.yaml", 2 * 4 + 4 },
+	};
+	for (size_t i = 0; i < 2; i++) {
+		char path[1024];
+		snprintf(path, sizeof(path), "%s/%s", env_or_fail("GP_SAMPLES"),
+			 cases[i].file);
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		struct gp_design *design = gp_design_load(path, NULL, 0, &diag);
+		assert_non_null(design);
+		struct gp_build *build = gp_build_create(design, &diag);
+		if (!build)
+			fail_msg("%s: %s", path, diag.count ?
+				 diag.entries[diag.count - 1].message : "");
+		assert_int_equal(build->pin_count, cases[i].pins);
+		for (size_t k = 0; k < build->pin_count; k++)
+			assert_true(build->pins[k].net >= 0);
+		assert_int_equal(diag.errors, 0);
+		gp_build_destroy(build);
+		gp_design_destroy(design);
+		gp_diag_finish(&diag);
+	}
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -867,6 +921,7 @@ int main(void)
 		cmocka_unit_test(test_spacing_reported),
 		cmocka_unit_test_setup_teardown(test_gerbv_round_trip, setup,
 						teardown),
+		cmocka_unit_test(test_samples_routed),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
