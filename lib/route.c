@@ -142,7 +142,7 @@ static void add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
 	if (n->cand_count < 16)
-		n->cands[n->cand_count++] = (struct cand){ side, at, width };
+		n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
 }
 
 /* Ends of block strips come from the strips themselves. */
@@ -209,8 +209,18 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 		if (s->net != net || s->layer != layer)
 			continue;
 		const struct gp_ring *o = &s->poly.outer;
-		for (size_t k = 0; k < o->count; k++) {
-			struct gp_point p = o->points[k];
+		/* middles of flat edges first: of equally outermost points
+		 * the first is kept, and a lead from the middle of a flat
+		 * side has room on both hands */
+		for (size_t k = 0; k < 2 * o->count; k++) {
+			struct gp_point p = o->points[k % o->count];
+			if (k < o->count) {
+				struct gp_point q = o->points[(k + 1) % o->count];
+				if (p.x != q.x && p.y != q.y)
+					continue;
+				p = (struct gp_point){ p.x + (q.x - p.x) / 2,
+						       p.y + (q.y - p.y) / 2 };
+			}
 			for (int d = 0; d < GP_SIDE_COUNT; d++) {
 				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
 				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
@@ -255,7 +265,70 @@ static bool has_port(const struct route *r, int net)
 	return false;
 }
 
-static bool collect_cands(struct route *r)
+/* Point in polygon (even-odd over all rings; on the edge counts as
+ * either). */
+static bool point_in(const struct gp_polygon *p, struct gp_point q)
+{
+	bool in = false;
+	for (size_t r = 0; r <= p->hole_count; r++) {
+		const struct gp_ring *ring = r ? &p->holes[r - 1] : &p->outer;
+		for (size_t k = 0, j = ring->count - 1; k < ring->count; j = k++) {
+			struct gp_point a = ring->points[k], b = ring->points[j];
+			if ((a.y > q.y) != (b.y > q.y) &&
+			    (double)q.x < (double)(b.x - a.x) * (double)(q.y - a.y) /
+						  (double)(b.y - a.y) +
+					  (double)a.x)
+				in = !in;
+		}
+	}
+	return in;
+}
+
+/* A lead that starts in a back patch reaches on into it, past the margin
+ * that notches round other nets' front leads may take, when the patch is
+ * there to take it. */
+static void set_reach(struct route *r, int net, struct cand *c)
+{
+	const struct gp_artwork *art = &r->build->art;
+	int64_t want = r->design->rules.registration + r->g->leads.width;
+	struct gp_point far = c->at;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: far.y += want; break;
+	case GP_SIDE_TOP: far.y -= want; break;
+	case GP_SIDE_LEFT: far.x += want; break;
+	default: far.x -= want; break;
+	}
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->role != GP_ROLE_PATCH)
+			continue;
+		if (point_in(&s->poly, c->at) && point_in(&s->poly, far)) {
+			c->reach = want;
+			return;
+		}
+	}
+}
+
+static void set_reaches(struct route *r)
+{
+	const struct gp_artwork *art = &r->build->art;
+	bool *has = calloc(r->net_count + 1, sizeof(*has));
+	if (!has)
+		return;   /* only a refinement */
+	for (size_t i = 0; i < art->shape_count; i++)
+		if (art->shapes[i].role == GP_ROLE_PATCH && art->shapes[i].net >= 0 &&
+		    (size_t)art->shapes[i].net < r->net_count)
+			has[art->shapes[i].net] = true;
+	for (size_t i = 0; i < r->net_count; i++) {
+		r->nets[i].patch = has[i];
+		for (int k = 0; has[i] && k < r->nets[i].cand_count; k++)
+			set_reach(r, (int)i, &r->nets[i].cands[k]);
+	}
+	free(has);
+}
+
+/* Bounds of each net's electrodes as laid out (before any joining bus). */
+static void net_centres(struct route *r)
 {
 	const struct gp_artwork *art = &r->build->art;
 	for (size_t i = 0; i < r->net_count; i++)
@@ -268,6 +341,10 @@ static bool collect_cands(struct route *r)
 		r->nets[s->net].centre = gp_box_union(
 			r->nets[s->net].centre, gp_polygon_bounds(&s->poly));
 	}
+}
+
+static bool collect_cands(struct route *r)
+{
 	for (size_t i = 0; i < r->build->end_count; i++) {
 		const struct gp_lead_end *e = &r->build->ends[i];
 		if (e->net >= 0 && (size_t)e->net < r->net_count)
@@ -294,6 +371,7 @@ static bool collect_cands(struct route *r)
 		    !has_port(r, (int)i))
 			shape_cands(r, (int)i, &r->nets[i]);
 	}
+	set_reaches(r);
 	return true;
 }
 
@@ -446,6 +524,14 @@ static int cand_rank(const struct route *r, const struct netstate *n,
 	return rank;
 }
 
+/* Order of trial: by rank, and of equal ranks an end that reaches into
+ * its patch (see set_reach) before one that does not. */
+static int cand_key(const struct route *r, const struct netstate *n,
+		    const struct cand *c)
+{
+	return 2 * cand_rank(r, n, c) + (n->patch && c->reach == 0);
+}
+
 static int64_t transfer_zone(const struct route *r)
 {
 	const struct gp_transfer_spec *t = &r->g->transfers;
@@ -466,8 +552,8 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 	for (int k = 0; k < n->cand_count; k++)
 		order[k] = k;
 	for (int k = 1; k < n->cand_count; k++)
-		for (int j = k; j > 0 && cand_rank(r, n, &n->cands[order[j]]) <
-						 cand_rank(r, n, &n->cands[order[j - 1]]);
+		for (int j = k; j > 0 && cand_key(r, n, &n->cands[order[j]]) <
+						 cand_key(r, n, &n->cands[order[j - 1]]);
 		     j--) {
 			int t = order[j];
 			order[j] = order[j - 1];
@@ -525,7 +611,14 @@ static void set_choice(struct route *r, int net)
 {
 	struct netstate *n = &r->nets[net];
 	n->chosen = n->order[n->pick];
-	n->corridor = corridor_box(r, &n->cands[n->chosen], n->ext);
+	const struct cand *c = &n->cands[n->chosen];
+	n->corridor = corridor_box(r, c, n->ext);
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: n->corridor.y1 += c->reach; break;
+	case GP_SIDE_TOP: n->corridor.y0 -= c->reach; break;
+	case GP_SIDE_LEFT: n->corridor.x1 += c->reach; break;
+	default: n->corridor.x0 -= c->reach; break;
+	}
 }
 
 static size_t footprints(const struct route *r, int net, struct footprint *f)
@@ -687,15 +780,16 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
  * plate shift can bring them together (registration x sqrt 2), except
  * under the patch's own front shapes, which stay covered.  A patch may not
  * fall apart. */
-static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
-		      struct gp_box corridor, int lead_net)
+bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
+		    const struct gp_polygon *lead, int lead_net)
 {
 	struct gp_artwork *art = &r->build->art;
 	int net = art->shapes[shape].net;
 	int64_t clear = (int64_t)ceil((double)r->design->rules.registration *
 				      SQRT2) +
 			r->design->rules.chord_tolerance;
-	struct gp_polyset cut, keep, notch, patch, left;
+	struct gp_polyset lead_set, cut, keep, notch, patch, left;
+	gp_polyset_init(&lead_set);
 	gp_polyset_init(&cut);
 	gp_polyset_init(&keep);
 	gp_polyset_init(&notch);
@@ -703,9 +797,8 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 	gp_polyset_init(&left);
 	struct gp_polygon p;
 	gp_polygon_init(&p);
-	struct gp_box grown = gp_box_make(corridor.x0 - clear, corridor.y0 - clear,
-					  corridor.x1 + clear, corridor.y1 + clear);
-	bool ok = gp_polygon_set_box(&p, grown) && gp_polyset_take(&cut, &p);
+	bool ok = gp_polygon_copy(&p, lead) && gp_polyset_take(&lead_set, &p) &&
+		  gp_geos_dilate_box(geos, &lead_set, clear, clear, &cut);
 	for (size_t i = 0; ok && i < art->pixel_count; i++) {
 		const struct gp_pixel *px = &art->pixels[i];
 		if (px->common != net && px->segment != net)
@@ -724,6 +817,7 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 		gp_polygon_init(&left.items[0]);
 	} else if (ok) {
 		char x[32], y[32];
+		struct gp_box b = gp_polygon_bounds(lead);
 		ok = gp_diag_error(r->diag, NULL,
 				   "%s: the lead-out of %s would cut the back "
 				   "patch of %s in %s near (%s, %s) mm; move "
@@ -731,14 +825,26 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 				   r->design->spec->file, net_name(r, lead_net),
 				   net_name(r, net),
 				   left.count ? "pieces" : "nothing",
-				   mm(x, corridor.x0), mm(y, corridor.y0));
+				   mm(x, b.x0), mm(y, b.y0));
 	}
 	gp_polygon_finish(&p);
+	gp_polyset_finish(&lead_set);
 	gp_polyset_finish(&cut);
 	gp_polyset_finish(&keep);
 	gp_polyset_finish(&notch);
 	gp_polyset_finish(&patch);
 	gp_polyset_finish(&left);
+	return ok;
+}
+
+static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
+		      struct gp_box corridor, int lead_net)
+{
+	struct gp_polygon p;
+	gp_polygon_init(&p);
+	bool ok = gp_polygon_set_box(&p, corridor) &&
+		  gp_route_notch(r, geos, shape, &p, lead_net);
+	gp_polygon_finish(&p);
 	return ok;
 }
 
@@ -928,7 +1034,10 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		goto out;
 	if (g->ledge_count == 0)
 		goto seal;
-	ok = check_transfer_room(&r) && gp_route_assign_nets(&r) && collect_cands(&r);
+	ok = check_transfer_room(&r) && gp_route_assign_nets(&r);
+	if (ok)
+		net_centres(&r);
+	ok = ok && gp_route_join(&r, geos) && collect_cands(&r);
 	if (!ok)
 		goto out;
 	index = gp_geos_index_create(geos);
