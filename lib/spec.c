@@ -144,6 +144,12 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		else if (strlen(node->text) != ynode->data.scalar.length)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value contains a NUL character");
+		else if (ynode->data.scalar.length > GP_SPEC_MAX_SCALAR)
+			ok = gp_diag_error(c->diag, &where,
+					   "a value is %zu bytes long; the "
+					   "limit is %d",
+					   ynode->data.scalar.length,
+					   GP_SPEC_MAX_SCALAR);
 		break;
 	case YAML_SEQUENCE_NODE:
 		node->kind = GP_NODE_SEQUENCE;
@@ -178,9 +184,10 @@ static void yaml_error(const yaml_parser_t *parser, const char *file,
 		gp_diag_error(diag, &where, "bad YAML: %s", problem);
 }
 
-/* Parse one YAML document into a tree; flat drops line/col (overrides). */
+/* Parse one YAML document into a tree; flat drops line/col (overrides).
+ * *nodes counts the nodes made, across calls, against the limit. */
 static struct gp_node *parse_tree(const char *file, const char *data,
-				  size_t size, bool flat,
+				  size_t size, bool flat, size_t *nodes,
 				  struct gp_diag *diag)
 {
 	yaml_parser_t parser;
@@ -198,13 +205,14 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 		return NULL;
 	}
 	yaml_node_t *top = yaml_document_get_root_node(&document);
-	struct convert c = { &document, file, diag, 0, flat };
+	struct convert c = { &document, file, diag, *nodes, flat };
 	if (top)
 		root = convert_node(&c, top, 0);
 	else
 		gp_diag_error(diag, &(struct gp_where){ file, 1, 1 },
 			      "the description is empty; expected a map of "
 			      "sections such as 'front', 'back' and 'blocks'");
+	*nodes = c.nodes;
 	yaml_document_delete(&document);
 	yaml_parser_delete(&parser);
 	return root;
@@ -225,7 +233,8 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 		gp_diag_error(diag, NULL, "%s: out of memory", name);
 		return NULL;
 	}
-	spec->root = parse_tree(spec->file, data, size, false, diag);
+	spec->root = parse_tree(spec->file, data, size, false,
+				&spec->node_count, diag);
 	if (spec->root && spec->root->kind != GP_NODE_MAP) {
 		gp_diag_error(diag, &spec->root->where,
 			      "the description must be a map of sections "
@@ -375,6 +384,33 @@ static bool graft(struct gp_spec *spec, char *path, struct gp_node *value,
 			     "a key or a sequence item (from 1)");
 }
 
+/* Every part of a key path names something: no empty part, none longer
+ * than a value may be. */
+static bool check_path(const char *path, size_t length,
+		       const struct gp_where *where, struct gp_diag *diag)
+{
+	size_t part = 0;
+	for (size_t i = 0; i <= length; i++) {
+		if (i < length && path[i] != '.') {
+			if (++part > GP_SPEC_MAX_SCALAR)
+				return gp_diag_error(diag, where,
+						     "a part of the key path "
+						     "is longer than %d bytes",
+						     GP_SPEC_MAX_SCALAR);
+			continue;
+		}
+		if (part == 0)
+			return gp_diag_error(diag, where,
+					     "the key path '%.*s' has an "
+					     "empty part; expected a key path "
+					     "such as blocks.main.cell_pitch",
+					     length > 200 ? 200 : (int)length,
+					     path);
+		part = 0;
+	}
+	return true;
+}
+
 bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 		      int number, struct gp_diag *diag)
 {
@@ -390,12 +426,15 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 					   label), 0, 0 };
 	if (!where.file)
 		return gp_diag_error(diag, NULL, "%s: out of memory", label);
+	if (!check_path(assignment, (size_t)(equals - assignment), &where,
+			diag))
+		return false;
 	const char *text = equals + 1;
 	if (!*text)
 		return gp_diag_error(diag, &where,
 				     "the value after '=' is empty");
 	struct gp_node *value = parse_tree(where.file, text, strlen(text),
-					   true, diag);
+					   true, &spec->node_count, diag);
 	if (!value)
 		return false;
 	char *path = strndup(assignment, (size_t)(equals - assignment));
