@@ -53,6 +53,10 @@ enum gp_check_unit {
 	GP_UNIT_RATIO,
 };
 const char *gp_check_unit_name(enum gp_check_unit unit); /* "mm2", ... */
+/* A finding's value in its unit, with enough digits for 1 nm or
+ * 1e-6 mm^2 ("0.03 mm", "2.5%"); typeset: "mm²" instead of "mm2". */
+void gp_check_format_value(char *text, size_t size, double value,
+			   enum gp_check_unit unit, bool typeset);
 
 struct gp_finding {
 	enum gp_check_rule rule;
