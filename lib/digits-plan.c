@@ -21,7 +21,17 @@
  * lead-ins reach that line, left to right; runs of at most `duty` parts
  * share a segment line (so each line's lead-ins are neighbours and join
  * without crossing), and within a run the commons go from the top down.
- * This uses ceil(parts / duty) segment lines per unit, the least possible. */
+ * This uses ceil(parts / duty) segment lines per unit, the least possible.
+ *
+ * The grid (7 segments with a point at 1/4 duty): the lanes above would
+ * wall each digit in on the segment plate, and four commons cannot all be
+ * joined above the row without crossing.  Instead the two segment lines
+ * run inside the digit as chains, a-f-e-d and b-g-c-dp, each link a short
+ * bridge across the gap between two of its segments, and leave straight
+ * down from d and from the point; the commons run across the digits on the
+ * common plate (laid out with the patches, digits-layout.c): COM1 a-b,
+ * COM2 f-g, COM3 e-c through the lower counter, COM4 d-dp under the
+ * baseline.  A line crosses a common only at their pixel. */
 #include "digits.h"
 
 #include "units.h"
@@ -717,6 +727,18 @@ static bool thick_line(const struct pt *pts, int n, double w,
 	return true;
 }
 
+bool gp_digit_thick_line(const struct gp_point *pts, size_t n, int64_t width,
+			 struct gp_polygon *out)
+{
+	struct pt q[ROUTE_MAX_POINTS];
+	if (n > ROUTE_MAX_POINTS)
+		n = ROUTE_MAX_POINTS;
+	for (size_t i = 0; i < n; i++)
+		q[i] = (struct pt){ (double)(pts[i].x - pts[0].x),
+				    (double)(pts[i].y - pts[0].y) };
+	return thick_line(q, (int)n, (double)width, pts[0], out);
+}
+
 /* --- assignment --------------------------------------------------------------- */
 
 /* Parts in the order their lead-ins end, left to right. */
@@ -833,6 +855,12 @@ static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
 					     "gaps",
 					     row->name, label, line, most);
 		if (last - first + 1 != count) {
+			char order[GP_UNIT_MAX_PARTS * 8] = "";
+			for (int k = 0; k < u->part_count; k++) {
+				size_t n = strlen(order);
+				snprintf(order + n, sizeof(order) - n, "%s%s",
+					 k ? " " : "", u->parts[u->order[k]].name);
+			}
 			const char *in = "";
 			for (int k = first; k <= last; k++)
 				if (u->parts[u->order[k]].line != line)
@@ -847,8 +875,7 @@ static bool explicit_pairs(const struct gp_digits *row, struct gp_digit_unit *u,
 				"to right: %s)",
 				row->name, line, label,
 				u->parts[u->order[first]].name,
-				u->parts[u->order[last]].name, in, line,
-				"see the order in the README");
+				u->parts[u->order[last]].name, in, line, order);
 		}
 	}
 	u->line_count = most;
@@ -867,6 +894,7 @@ static bool add_trace(struct gp_digit_unit *u, const struct pt *pts, int n,
 		return false;
 	t->part = part;
 	t->piece = poly;
+	t->part2 = -1;
 	t->line = line;
 	t->u_end = u_end;
 	u->trace_count++;
@@ -939,6 +967,99 @@ static bool make_traces(struct plan *p, struct gp_digit_row *out, size_t unit)
 	return true;
 }
 
+bool gp_digits_grid(const struct gp_digits *row)
+{
+	uint64_t all = row->count >= 64 ? ~UINT64_C(0)
+					: (UINT64_C(1) << row->count) - 1;
+	return row->figure.figure == GP_FIGURE_7 && row->duty == 4 &&
+	       !row->pairs && !row->minus && !row->one && !row->colon_mask &&
+	       (row->point_mask & all) == all;
+}
+
+/* A bridge of the segment plate across the gap line p q at fraction t,
+ * from inside part a to inside part b. */
+static bool grid_bridge(struct plan *p, const char *a, const char *b,
+			struct pt gp, struct pt gq, double t)
+{
+	struct gp_digit_unit *u = p->unit;
+	int ia = part_index(u, a), ib = part_index(u, b);
+	struct pt m = { gp.x + t * (gq.x - gp.x), gp.y + t * (gq.y - gp.y) };
+	struct line l = line_through(gp, gq);
+	struct pt ra = centre_of(p, &u->parts[ia].poly[0]);
+	struct pt n = { -l.d.y, l.d.x };
+	if (n.x * (ra.x - m.x) + n.y * (ra.y - m.y) < 0)
+		n = (struct pt){ -n.x, -n.y };
+	double reach = p->fr.G / 2 + 2.5 * p->w;
+	struct pt pts[2] = { { m.x + n.x * reach, m.y + n.y * reach },
+			     { m.x - n.x * reach, m.y - n.y * reach } };
+	if (!add_trace(u, pts, 2, p->w, ia, 0, u->parts[ia].line, 0))
+		return false;
+	u->traces[u->trace_count - 1].part2 = ib;
+	return true;
+}
+
+static bool grid_unit(struct plan *p, struct gp_digit_row *out, size_t index)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	struct gp_digit_unit *u = p->unit;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	static const char *const order[] = { "a", "f", "e", "d",
+					     "dp", "c", "g", "b" };
+	for (int k = 0; k < 8; k++)
+		u->order[k] = part_index(u, order[k]);
+	documented(p->row, u);
+	int dp = part_index(u, "dp");
+	struct pt c = centre_of(p, &u->parts[dp].poly[0]);
+	struct pt mr = P(p, W - sv / 2, f->m), ml = P(p, sv / 2, f->m);
+	(void)ml;
+	bool ok;
+	/* the f-e link a third of the way in from the outer side */
+	struct pt fe0 = P(p, sv / 3, f->mc), fe1 = P(p, sv / 3 + 1, f->mc);
+	if (p->row->figure.ends == GP_ENDS_BEVELLED) {
+		ok = grid_bridge(p, "a", "f", P(p, 0, H), P(p, sv, H - S), 0.5) &&
+		     grid_bridge(p, "f", "e", fe0, fe1, 0) &&
+		     grid_bridge(p, "e", "d", P(p, 0, 0), P(p, sv, S), 0.5) &&
+		     grid_bridge(p, "b", "g", P(p, W - sv, f->mtop), mr, 0.5) &&
+		     grid_bridge(p, "g", "c", P(p, W - sv, f->mlo), mr, 0.5);
+	} else {
+		double vt = H - S - G / 2, vb = S + G / 2;
+		double ug = W - sv - G * f->sec / 2;
+		double vbg = (f->mc + G / 2 + f->mtop) / 2;
+		double vgc = (f->mlo + f->mc - G / 2) / 2;
+		ok = grid_bridge(p, "a", "f", P(p, sv / 2, vt),
+				 P(p, sv / 2 + 1, vt), 0) &&
+		     grid_bridge(p, "f", "e", fe0, fe1, 0) &&
+		     grid_bridge(p, "e", "d", P(p, sv / 2, vb),
+				 P(p, sv / 2 + 1, vb), 0) &&
+		     grid_bridge(p, "b", "g", P(p, ug, vbg), P(p, ug, vbg + 1), 0) &&
+		     grid_bridge(p, "g", "c", P(p, ug, vgc), P(p, ug, vgc + 1), 0);
+	}
+	if (!ok)
+		return false;
+	/* c to the point, from well inside c */
+	struct pt cd[2] = { P(p, W - sv / 3, S + G + S / 2), c };
+	if (!add_trace(u, cd, 2, p->w, part_index(u, "c"), 0, 2, 0))
+		return false;
+	u->traces[u->trace_count - 1].part2 = dp;
+	/* the ports: under them COM4 runs at v4 */
+	double r = (double)p->row->point_size / 2;
+	double v4 = -(p->keep + p->w / 2);
+	p->v_end = v4 - p->w - p->keep;
+	double ud = W / 2, up = upright(p, c) + r / 3;
+	struct pt d1[2] = { P(p, ud, S / 2), P(p, ud, p->v_end) };
+	struct pt d2[2] = { P(p, up, c.y), P(p, up, p->v_end) };
+	if (!add_trace(u, d1, 2, p->w, part_index(u, "d"), 0, 1,
+		       upright(p, d1[1])) ||
+	    !add_trace(u, d2, 2, p->w, dp, 0, 2, upright(p, d2[1])))
+		return false;
+	struct gp_point a1 = { u->origin.x + llround(d1[1].x),
+			       u->origin.y + llround(d1[1].y) };
+	struct gp_point a2 = { u->origin.x + llround(d2[1].x),
+			       u->origin.y + llround(d2[1].y) };
+	return add_port(out, a1, (int64_t)p->w, (int)index, 1) &&
+	       add_port(out, a2, (int64_t)p->w, (int)index, 2);
+}
+
 static bool plan_unit(const struct gp_digits *row,
 		      const struct gp_digit_rules *rules, struct gp_digit_unit *u,
 		      struct gp_digit_row *out, size_t index, struct gp_diag *diag)
@@ -963,6 +1084,12 @@ static bool plan_unit(const struct gp_digits *row,
 	p->left_edge = 0;
 	p->right_edge = p->fr.W;
 	p->top = p->fr.H;
+	if (gp_digits_grid(row)) {
+		ok = grid_unit(p, out, index);
+		if (!ok)
+			gp_diag_error(diag, NULL, "out of memory");
+		goto done;
+	}
 	if (u->number > 0)
 		figure_routes(p);
 	extra_routes(p);

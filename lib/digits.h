@@ -186,6 +186,7 @@ struct gp_digit_trace {
 	struct gp_polygon poly;
 	int part;                 /* part it starts from, -1 for a bar */
 	int piece;                /* which polygon of that part */
+	int part2;                /* part a bridge ends in, else -1 */
 	int line;                 /* segment line, 1-based, once assigned */
 	double u_end;             /* upright position where it ends, nm */
 };
@@ -235,6 +236,17 @@ struct gp_digit_rules {
 	int64_t chord_tolerance;
 };
 
+/* Whether a row is laid out as a grid (see digits-plan.c): 7 segments
+ * with a point on every digit at 1/4 duty, no colon, no sign unit, the
+ * documented assignment.  Its segment lines run inside the digits and its
+ * commons across them, so that the commons can be joined digit to digit. */
+bool gp_digits_grid(const struct gp_digits *row);
+
+/* A line width wide along pts (mitred corners, square ends), as one
+ * polygon.  n <= 8. */
+bool gp_digit_thick_line(const struct gp_point *pts, size_t n, int64_t width,
+			 struct gp_polygon *out);
+
 /* Geometry, lead-ins and assignment of one row (no nets yet).  out is
  * initialised here; free it with gp_digit_row_finish. */
 bool gp_digits_plan(const struct gp_digits *row,
@@ -248,6 +260,12 @@ struct gp_build;
  * keeps the units, the assignment and the ports. */
 bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag);
 void gp_digit_rows_free(struct gp_digit_row *rows, size_t count);
+
+struct gp_pixel;
+/* "digits clock digit 2 g", "digits clock sign minus": what a digit pixel
+ * is, for the firmware map and reports. */
+void gp_digits_pixel_label(const struct gp_build *build,
+			   const struct gp_pixel *px, char *buffer, size_t size);
 
 /* The name of a unit for messages: "digit 3" or "the sign unit". */
 void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,

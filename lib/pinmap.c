@@ -87,6 +87,14 @@ static void describe_net(const struct gp_build *build, int net, char *out,
 	}
 	if (!first)
 		return;
+	if (first->owner_kind == GP_OWNER_DIGITS) {
+		if (count == 1)
+			gp_digits_pixel_label(build, first, out, size);
+		else
+			snprintf(out, size, "%zu pixels of digits %s", count,
+				 d->digits[first->owner].name);
+		return;
+	}
 	static const char *const kinds[] = { "block", "digits", "icon" };
 	const char *kind = first->owner_kind >= 0 && first->owner_kind < 3
 				   ? kinds[first->owner_kind]
@@ -255,10 +263,15 @@ static void element_table(const struct gp_build *build, struct gp_buffer *o,
 		const struct gp_pixel *x = &art->pixels[i];
 		if (x->owner_kind == GP_OWNER_BLOCK)
 			continue;
-		gp_buffer_printf(o, "\t\t{ %d, %d, %d, %d, %d, %d },\n",
+		char what[128] = "";
+		if (x->owner_kind == GP_OWNER_DIGITS)
+			gp_digits_pixel_label(build, x, what, sizeof(what));
+		gp_buffer_printf(o, "\t\t{ %d, %d, %d, %d, %d, %d },%s%s%s\n",
 				 x->owner_kind, x->owner, x->a, x->b,
 				 net_number(build, x->common),
-				 net_number(build, x->segment));
+				 net_number(build, x->segment),
+				 what[0] ? " /* " : "", what,
+				 what[0] ? " */" : "");
 	}
 	gp_buffer_printf(o,
 			 "\t};\n\tif (i < 0 || i >= %zu)\n\t\treturn false;\n"

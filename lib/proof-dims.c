@@ -40,7 +40,8 @@ struct dim {
 	int64_t a, b;
 	bool has_feature;         /* extension lines from feature, else */
 	int64_t feature;          /* from the edge of the drawn box */
-	char text[96];
+	char label[64];           /* "viewing area ", may be empty */
+	char value[72];           /* "56", "47.25 +-0.02", "(3.15)" */
 };
 
 #define MAX_DIMS 64
@@ -73,7 +74,7 @@ static struct dim *add_dim(struct dim_list *list, enum side side, int tier,
 	d->tier = tier;
 	d->a = a < b ? a : b;
 	d->b = a < b ? b : a;
-	d->text[0] = '\0';
+	d->label[0] = d->value[0] = '\0';
 	d->has_feature = false;
 	if (tier + 1 > list->tiers[side])
 		list->tiers[side] = tier + 1;
@@ -92,13 +93,13 @@ static struct dim *value_dim(struct dim_list *list, enum side side,
 	char v[32], t[32];
 	proof_mm(v, sizeof(v), d->b - d->a);
 	proof_mm(t, sizeof(t), tolerance);
+	snprintf(d->label, sizeof(d->label), "%s", prefix);
 	if (reference)
-		snprintf(d->text, sizeof(d->text), "%s(%s)", prefix, v);
+		snprintf(d->value, sizeof(d->value), "(%s)", v);
 	else if (tolerance)
-		snprintf(d->text, sizeof(d->text), "%s%s \xc2\xb1%s", prefix, v,
-			 t);
+		snprintf(d->value, sizeof(d->value), "%s \xc2\xb1%s", v, t);
 	else
-		snprintf(d->text, sizeof(d->text), "%s%s", prefix, v);
+		snprintf(d->value, sizeof(d->value), "%s", v);
 	return d;
 }
 
@@ -258,8 +259,7 @@ static void digit_dims(const struct gp_design *d, struct dim_list *list)
 	}
 }
 
-/* The fill port's place and width along its side of the seal, as
- * lib/seal.c lays it out (port_box there). */
+/* The fill port's place and width along its side of the seal. */
 static void port_dims(const struct gp_design *d, struct dim_list *list)
 {
 	if (!d->routing || !d->routing->seal.given)
@@ -267,11 +267,8 @@ static void port_dims(const struct gp_design *d, struct dim_list *list)
 	const struct gp_seal_spec *s = &d->routing->seal;
 	struct gp_box in, out;
 	gp_seal_boxes(d, &in, &out);
-	bool across = s->port_side == GP_SIDE_BOTTOM ||
-		      s->port_side == GP_SIDE_TOP;
-	int64_t lo = across ? in.x0 : in.y0, hi = across ? in.x1 : in.y1;
-	int64_t c = s->port_position_given ? s->port_position : (lo + hi) / 2;
-	int64_t a = c - s->port_width / 2, b = a + s->port_width;
+	int64_t a, b, lo, hi;
+	gp_seal_port_span(d, &a, &b, &lo, &hi);
 	static const enum side sides[GP_SIDE_COUNT] = { BOTTOM, RIGHT, TOP,
 							LEFT };
 	enum side side = sides[s->port_side];
@@ -389,10 +386,33 @@ static void arrowhead(struct proof *p, double x, double y, double dx,
 	cairo_fill(p->cr);
 }
 
+/* The text of a dimension along its line, in a frame whose u axis runs
+ * along the line (ua < ub the line's ends) with the baseline at 0: all of
+ * it between the arrows when it fits; else the value between them and the
+ * label after the second (chained dimensions come before, never after);
+ * else all of it after the second. */
+static void dim_text(struct proof *p, double ua, double ub, bool inside,
+		     const struct dim *d)
+{
+	char full[160];
+	snprintf(full, sizeof(full), "%s%s", d->label, d->value);
+	double gap = inside ? 1.0 : 2 * ARROW + 1.0;
+	proof_font(p, DIM_TEXT, false);
+	if (proof_text_width(p, full) + 2 < ub - ua) {
+		proof_text(p, (ua + ub) / 2, 0, ALIGN_CENTRE, full);
+	} else if (proof_text_width(p, d->value) + 2 < ub - ua) {
+		proof_text(p, (ua + ub) / 2, 0, ALIGN_CENTRE, d->value);
+		if (d->label[0])
+			proof_text(p, ub + gap, 0, ALIGN_LEFT, d->label);
+	} else {
+		proof_text(p, ub + gap, 0, ALIGN_LEFT, full);
+	}
+}
+
 /* A dimension line along x between paper a < b at paper y `at`, with
  * extension lines from the features at y fa and fb. */
 static void hdim(struct proof *p, double a, double fa, double b, double fb,
-		 double at, const char *text)
+		 double at, const struct dim *d)
 {
 	double sa = at < fa ? -1 : 1, sb = at < fb ? -1 : 1;
 	proof_set_colour(p, proof_dim_colour, 1.0);
@@ -408,19 +428,16 @@ static void hdim(struct proof *p, double a, double fa, double b, double fb,
 		arrowhead(p, a, at, 1, 0);
 		arrowhead(p, b, at, -1, 0);
 	}
-	proof_font(p, DIM_TEXT, false);
-	double w = proof_text_width(p, text);
-	if (w + 2 < b - a)
-		proof_text(p, (a + b) / 2, at - 0.8, ALIGN_CENTRE, text);
-	else
-		proof_text(p, b + (inside ? 1.0 : 2 * ARROW + 1.0), at - 0.8,
-			   ALIGN_LEFT, text);
+	cairo_save(p->cr);
+	cairo_translate(p->cr, 0, at - 0.8);
+	dim_text(p, a, b, inside, d);
+	cairo_restore(p->cr);
 }
 
 /* A dimension line along y between paper a < b (a above) at paper x `at`;
  * text reads from below, on the line's outer side. */
 static void vdim(struct proof *p, double a, double fa, double b, double fb,
-		 double at, const char *text)
+		 double at, const struct dim *d)
 {
 	double sa = at < fa ? -1 : 1, sb = at < fb ? -1 : 1;
 	proof_set_colour(p, proof_dim_colour, 1.0);
@@ -436,19 +453,11 @@ static void vdim(struct proof *p, double a, double fa, double b, double fb,
 		arrowhead(p, at, a, 0, 1);
 		arrowhead(p, at, b, 0, -1);
 	}
-	proof_font(p, DIM_TEXT, false);
-	double w = proof_text_width(p, text);
+	/* rotated a quarter turn: u runs up the sheet, u = -y */
 	cairo_save(p->cr);
-	if (w + 2 < b - a) {
-		cairo_translate(p->cr, at - 0.8, (a + b) / 2);
-		cairo_rotate(p->cr, -HALF_TURN_DOWN);
-		proof_text(p, 0, 0, ALIGN_CENTRE, text);
-	} else {
-		cairo_translate(p->cr, at - 0.8,
-				a - (inside ? 1.0 : 2 * ARROW + 1.0));
-		cairo_rotate(p->cr, -HALF_TURN_DOWN);
-		proof_text(p, 0, 0, ALIGN_LEFT, text);
-	}
+	cairo_translate(p->cr, at - 0.8, 0);
+	cairo_rotate(p->cr, -HALF_TURN_DOWN);
+	dim_text(p, -b, -a, inside, d);
 	cairo_restore(p->cr);
 }
 
@@ -469,19 +478,19 @@ static void draw_dims(struct proof *p, const struct proof_view *v,
 		switch (d->side) {
 		case TOP:
 			hdim(p, proof_x(v, d->a), fy0, proof_x(v, d->b), fy0,
-			     gy0 - off, d->text);
+			     gy0 - off, d);
 			break;
 		case BOTTOM:
 			hdim(p, proof_x(v, d->a), fy1, proof_x(v, d->b), fy1,
-			     gy1 + off, d->text);
+			     gy1 + off, d);
 			break;
 		case LEFT:
 			vdim(p, proof_y(v, d->b), fx0, proof_y(v, d->a), fx0,
-			     gx0 - off, d->text);
+			     gx0 - off, d);
 			break;
 		case RIGHT:
 			vdim(p, proof_y(v, d->b), fx1, proof_y(v, d->a), fx1,
-			     gx1 + off + 2.5, d->text);
+			     gx1 + off + 2.5, d);
 			break;
 		default:
 			break;

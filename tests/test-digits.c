@@ -23,33 +23,10 @@
 
 #include <cmocka.h>
 
+#include "fixtures.h"
+
 #define MM INT64_C(1000000)
 #define UM INT64_C(1000)
-
-struct fixture {
-	struct gp_diag diag;
-	struct gp_geos *geos;
-};
-
-static int setup(void **state)
-{
-	struct fixture *f = calloc(1, sizeof(*f));
-	assert_non_null(f);
-	gp_diag_init(&f->diag);
-	f->geos = gp_geos_create(&f->diag);
-	assert_non_null(f->geos);
-	*state = f;
-	return 0;
-}
-
-static int teardown(void **state)
-{
-	struct fixture *f = *state;
-	gp_geos_destroy(f->geos);
-	gp_diag_finish(&f->diag);
-	free(f);
-	return 0;
-}
 
 static double distance(struct fixture *f, const struct gp_polygon *a,
 		       const struct gp_polygon *b)
@@ -464,6 +441,19 @@ static void test_pin_counts(void **state)
 			assert_int_equal(b.build->art.pixel_count,
 					 (size_t)(parts * c.count));
 			check_pairs(b.build, duty);
+			/* the firmware map's name of a pixel */
+			const struct gp_artwork *art = &b.build->art;
+			for (size_t i = 0; i < art->pixel_count; i++) {
+				const struct gp_pixel *px = &art->pixels[i];
+				const struct gp_digit_unit *u =
+					&b.build->digit_rows[0].units[px->d];
+				char label[96], want[96];
+				gp_digits_pixel_label(b.build, px, label,
+						      sizeof(label));
+				snprintf(want, sizeof(want), "digits row digit %d %s",
+					 px->a + 1, u->parts[px->b].name);
+				assert_string_equal(label, want);
+			}
 			built_finish(&b);
 		}
 	}
@@ -541,9 +531,14 @@ static struct gp_geos_shape *net_shape(struct fixture *f,
 		gp_polygon_translate(&c, dx, dy);
 		assert_true(gp_polyset_take(&set, &c));
 	}
-	struct gp_geos_shape *shape = gp_geos_shape_from_polyset(f->geos, &set);
+	/* patches, risers and bus overlap: merge them first */
+	struct gp_polyset merged;
+	gp_polyset_init(&merged);
+	assert_true(gp_geos_union_set(f->geos, &set, &merged));
+	struct gp_geos_shape *shape = gp_geos_shape_from_polyset(f->geos, &merged);
 	assert_non_null(shape);
 	gp_polyset_finish(&set);
+	gp_polyset_finish(&merged);
 	return shape;
 }
 
@@ -564,19 +559,16 @@ static double overlap_mm2(struct fixture *f, struct gp_geos_shape *a,
 #define AREA_EPS 1e-8
 #define AREA_REL 1e-7
 
-/* Lead-ins that start in polygon `piece` of part `part` of the unit
- * numbered `number`. */
-static int roots_of(const struct gp_digit_row *row, int number, int part,
+/* Lead-ins that start in polygon `piece` of part `part` of unit `unit`
+ * (the pixel's d). */
+static int roots_of(const struct gp_digit_row *row, int unit, int part,
 		    int piece)
 {
 	int n = 0;
-	for (size_t u = 0; u < row->unit_count; u++) {
-		const struct gp_digit_unit *un = &row->units[u];
-		if (un->number != number)
-			continue;
-		for (int t = 0; t < un->trace_count; t++)
-			n += un->traces[t].part == part && un->traces[t].piece == piece;
-	}
+	const struct gp_digit_unit *un = &row->units[unit];
+	for (int t = 0; t < un->trace_count; t++)
+		n += (un->traces[t].part == part && un->traces[t].piece == piece) +
+		     (un->traces[t].part2 == part);
 	return n;
 }
 
@@ -628,7 +620,7 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					 * takes the margin of both edges */
 					double per = 2 * (w + 2 * gp_mm(m)) * gp_mm(m) *
 						     sqrt(2.0);
-					slack = roots_of(row, px->a, px->b, px->c) * per;
+					slack = roots_of(row, px->d, px->b, px->c) * per;
 					slack = fmin(slack, 0.05 * area);
 					want = area - slack / 2;
 					slack = slack / 2 + AREA_EPS + AREA_REL * area;
@@ -658,9 +650,21 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					gp_geos_shape_destroy(f->geos, own);
 					gp_geos_shape_destroy(f->geos, whole);
 				}
+				if (tr->part2 >= 0) {
+					struct gp_geos_shape *end = gp_geos_shape_from_polygon(
+						f->geos, &un->parts[tr->part2].poly[0]);
+					struct gp_geos_shape *cut =
+						gp_geos_shape_difference(f->geos, lead, end);
+					gp_geos_shape_destroy(f->geos, end);
+					gp_geos_shape_destroy(f->geos, lead);
+					lead = cut;
+				}
 				int own = tr->part >= 0
 						  ? un->parts[tr->part].common - 1
 						  : -1;
+				int own2 = tr->part2 >= 0
+						   ? un->parts[tr->part2].common - 1
+						   : -1;
 				for (int n = 0; n < row->common_count; n++) {
 					double lit = overlap_mm2(f, lead, coms[n]);
 					/* nominal: none; shifted: only its own
@@ -668,7 +672,7 @@ static void check_lit(struct fixture *f, const struct row_case *c)
 					 * by at most line x shift (twice at a
 					 * corner) */
 					double most = 0;
-					if (k != 4 && n == own)
+					if (k != 4 && (n == own || n == own2))
 						most = 2 * gp_mm(b.design->rules.min_line + 2) *
 						       gp_mm(m) * sqrt(2.0);
 					if (lit > most + AREA_EPS)
@@ -707,12 +711,18 @@ static void test_lit_areas(void **state)
 		  "    point: {size: 0.8}\n" },
 		{ 14, "bevelled", "0", 4, 2, "0.45", "7", "0.8", "12", "0.04",
 		  "    point: {size: 0.8}\n" },
+		/* the grid: lines inside the digits, commons across */
+		{ 7, "bevelled", "6", 4, 3, "0.2", "5", "1", "9", "0.04",
+		  "    point: {size: 0.9}\n" },
+		{ 7, "square", "-5", 4, 2, "0.2", "5", "1", "9", "0.04",
+		  "    point: {shape: square, size: 0.8}\n" },
 	};
 	for (size_t i = 0; i < sizeof(cases) / sizeof(*cases); i++)
 		check_lit(f, &cases[i]);
 }
 
-/* Too narrow a gap for the lead-in through it is reported, naming both. */
+/* Too narrow a gap for the lead-in through it is reported, naming both;
+ * a row that leaves the glass is reported. */
 static void test_spacing_reported(void **state)
 {
 	(void)state;
@@ -722,6 +732,12 @@ static void test_spacing_reported(void **state)
 	assert_false(build_row(&c, &b));
 	assert_non_null(strstr(last_message(&b), "closer than the minimum "
 				"space 0.03 mm"));
+	built_finish(&b);
+	struct row_case far = { 7, "bevelled", "0", 1, 16, "0.2", "5", "1",
+				"9", "0.04", NULL };
+	assert_false(build_row(&far, &b));
+	assert_non_null(strstr(last_message(&b), "does not fit where the two "
+				"plates overlap"));
 	built_finish(&b);
 }
 
@@ -833,6 +849,42 @@ static void test_gerbv_round_trip(void **state)
 	built_finish(&b);
 }
 
+/* The two samples routed to the ledge: pins as the schemes' formulas say
+ * (static: 7 segments x 4 + colon + point + 1 common = 31; 1/4 duty with a
+ * point on each digit: 2 lines x 4 + 4 commons = 12), every pin used, and
+ * the checks find nothing that blocks manufacture. */
+static void test_samples_routed(void **state)
+{
+	(void)state;
+	static const struct {
+		const char *file;
+		size_t pins;
+	} cases[] = {
+		{ "timer-4digit-static.yaml", 7 * 4 + 1 + 1 + 1 },
+		{ "timer-4digit-quarter.yaml", 2 * 4 + 4 },
+	};
+	for (size_t i = 0; i < 2; i++) {
+		char path[1024];
+		snprintf(path, sizeof(path), "%s/%s", env_or_fail("GP_SAMPLES"),
+			 cases[i].file);
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		struct gp_design *design = gp_design_load(path, NULL, 0, &diag);
+		assert_non_null(design);
+		struct gp_build *build = gp_build_create(design, &diag);
+		if (!build)
+			fail_msg("%s: %s", path, diag.count ?
+				 diag.entries[diag.count - 1].message : "");
+		assert_int_equal(build->pin_count, cases[i].pins);
+		for (size_t k = 0; k < build->pin_count; k++)
+			assert_true(build->pins[k].net >= 0);
+		assert_int_equal(diag.errors, 0);
+		gp_build_destroy(build);
+		gp_design_destroy(design);
+		gp_diag_finish(&diag);
+	}
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -846,6 +898,7 @@ int main(void)
 		cmocka_unit_test(test_spacing_reported),
 		cmocka_unit_test_setup_teardown(test_gerbv_round_trip, setup,
 						teardown),
+		cmocka_unit_test(test_samples_routed),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -5,6 +5,7 @@
 #include "geos.h"
 #include "icons.h"
 #include "patch.h"
+#include "route.h"
 
 #include "gerbv-render.h"
 
@@ -68,14 +69,40 @@ static void dump(const struct gp_diag *diag)
 		fprintf(stderr, "  %s\n", diag->entries[i].message);
 }
 
+/* The same with room for a seal and a ledge below it. */
+static const char routed_base[] =
+	"glass:\n"
+	"  part: TEST-LEADS\n"
+	"  segments_on: front\n"
+	"front:\n"
+	"  size: [46, 30]\n"
+	"  position: [0, 0]\n"
+	"back:\n"
+	"  size: [46, 26]\n"
+	"  position: [0, 4]\n"
+	"viewing_area:\n"
+	"  position: [6, 9]\n"
+	"  size: [34, 14]\n"
+	"rules:\n"
+	"  min_line: 0.03\n"
+	"  min_space: 0.03\n"
+	"  registration: %s\n"
+	"%s"
+	"icons:\n%s";
+
+static bool use_routed_base;
+
 /* Loads and builds; false (with diag kept) when either fails. */
 static bool try_build(struct built *b, const char *registration,
 		      const char *blocks, const char *icons)
 {
-	size_t size = sizeof(base) + strlen(registration) + strlen(blocks) +
-		      strlen(icons);
+	size_t size = sizeof(base) + sizeof(routed_base) +
+		      strlen(registration) + strlen(blocks) + strlen(icons);
 	char *text = malloc(size);
-	snprintf(text, size, base, registration, blocks, icons);
+	if (use_routed_base)
+		snprintf(text, size, routed_base, registration, blocks, icons);
+	else
+		snprintf(text, size, base, registration, blocks, icons);
 	gp_diag_init(&b->diag);
 	b->build = NULL;
 	b->design = gp_design_load_buffer("test.yaml", text, strlen(text),
@@ -313,7 +340,7 @@ static void check_window(struct gp_geos *geos, const char *gbr,
 				       1000 };
 	double dpi = 500;
 	for (size_t i = 0; i < 7 && dpi == 500; i++)
-		if (side / 25.4 * dpis[i] <= 1500)
+		if (side / 25.4 * dpis[i] <= 1000)
 			dpi = dpis[i];
 	double px = 25.4 / dpi;
 	struct gerbv_frame frame = { b.x0 / 1e6 - 0.05, b.y0 / 1e6 - 0.05,
@@ -524,6 +551,35 @@ static struct gp_geos_shape *merged_shape(struct gp_geos *geos,
 /* Front traces of the icons (everything of their segment nets that is not
  * an intended electrode) against all back ITO, and back bridges against
  * all front ITO, in the 9 plate positions of +-registration. */
+static void add_role(const struct gp_artwork *art, enum gp_layer layer,
+		     enum gp_role role, struct gp_polyset *out)
+{
+	struct gp_polyset more;
+	shapes(art, layer, (int)role, -1, &more);
+	for (size_t k = 0; k < more.count; k++) {
+		assert_true(gp_polyset_take(out, &more.items[k]));
+	}
+	more.count = 0;
+	gp_polyset_finish(&more);
+}
+
+/* Only what lies inside box (the seal) counts. */
+static void clip(struct gp_geos *geos, struct gp_polyset *set,
+		 struct gp_box box)
+{
+	struct gp_polyset b, out;
+	gp_polyset_init(&b);
+	gp_polyset_init(&out);
+	struct gp_polygon p;
+	gp_polygon_init(&p);
+	assert_true(gp_polygon_set_box(&p, box));
+	assert_true(gp_polyset_take(&b, &p));
+	assert_true(gp_geos_intersection(geos, set, &b, &out));
+	gp_polyset_finish(set);
+	*set = out;
+	gp_polyset_finish(&b);
+}
+
 static void check_no_ghosts(const struct built *b, int64_t m)
 {
 	const struct gp_artwork *art = &b->build->art;
@@ -534,7 +590,15 @@ static void check_no_ghosts(const struct built *b, int64_t m)
 	shapes(art, GP_LAYER_BACK_ITO, -1, -1, &back_all);
 	shapes(art, GP_LAYER_FRONT_ITO, -1, -1, &front_all);
 	shapes(art, GP_LAYER_FRONT_ITO, GP_ROLE_BRIDGE, -1, &front_traces);
+	add_role(art, GP_LAYER_FRONT_ITO, GP_ROLE_LEAD, &front_traces);
 	shapes(art, GP_LAYER_BACK_ITO, GP_ROLE_BRIDGE, -1, &back_bridges);
+	add_role(art, GP_LAYER_BACK_ITO, GP_ROLE_LEAD, &back_bridges);
+	/* inside the seal: the viewing area and the seal's distance */
+	struct gp_box seal = b->design->viewing;
+	seal.x0 -= 400000, seal.y0 -= 400000;
+	seal.x1 += 400000, seal.y1 += 400000;
+	clip(geos, &front_traces, seal);
+	clip(geos, &back_bridges, seal);
 	struct gp_polyset electrodes;
 	shapes(art, GP_LAYER_FRONT_ITO, GP_ROLE_ELECTRODE, -1, &electrodes);
 	struct gp_polyset outside, icon_area, far;
@@ -616,6 +680,57 @@ static void test_no_ghosts(void **state)
 	finish(&b);
 	make(&b, "0.05", block, many_parts);
 	check_no_ghosts(&b, 50000);
+	finish(&b);
+}
+
+/* With a ledge the icons lead their nets out themselves (straight, past
+ * everything in the way) and the router carries on from there: every net
+ * gets its pad, and no lead lies over the other plate inside the seal but
+ * at its own icon. */
+static const char routing[] =
+	"ledges:\n"
+	"  main:\n"
+	"    side: bottom\n    plate: front\n"
+	"    connection: {method: elastomeric, pitch: 0.1}\n"
+	"    pitch: 0.8\n    pad_width: 0.4\n    pad_length: 2\n"
+	"    edge_clearance: 0.5\n"
+	"leads:\n  width: 0.1\n  space: 0.1\n"
+	"seal:\n  width: 1\n  distance: 0.5\n"
+	"  fill_port: {side: top, width: 2}\n"
+	"transfers:\n  size: 0.3\n  count: 2\n  place: seal\n";
+
+static void test_lead_ins(void **state)
+{
+	struct built b;
+	char icons[2048];
+	snprintf(icons, sizeof(icons),
+		 "  rec:\n"
+		 "    text: REC\n    font: \"Liberation Sans:bold\"\n"
+		 "    cap_height: 2\n    position: [9, 17]\n"
+		 "    common: status\n    segment: s1\n"
+		 "  bell:\n"
+		 "    shape: circle\n    diameter: 2\n    position: [21, 18]\n"
+		 "    common: status\n    segment: s2\n"
+		 "  unit:\n"
+		 "    text: \"°C\"\n    font: \"Liberation Sans:bold\"\n"
+		 "    cap_height: 2\n    position: [29, 17]\n"
+		 "    common: units\n    segment: s3\n"
+		 "%s", routing);
+	use_routed_base = true;
+	make(&b, "0.1", "", icons);
+	use_routed_base = false;
+	const struct gp_artwork *art = &b.build->art;
+	/* every icon net has a pad */
+	assert_int_equal(b.build->pin_count, 5);
+	for (size_t i = 0; i < b.design->icon_count; i++) {
+		const struct gp_pixel *p = icon_pixel(art, i);
+		int leads = 0;
+		for (size_t k = 0; k < art->shape_count; k++)
+			leads += art->shapes[k].role == GP_ROLE_LEAD &&
+				 art->shapes[k].net == p->segment;
+		assert_true(leads > 0);
+	}
+	check_no_ghosts(&b, 100000);
 	finish(&b);
 }
 
@@ -940,6 +1055,7 @@ int main(void)
 		cmocka_unit_test(test_holes_read_back_by_gerbv),
 		cmocka_unit_test(test_parts_joined),
 		cmocka_unit_test(test_no_ghosts),
+		cmocka_unit_test(test_lead_ins),
 		cmocka_unit_test(test_registration_samples),
 		cmocka_unit_test(test_registration_loss_detected),
 		cmocka_unit_test(test_nets),
