@@ -171,17 +171,68 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 	return node;
 }
 
+/* Line and column of a byte offset (libyaml gives only the offset for
+ * encoding errors); columns count bytes. */
+static struct gp_where where_of_offset(const char *file, const char *data,
+				       size_t size, size_t offset)
+{
+	struct gp_where where = { file, 1, 1 };
+	for (size_t i = 0; i < offset && i < size; i++) {
+		if (data[i] == '\n') {
+			where.line++;
+			where.col = 1;
+		} else {
+			where.col++;
+		}
+	}
+	return where;
+}
+
 static void yaml_error(const yaml_parser_t *parser, const char *file,
+		       const char *data, size_t size, bool flat,
 		       struct gp_diag *diag)
 {
 	struct gp_where where = { file, (int)parser->problem_mark.line + 1,
 				  (int)parser->problem_mark.column + 1 };
+	if (parser->error == YAML_READER_ERROR)
+		where = where_of_offset(file, data, size,
+					parser->problem_offset);
+	if (flat) /* an override's value: no lines of its own */
+		where.line = where.col = 0;
 	const char *problem = parser->problem ? parser->problem : "unknown";
-	if (parser->context)
+	if (parser->error == YAML_READER_ERROR && parser->problem_value >= 0)
+		gp_diag_error(diag, &where, "bad YAML: %s (byte 0x%02x); "
+			      "expected UTF-8 text", problem,
+			      (unsigned)parser->problem_value & 0xff);
+	else if (parser->context)
 		gp_diag_error(diag, &where, "bad YAML: %s %s", problem,
 			      parser->context);
 	else
 		gp_diag_error(diag, &where, "bad YAML: %s", problem);
+}
+
+/* A second document would be silently ignored: refuse it. */
+static bool single_document(yaml_parser_t *parser, const char *file,
+			    const char *data, size_t size, bool flat,
+			    struct gp_diag *diag)
+{
+	yaml_document_t next;
+	if (!yaml_parser_load(parser, &next)) {
+		yaml_error(parser, file, data, size, flat, diag);
+		return false;
+	}
+	yaml_node_t *root = yaml_document_get_root_node(&next);
+	struct gp_where where = { file, 0, 0 };
+	if (root && !flat) {
+		where.line = (int)next.start_mark.line + 1;
+		where.col = (int)next.start_mark.column + 1;
+	}
+	yaml_document_delete(&next);
+	if (root)
+		return gp_diag_error(diag, &where,
+				     "a second YAML document starts here; a "
+				     "description is one document");
+	return true;
 }
 
 /* Parse one YAML document into a tree; flat drops line/col (overrides).
@@ -200,11 +251,16 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
 				     size);
 	if (!yaml_parser_load(&parser, &document)) {
-		yaml_error(&parser, file, diag);
+		yaml_error(&parser, file, data, size, flat, diag);
 		yaml_parser_delete(&parser);
 		return NULL;
 	}
 	yaml_node_t *top = yaml_document_get_root_node(&document);
+	if (top && !single_document(&parser, file, data, size, flat, diag)) {
+		yaml_document_delete(&document);
+		yaml_parser_delete(&parser);
+		return NULL;
+	}
 	struct convert c = { &document, file, diag, *nodes, flat };
 	if (top)
 		root = convert_node(&c, top, 0);
