@@ -71,6 +71,20 @@ static void stage(const struct gp_build *build, const char *name)
 		build->progress(name, build->progress_data);
 }
 
+/* Backstop for GP_MAX_NETS over every kind of element: the blocks are
+ * checked when read, digits and icons are bounded by their own limits,
+ * and this keeps the sum bounded before routing and checks. */
+static bool check_net_count(const struct gp_build *build,
+			    struct gp_diag *diag)
+{
+	if (build->art.net_count <= GP_MAX_NETS)
+		return true;
+	return gp_diag_error(diag, NULL,
+			     "%s: the design needs %zu commons and segments; "
+			     "the limit is %d", build->design->spec->file,
+			     build->art.net_count, GP_MAX_NETS);
+}
+
 GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	const struct gp_design *design,
 	void (*progress)(const char *stage, void *data), void *data,
@@ -100,7 +114,8 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	    !gp_digits_layout(build, diag) ||
 	    !gp_icons_layout(build, diag) ||
 	    !gp_route_layout(build, diag) ||
-	    !gp_outlines_layout(build, diag)) {
+	    !gp_outlines_layout(build, diag) ||
+	    !check_net_count(build, diag)) {
 		gp_build_destroy(build);
 		return NULL;
 	}

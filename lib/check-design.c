@@ -6,6 +6,7 @@
 #include "model.h"
 #include "output.h"
 #include "route.h"
+#include "drive.h"
 
 #include <string.h>
 
@@ -97,6 +98,41 @@ void gp_check_limits_from_design(struct gp_check_limits *l,
 		l->row_time = 1.0 / ((double)commons * d->drive.frame_rate.value);
 }
 
+/* The drive as a finding: an empty operating-voltage window blocks
+ * manufacture as surely as a short.  Its warnings (values out of their
+ * usual ranges) go to diag; bad drive input was refused on loading. */
+static bool check_drive(struct gp_build *build, struct gp_diag *diag)
+{
+	const struct gp_design *d = build->design;
+	if (!d->drive.has_optics)
+		return true;
+	struct gp_diag scratch;
+	gp_diag_init(&scratch);
+	struct gp_drive_report report;
+	bool ok = gp_drive_resolve(d, &report, &scratch);
+	for (size_t i = 0; i < scratch.count; i++)
+		if (scratch.entries[i].severity == GP_SEVERITY_WARNING)
+			gp_diag_warning(diag, NULL, "%s",
+					scratch.entries[i].message);
+	gp_diag_finish(&scratch);
+	if (!ok || report.result.feasible)
+		return true;
+	struct gp_finding f = {
+		.rule = GP_CHECK_DRIVE,
+		.severity = GP_SEVERITY_ERROR,
+		.nets = { GP_NET_NONE, GP_NET_NONE },
+		.place = { d->viewing.x0, d->viewing.y0 },
+		.value = report.result.ratio,
+		.limit = report.result.needed,
+		.unit = GP_UNIT_RATIO,
+		.pixel = -1,
+		.shape = -1,
+	};
+	gp_drive_advice(&report, f.text, sizeof(f.text));
+	return gp_check_report_add(&build->checks, &f) ||
+	       gp_diag_error(diag, NULL, "out of memory");
+}
+
 bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 {
 	struct gp_check_limits limits;
@@ -108,6 +144,7 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 	bool ok = gp_check_run(geos, &build->art, &limits, &build->checks,
 			       diag);
 	gp_geos_destroy(geos);
+	ok = ok && check_drive(build, diag);
 	build->checked = ok;
 	if (ok)
 		gp_buffer_printf(&build->notes,

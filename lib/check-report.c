@@ -23,16 +23,15 @@ static const char *net_name(const struct gp_artwork *art, int net)
 							: NULL;
 }
 
-/* Values in their unit, with enough digits for 1 nm or 1e-6 mm^2. */
-static void format_value(char *text, size_t size, double v,
-			 enum gp_check_unit unit)
+void gp_check_format_value(char *text, size_t size, double v,
+			   enum gp_check_unit unit, bool typeset)
 {
 	switch (unit) {
 	case GP_UNIT_MM:
 		snprintf(text, size, "%.6g mm", v);
 		break;
 	case GP_UNIT_MM2:
-		snprintf(text, size, "%.6g mm2", v);
+		snprintf(text, size, typeset ? "%.6g mm\xc2\xb2" : "%.6g mm2", v);
 		break;
 	case GP_UNIT_FRACTION:
 		snprintf(text, size, "%.4g%%", 100 * v);
@@ -43,7 +42,7 @@ static void format_value(char *text, size_t size, double v,
 	case GP_UNIT_SECOND:
 		snprintf(text, size, "%.4g s", v);
 		break;
-	case GP_UNIT_RATIO:
+	default:
 		snprintf(text, size, "%.4g", v);
 		break;
 	}
@@ -100,8 +99,10 @@ void gp_check_format_text(const struct gp_check_report *r,
 	for (size_t i = 0; i < r->count; i++) {
 		const struct gp_finding *f = &r->findings[i];
 		char value[48], limit[48], x[32], y[32];
-		format_value(value, sizeof(value), f->value, f->unit);
-		format_value(limit, sizeof(limit), f->limit, f->unit);
+		gp_check_format_value(value, sizeof(value), f->value, f->unit,
+				      false);
+		gp_check_format_value(limit, sizeof(limit), f->limit, f->unit,
+				      false);
 		gp_format_mm(x, sizeof(x), f->place.x);
 		gp_format_mm(y, sizeof(y), f->place.y);
 		const char *a = net_name(art, f->nets[0]);

@@ -46,6 +46,9 @@ static const struct {
 	[GP_CHECK_SEAL] = { "seal-clearance",
 			    "an electrode under the seal, or the viewing area "
 			    "not inside the seal" },
+	[GP_CHECK_DRIVE] = { "drive-window",
+			     "no operating voltage switches the fluid with "
+			     "this duty and bias" },
 };
 
 const char *gp_check_rule_name(enum gp_check_rule rule)
@@ -376,6 +379,26 @@ static bool grow_findings(struct checker *c)
 		return oom(c);
 	r->findings = items;
 	r->capacity = capacity;
+	return true;
+}
+
+bool gp_check_report_add(struct gp_check_report *r,
+			 const struct gp_finding *f)
+{
+	if (r->count == r->capacity) {
+		size_t capacity = r->capacity ? r->capacity * 2 : 16;
+		struct gp_finding *items =
+			realloc(r->findings, capacity * sizeof(*items));
+		if (!items)
+			return false;
+		r->findings = items;
+		r->capacity = capacity;
+	}
+	r->findings[r->count++] = *f;
+	if (f->severity == GP_SEVERITY_ERROR)
+		r->errors++;
+	else if (f->severity == GP_SEVERITY_WARNING)
+		r->warnings++;
 	return true;
 }
 
@@ -1504,6 +1527,8 @@ static void describe(const struct gp_artwork *art, struct gp_finding *f)
 		snprintf(f->text, sizeof(f->text),
 			 "pixel %s/%s reaches %.4f mm outside the viewing area",
 			 a, b, f->value);
+		break;
+	case GP_CHECK_DRIVE: /* described where it is made */
 		break;
 	case GP_CHECK_SEAL:
 		if (f->nets[0] < 0)

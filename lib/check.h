@@ -37,6 +37,7 @@ enum gp_check_rule {
 	GP_CHECK_EDGE,          /* "edge-clearance" */
 	GP_CHECK_VIEW,          /* "pixel-outside-view" */
 	GP_CHECK_SEAL,          /* "seal-clearance" */
+	GP_CHECK_DRIVE,         /* "drive-window" */
 	GP_CHECK_RULE_COUNT
 };
 
@@ -53,6 +54,10 @@ enum gp_check_unit {
 	GP_UNIT_RATIO,
 };
 const char *gp_check_unit_name(enum gp_check_unit unit); /* "mm2", ... */
+/* A finding's value in its unit, with enough digits for 1 nm or
+ * 1e-6 mm^2 ("0.03 mm", "2.5%"); typeset: "mm²" instead of "mm2". */
+void gp_check_format_value(char *text, size_t size, double value,
+			   enum gp_check_unit unit, bool typeset);
 
 struct gp_finding {
 	enum gp_check_rule rule;
@@ -66,7 +71,7 @@ struct gp_finding {
 	int shape;                /* shape index, or -1 */
 	int detail;               /* rule-specific: registration shift index
 				   * (lib/patch.h), plate of a spacing */
-	char text[200];           /* one line of explanation */
+	char text[400];           /* one line of explanation */
 };
 
 /* Per net: what the electrical checks computed. */
@@ -149,6 +154,10 @@ struct gp_check_report {
 };
 
 void gp_check_report_init(struct gp_check_report *report);
+/* Adds a finding made outside gp_check_run (the drive window); false when
+ * out of memory. */
+bool gp_check_report_add(struct gp_check_report *report,
+			 const struct gp_finding *finding);
 void gp_check_report_finish(struct gp_check_report *report);
 
 /* Runs every check; findings go to report, failures (GEOS, memory) to

@@ -237,6 +237,21 @@ static bool check_row(const struct gp_digits *row, struct gp_diag *diag)
 	return true;
 }
 
+/* Each digit costs real layout work (shapes, back patches, leads): the
+ * total over all rows is bounded so that a build stays quick. */
+static bool check_total(const struct gp_design *design,
+			const struct gp_node *node, struct gp_diag *diag)
+{
+	long total = 0;
+	for (size_t i = 0; i < design->digit_count; i++)
+		total += design->digits[i].count;
+	if (total <= GP_DIGITS_MAX_TOTAL)
+		return true;
+	return gp_diag_error(diag, &node->where,
+			     "the digit rows have %ld digits in all; the "
+			     "limit is %d", total, GP_DIGITS_MAX_TOTAL);
+}
+
 bool gp_digits_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag)
 {
@@ -257,7 +272,7 @@ bool gp_digits_read(struct gp_design *design, const struct gp_node *node,
 		ok &= read_row(row, node->keys[i]->text, node->items[i], diag) &&
 		      check_row(row, diag);
 	}
-	return ok;
+	return ok && check_total(design, node, diag);
 }
 
 void gp_digits_free(struct gp_digits *rows, size_t count)

@@ -62,6 +62,7 @@ struct gp_figure_spec {
 #define GP_FIGURE_MAX_SEGMENTS 16
 #define GP_DIGITS_MAX_COUNT 64        /* digits in one row */
 #define GP_DIGITS_MAX_ROWS 32
+#define GP_DIGITS_MAX_TOTAL 256       /* digits in all rows */
 /* Parts of one unit (a digit and what belongs to it): segments, point,
  * colon. */
 #define GP_UNIT_MAX_PARTS (GP_FIGURE_MAX_SEGMENTS + 2)

@@ -18,6 +18,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 /* Outlines are loaded unhinted and without embedded bitmaps: the artwork
@@ -183,6 +184,12 @@ static bool open_face(struct gp_font *font, const char *name,
 				     "font '%s': cannot read '%s': %s; expected "
 				     "a readable font file", name, font->file,
 				     strerror(errno));
+	/* a FIFO or a device would block or never end */
+	struct stat st;
+	if (stat(font->file, &st) != 0 || !S_ISREG(st.st_mode))
+		return gp_diag_error(diag, where,
+				     "font '%s': '%s' is not a regular file; "
+				     "expected a font file", name, font->file);
 	error = FT_New_Face(font->library, font->file, font->index,
 			    &font->face);
 	if (error)

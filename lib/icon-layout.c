@@ -744,6 +744,28 @@ static bool add_pixel(struct layout *l, size_t i)
 	return ok;
 }
 
+/* The parts of src whose bounds meet box.  Only the back patch near an
+ * icon can light it under a shift, so copying just those keeps the
+ * registration sums linear in the number of icons on one common. */
+static bool copy_near(struct gp_polyset *dst, const struct gp_polyset *src,
+		      struct gp_box box)
+{
+	for (size_t k = 0; k < src->count; k++) {
+		struct gp_box b = gp_polygon_bounds(&src->items[k]);
+		if (b.x1 < box.x0 || b.x0 > box.x1 || b.y1 < box.y0 ||
+		    b.y0 > box.y1)
+			continue;
+		struct gp_polygon copy;
+		if (!gp_polygon_copy(&copy, &src->items[k]))
+			return false;
+		if (!gp_polyset_take(dst, &copy)) {
+			gp_polygon_finish(&copy);
+			return false;
+		}
+	}
+	return true;
+}
+
 /* Summary: nets, area and what the registration margin keeps lit. */
 static bool note_icon(struct layout *l, size_t i)
 {
@@ -752,7 +774,14 @@ static bool note_icon(struct layout *l, size_t i)
 	struct gp_polyset back;
 	gp_polyset_init(&back);
 	struct gp_registration reg;
-	bool ok = copy_into(&back, &l->patches[w->group]) &&
+	struct gp_box near = gp_box_none();
+	for (size_t k = 0; k < w->front.count; k++)
+		near = gp_box_union(near, gp_polygon_bounds(&w->front.items[k]));
+	near = gp_box_make(near.x0 - 2 * r->registration,
+			   near.y0 - 2 * r->registration,
+			   near.x1 + 2 * r->registration,
+			   near.y1 + 2 * r->registration);
+	bool ok = copy_near(&back, &l->patches[w->group], near) &&
 		  copy_into(&back, &w->back_bridges) &&
 		  gp_patch_registration(l->geos, &w->front, &back,
 					r->registration, r->registration,

@@ -376,6 +376,22 @@ static bool check_pairs(const struct gp_design *design, struct gp_diag *diag)
 	return ok;
 }
 
+/* Text is the costly kind of icon (each glyph is shaped, flattened and
+ * checked): its total is bounded too. */
+static bool check_text_total(const struct gp_design *design,
+			     const struct gp_node *node, struct gp_diag *diag)
+{
+	size_t total = 0;
+	for (size_t i = 0; i < design->icon_count; i++)
+		if (design->icons[i].kind == GP_ICON_TEXT)
+			total += strlen(design->icons[i].text);
+	if (total <= GP_MAX_ICON_TEXT)
+		return true;
+	return gp_diag_error(diag, &node->where,
+			     "the icons have %zu bytes of text in all; the "
+			     "limit is %d", total, GP_MAX_ICON_TEXT);
+}
+
 bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag)
 {
@@ -397,5 +413,6 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		ok &= read_icon(&design->icons[i], design, node->keys[i]->text,
 				node->items[i], diag);
 	}
-	return ok && check_pairs(design, diag);
+	return ok && check_text_total(design, node, diag) &&
+	       check_pairs(design, diag);
 }

@@ -14,6 +14,13 @@
 #include <stdlib.h>
 #include <string.h>
 
+/* The dot arithmetic below is a count (at most GP_MAX_CELLS cells or
+ * lines, 256 dots) times a length (at most GP_LENGTH_MAX) plus an origin:
+ * it cannot overflow int64_t. */
+_Static_assert((INT64_MAX - 2 * GP_LENGTH_MAX) / GP_LENGTH_MAX >
+		       (int64_t)GP_MAX_CELLS + 256,
+	       "block coordinates could overflow int64_t");
+
 struct gp_point gp_block_dot(const struct gp_block *b, long line, long cell,
 			     long row, long col)
 {
@@ -243,6 +250,33 @@ static bool resolve_shared_commons(struct gp_design *design, size_t index,
 	return true;
 }
 
+/* Totals over every block, checked before any layout so that a hostile
+ * description cannot make the layout exhaust memory or time. */
+static bool check_totals(const struct gp_design *design,
+			 const struct gp_node *node, struct gp_diag *diag)
+{
+	size_t nets = 0, dots = 0;
+	for (size_t i = 0; i < design->block_count; i++) {
+		const struct gp_block *b = &design->blocks[i];
+		long groups = b->share_segments ? 1 : b->lines;
+		if (b->commons_from < 0)
+			nets += (size_t)(b->lines * b->dots_down);
+		nets += (size_t)(groups * b->cells * b->dots_across);
+		dots += (size_t)(b->cells * b->lines) *
+			(size_t)(b->dots_across * b->dots_down);
+	}
+	if (nets > GP_MAX_NETS)
+		return gp_diag_error(diag, &node->where,
+				     "the blocks need %zu commons and "
+				     "segments; the limit is %d",
+				     nets, GP_MAX_NETS);
+	if (dots > GP_MAX_PIXELS)
+		return gp_diag_error(diag, &node->where,
+				     "the blocks have %zu dots; the limit is "
+				     "%d", dots, GP_MAX_PIXELS);
+	return true;
+}
+
 bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 		    struct gp_diag *diag)
 {
@@ -276,7 +310,7 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 				ok &= resolve_shared_commons(
 					design, i, item->items[k], diag);
 	}
-	return ok;
+	return ok && check_totals(design, node, diag);
 }
 
 /* --- layout ---------------------------------------------------------------- */

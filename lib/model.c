@@ -32,6 +32,27 @@ static bool read_glass(struct gp_design *design, const struct gp_node *node,
 	return gp_reader_end(&r);
 }
 
+/* Every corner of a plate lies within GP_MAX_GLASS_MM of the origin, so
+ * that everything drawn on the glass can be written. */
+static void check_glass_limit(struct gp_reader *r, const struct gp_node *node,
+			      const int64_t size[2], const int64_t position[2])
+{
+	int64_t limit = GP_MAX_GLASS_MM * GP_NM_PER_MM;
+	for (int i = 0; r->ok && i < 2; i++) {
+		int64_t far = position[i] + size[i]; /* both <= GP_LENGTH_MAX */
+		if (position[i] >= -limit && far <= limit)
+			continue;
+		char text[32];
+		gp_format_mm_short(text, sizeof(text),
+				   position[i] < -limit ? position[i] : far);
+		r->ok = gp_diag_error(r->diag, &node->where,
+				      "%s reaches %s = %s mm; every plate "
+				      "must lie within %d mm of the origin",
+				      r->what, i ? "y" : "x", text,
+				      GP_MAX_GLASS_MM);
+	}
+}
+
 static bool read_plate(struct gp_plate_spec *plate, const char *what,
 		       const struct gp_node *node, struct gp_diag *diag)
 {
@@ -40,6 +61,7 @@ static bool read_plate(struct gp_plate_spec *plate, const char *what,
 	gp_reader_begin(&r, node, what, diag);
 	gp_read_size_pair(&r, "size", true, size);
 	gp_read_pair(&r, "position", false, position);
+	check_glass_limit(&r, node, size, position);
 	plate->where = node->where;
 	plate->box = gp_box_make(position[0], position[1],
 				 position[0] + size[0], position[1] + size[1]);
@@ -179,6 +201,12 @@ static struct gp_design *load(struct gp_spec *spec,
 {
 	if (!spec)
 		return NULL;
+	if (count > GP_SPEC_MAX_OVERRIDES) {
+		gp_diag_error(diag, NULL, "%zu overrides (--set); the limit is "
+			      "%d", count, GP_SPEC_MAX_OVERRIDES);
+		gp_spec_destroy(spec);
+		return NULL;
+	}
 	bool ok = true;
 	for (size_t i = 0; i < count; i++)
 		ok &= gp_spec_override(spec, overrides[i], (int)i + 1, diag);

@@ -57,12 +57,19 @@ struct gp_plate_spec {
 	struct gp_where where;
 };
 
-/* Limits against hostile descriptions. */
+/* Limits against hostile descriptions: each keeps the work and memory of
+ * one build bounded (measured: a design at every limit builds in well
+ * under a minute), far above any real passive glass.  Every one is
+ * reported with its value when exceeded. */
 #define GP_MAX_BLOCKS 64
 #define GP_MAX_CELLS 100000       /* cells in one block */
 #define GP_MAX_DOTS_PER_CELL 4096
-#define GP_MAX_NETS 20000
-#define GP_MAX_PIXELS 4000000
+#define GP_MAX_NETS 4000          /* commons + segments of the design */
+#define GP_MAX_PIXELS 1000000     /* dots of all blocks */
+/* Every plate corner lies within this many mm of the origin, in x and
+ * in y: the artwork then stays inside the Gerber format's +-9999.999999
+ * mm with room for what is drawn around the plates. */
+#define GP_MAX_GLASS_MM 9000
 
 /* A dot-matrix block.  origin is the top-left corner of the top-left dot
  * of cell (line 0, cell 0); cells go right (+x), lines go down (-y), dots
@@ -84,7 +91,8 @@ struct gp_block {
 	struct gp_where commons_from_where;
 };
 
-#define GP_MAX_ICONS 4096
+#define GP_MAX_ICONS 512
+#define GP_MAX_ICON_TEXT 4096    /* bytes of text over all icons */
 #define GP_MAX_ICON_POINTS 4096   /* corners of one polygon icon */
 
 enum gp_icon_kind {

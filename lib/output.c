@@ -141,52 +141,177 @@ static char *write_temporary(const char *folder,
 	return path;
 }
 
-static bool make_folder(const char *folder, struct gp_diag *diag)
+/* Creates folder if missing; *created says whether this call made it. */
+static bool make_folder(const char *folder, bool *created,
+			struct gp_diag *diag)
 {
 	struct stat st;
+	*created = false;
 	if (stat(folder, &st) == 0) {
 		if (S_ISDIR(st.st_mode))
 			return true;
 		return gp_diag_error(diag, NULL,
 				     "%s: exists and is not a folder", folder);
 	}
-	if (mkdir(folder, 0777) == 0)
+	if (mkdir(folder, 0777) == 0) {
+		*created = true;
 		return true;
+	}
 	return gp_diag_error(diag, NULL, "%s: cannot create the folder: %s",
 			     folder, strerror(errno));
+}
+
+/* A folder where an output file should go would make its rename fail
+ * after others were done: refuse before anything is written. */
+static bool check_targets(const struct gp_output_set *set,
+			  const char *folder, struct gp_diag *diag)
+{
+	for (size_t i = 0; i < set->count; i++) {
+		char *path = join(folder, set->files[i].name);
+		struct stat st;
+		bool in_way = path && lstat(path, &st) == 0 &&
+			      S_ISDIR(st.st_mode);
+		free(path);
+		if (!path)
+			return gp_diag_error(diag, NULL, "out of memory");
+		if (in_way)
+			return gp_diag_error(diag, NULL,
+					     "%s/%s: a folder is in the way of "
+					     "this output file", folder,
+					     set->files[i].name);
+	}
+	return true;
+}
+
+/* One file being put in place: its temporary, and a hard link to what
+ * was there before (NULL when nothing was), kept until every rename is
+ * done so that a failure can put the old file back. */
+struct commit_entry {
+	char *temporary;
+	char *backup;
+	bool existed;             /* something had the final name before */
+	bool renamed;
+};
+
+static int fail_renames;  /* test hook: renames left before a failure */
+
+GP_EXPORT void gp_output_fail_rename_after(int renames)
+{
+	fail_renames = renames;
+}
+
+static int do_rename(const char *from, const char *to)
+{
+	if (fail_renames > 0 && --fail_renames == 0) {
+		errno = EIO;
+		return -1;
+	}
+	return rename(from, to);
+}
+
+/* Keeps the file at final (if any) reachable under a backup name.  On a
+ * file system without hard links the previous file cannot be kept; a
+ * failed rename then leaves the new complete file in its place. */
+static bool keep_backup(const char *folder, const char *name,
+			struct commit_entry *e, struct gp_diag *diag)
+{
+	char *final = join(folder, name);
+	char *backup = malloc(strlen(folder) + strlen(name) + 24);
+	struct stat st;
+	bool ok = final && backup;
+	if (!ok)
+		gp_diag_error(diag, NULL, "out of memory");
+	e->existed = ok && lstat(final, &st) == 0;
+	for (int attempt = 0; ok && e->existed && attempt < 100; attempt++) {
+		sprintf(backup, "%s/.%s.old%d", folder, name, attempt);
+		if (link(final, backup) == 0) {
+			e->backup = backup;
+			backup = NULL;
+			break;
+		}
+		if (errno != EEXIST)
+			break;
+	}
+	free(backup);
+	free(final);
+	return ok;
+}
+
+/* Undoes the renames done so far: old files back, new ones removed. */
+static void roll_back(const struct gp_output_set *set, const char *folder,
+		      struct commit_entry *entries)
+{
+	for (size_t i = 0; i < set->count; i++) {
+		if (!entries[i].renamed)
+			continue;
+		char *final = join(folder, set->files[i].name);
+		if (!final)
+			continue;
+		if (entries[i].backup) {
+			if (rename(entries[i].backup, final) == 0) {
+				free(entries[i].backup);
+				entries[i].backup = NULL;
+			}
+		} else if (!entries[i].existed) {
+			unlink(final);
+		}
+		free(final);
+	}
+}
+
+static bool put_in_place(const struct gp_output_set *set, const char *folder,
+			 struct commit_entry *entries, struct gp_diag *diag)
+{
+	for (size_t i = 0; i < set->count; i++)
+		if (!keep_backup(folder, set->files[i].name, &entries[i],
+				 diag))
+			return false;
+	for (size_t i = 0; i < set->count; i++) {
+		char *final = join(folder, set->files[i].name);
+		if (!final || do_rename(entries[i].temporary, final) != 0) {
+			free(final);
+			roll_back(set, folder, entries);
+			return gp_diag_error(diag, NULL, "%s/%s: cannot rename "
+					     "into place: %s", folder,
+					     set->files[i].name,
+					     final ? strerror(errno)
+						   : "out of memory");
+		}
+		free(final);
+		free(entries[i].temporary);
+		entries[i].temporary = NULL;
+		entries[i].renamed = true;
+	}
+	return true;
 }
 
 bool gp_output_commit(const struct gp_output_set *set, const char *folder,
 		      struct gp_diag *diag)
 {
-	if (!make_folder(folder, diag))
+	bool created;
+	if (!make_folder(folder, &created, diag))
 		return false;
-	char **temporary = calloc(set->count ? set->count : 1,
-				  sizeof(*temporary));
-	if (!temporary)
-		return gp_diag_error(diag, NULL, "out of memory");
-	bool ok = true;
+	struct commit_entry *entries = calloc(set->count ? set->count : 1,
+					      sizeof(*entries));
+	bool ok = entries && check_targets(set, folder, diag);
+	if (!entries)
+		gp_diag_error(diag, NULL, "out of memory");
 	for (size_t i = 0; ok && i < set->count; i++) {
-		temporary[i] = write_temporary(folder, &set->files[i], diag);
-		ok = temporary[i] != NULL;
+		entries[i].temporary = write_temporary(folder, &set->files[i],
+						       diag);
+		ok = entries[i].temporary != NULL;
 	}
-	for (size_t i = 0; ok && i < set->count; i++) {
-		char *final = join(folder, set->files[i].name);
-		if (!final || rename(temporary[i], final) != 0) {
-			ok = gp_diag_error(diag, NULL, "%s/%s: cannot rename "
-					   "into place: %s", folder,
-					   set->files[i].name, strerror(errno));
-		} else {
-			free(temporary[i]);
-			temporary[i] = NULL;
-		}
-		free(final);
+	ok = ok && put_in_place(set, folder, entries, diag);
+	for (size_t i = 0; entries && i < set->count; i++) {
+		if (entries[i].temporary)
+			unlink(entries[i].temporary);
+		if (entries[i].backup)
+			unlink(entries[i].backup);
+		free(entries[i].temporary);
+		free(entries[i].backup);
 	}
-	for (size_t i = 0; i < set->count; i++) {
-		if (temporary[i])
-			unlink(temporary[i]);
-		free(temporary[i]);
-	}
-	free(temporary);
+	free(entries);
+	if (!ok && created)
+		rmdir(folder); /* a failed run leaves no new folder either */
 	return ok;
 }

@@ -174,8 +174,19 @@ done:
 /* patch = grown - (cuts + notch zone) + front */
 static bool cut_patch(struct work *w, size_t g, struct gp_geos_shape *zone)
 {
-	if (zone && !add_cut(w, g, gp_geos_shape_clone(w->geos, zone)))
-		return false;
+	/* only the zone over this group's patch matters: clipping it to the
+	 * patch's bounds keeps the work per group independent of the
+	 * number of groups (a hostile description can have thousands) */
+	if (zone) {
+		struct gp_geos_shape *box = gp_geos_shape_from_box(
+			w->geos, gp_geos_shape_bounds(w->grown[g]));
+		struct gp_geos_shape *near =
+			box ? gp_geos_shape_intersection(w->geos, zone, box)
+			    : NULL;
+		gp_geos_shape_destroy(w->geos, box);
+		if (!add_cut(w, g, near))
+			return false;
+	}
 	struct gp_geos_shape *p = gp_geos_shape_clone(w->geos, w->grown[g]);
 	if (!p)
 		return false;

@@ -259,8 +259,7 @@ static void digit_dims(const struct gp_design *d, struct dim_list *list)
 	}
 }
 
-/* The fill port's place and width along its side of the seal, as
- * lib/seal.c lays it out (port_box there). */
+/* The fill port's place and width along its side of the seal. */
 static void port_dims(const struct gp_design *d, struct dim_list *list)
 {
 	if (!d->routing || !d->routing->seal.given)
@@ -268,11 +267,8 @@ static void port_dims(const struct gp_design *d, struct dim_list *list)
 	const struct gp_seal_spec *s = &d->routing->seal;
 	struct gp_box in, out;
 	gp_seal_boxes(d, &in, &out);
-	bool across = s->port_side == GP_SIDE_BOTTOM ||
-		      s->port_side == GP_SIDE_TOP;
-	int64_t lo = across ? in.x0 : in.y0, hi = across ? in.x1 : in.y1;
-	int64_t c = s->port_position_given ? s->port_position : (lo + hi) / 2;
-	int64_t a = c - s->port_width / 2, b = a + s->port_width;
+	int64_t a, b, lo, hi;
+	gp_seal_port_span(d, &a, &b, &lo, &hi);
 	static const enum side sides[GP_SIDE_COUNT] = { BOTTOM, RIGHT, TOP,
 							LEFT };
 	enum side side = sides[s->port_side];

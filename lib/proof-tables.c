@@ -574,31 +574,6 @@ int proof_finding_sheet_count(const struct gp_build *build,
 	return 1 + (int)((n + per - 1) / per);
 }
 
-/* As report.txt writes them (lib/check-report.c). */
-static void finding_value(char *text, size_t size, double v,
-			  enum gp_check_unit unit)
-{
-	switch (unit) {
-	case GP_UNIT_MM:
-		snprintf(text, size, "%.6g mm", v);
-		break;
-	case GP_UNIT_MM2:
-		snprintf(text, size, "%.6g mm\xc2\xb2", v);
-		break;
-	case GP_UNIT_FRACTION:
-		snprintf(text, size, "%.4g%%", 100 * v);
-		break;
-	case GP_UNIT_OHM:
-		snprintf(text, size, "%.4g ohm", v);
-		break;
-	case GP_UNIT_SECOND:
-		snprintf(text, size, "%.4g s", v);
-		break;
-	default:
-		snprintf(text, size, "%.4g", v);
-		break;
-	}
-}
 
 static const char *severity_text(enum gp_severity severity)
 {
@@ -642,8 +617,10 @@ static void finding_row(struct proof *p, const struct table *t, double x,
 	proof_mm(a, sizeof(a), f->place.x);
 	proof_mm(b, sizeof(b), f->place.y);
 	snprintf(place, sizeof(place), "%s, %s", a, b);
-	finding_value(value, sizeof(value), f->value, f->unit);
-	finding_value(limit, sizeof(limit), f->limit, f->unit);
+	gp_check_format_value(value, sizeof(value), f->value, f->unit,
+			      true);
+	gp_check_format_value(limit, sizeof(limit), f->limit, f->unit,
+			      true);
 	const char *cells[FINDING_COLUMNS] = {
 		no, severity_text(f->severity), gp_check_rule_name(f->rule),
 		nets, place, value, limit,

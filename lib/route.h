@@ -210,5 +210,9 @@ bool gp_seal_layout(struct gp_build *build, const struct gp_box *in,
 /* Seal band boxes (inner edge and outer edge) of a design with a seal. */
 void gp_seal_boxes(const struct gp_design *design, struct gp_box *inner,
 		   struct gp_box *outer);
+/* The fill port along its side of the seal: from *a to *b, on a side that
+ * runs from *lo to *hi inside the seal (nm). */
+void gp_seal_port_span(const struct gp_design *design, int64_t *a,
+		       int64_t *b, int64_t *lo, int64_t *hi);
 
 #endif

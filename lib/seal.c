@@ -56,17 +56,30 @@ bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag)
 	return true;
 }
 
+void gp_seal_port_span(const struct gp_design *d, int64_t *a, int64_t *b,
+		       int64_t *lo, int64_t *hi)
+{
+	const struct gp_seal_spec *s = &d->routing->seal;
+	struct gp_box in, out;
+	gp_seal_boxes(d, &in, &out);
+	bool across = s->port_side == GP_SIDE_BOTTOM ||
+		      s->port_side == GP_SIDE_TOP;
+	*lo = across ? in.x0 : in.y0;
+	*hi = across ? in.x1 : in.y1;
+	int64_t c = s->port_position_given ? s->port_position
+					   : (*lo + *hi) / 2;
+	*a = c - s->port_width / 2;
+	*b = *a + s->port_width;
+}
+
 /* The fill port: a gap through the band on its side. */
 static bool port_box(const struct gp_design *d, struct gp_box in,
 		     struct gp_box out, struct gp_box *port,
 		     struct gp_diag *diag)
 {
 	const struct gp_seal_spec *s = &d->routing->seal;
-	bool across = s->port_side == GP_SIDE_BOTTOM ||
-		      s->port_side == GP_SIDE_TOP;
-	int64_t lo = across ? in.x0 : in.y0, hi = across ? in.x1 : in.y1;
-	int64_t c = s->port_position_given ? s->port_position : (lo + hi) / 2;
-	int64_t a = c - s->port_width / 2, b = a + s->port_width;
+	int64_t a, b, lo, hi;
+	gp_seal_port_span(d, &a, &b, &lo, &hi);
 	if (a < lo || b > hi) {
 		char x[32], y[32], z[32], w[32];
 		return gp_diag_error(diag, &s->port_where,

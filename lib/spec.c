@@ -144,6 +144,12 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		else if (strlen(node->text) != ynode->data.scalar.length)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value contains a NUL character");
+		else if (ynode->data.scalar.length > GP_SPEC_MAX_SCALAR)
+			ok = gp_diag_error(c->diag, &where,
+					   "a value is %zu bytes long; the "
+					   "limit is %d",
+					   ynode->data.scalar.length,
+					   GP_SPEC_MAX_SCALAR);
 		break;
 	case YAML_SEQUENCE_NODE:
 		node->kind = GP_NODE_SEQUENCE;
@@ -165,22 +171,74 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 	return node;
 }
 
+/* Line and column of a byte offset (libyaml gives only the offset for
+ * encoding errors); columns count bytes. */
+static struct gp_where where_of_offset(const char *file, const char *data,
+				       size_t size, size_t offset)
+{
+	struct gp_where where = { file, 1, 1 };
+	for (size_t i = 0; i < offset && i < size; i++) {
+		if (data[i] == '\n') {
+			where.line++;
+			where.col = 1;
+		} else {
+			where.col++;
+		}
+	}
+	return where;
+}
+
 static void yaml_error(const yaml_parser_t *parser, const char *file,
+		       const char *data, size_t size, bool flat,
 		       struct gp_diag *diag)
 {
 	struct gp_where where = { file, (int)parser->problem_mark.line + 1,
 				  (int)parser->problem_mark.column + 1 };
+	if (parser->error == YAML_READER_ERROR)
+		where = where_of_offset(file, data, size,
+					parser->problem_offset);
+	if (flat) /* an override's value: no lines of its own */
+		where.line = where.col = 0;
 	const char *problem = parser->problem ? parser->problem : "unknown";
-	if (parser->context)
+	if (parser->error == YAML_READER_ERROR && parser->problem_value >= 0)
+		gp_diag_error(diag, &where, "bad YAML: %s (byte 0x%02x); "
+			      "expected UTF-8 text", problem,
+			      (unsigned)parser->problem_value & 0xff);
+	else if (parser->context)
 		gp_diag_error(diag, &where, "bad YAML: %s %s", problem,
 			      parser->context);
 	else
 		gp_diag_error(diag, &where, "bad YAML: %s", problem);
 }
 
-/* Parse one YAML document into a tree; flat drops line/col (overrides). */
+/* A second document would be silently ignored: refuse it. */
+static bool single_document(yaml_parser_t *parser, const char *file,
+			    const char *data, size_t size, bool flat,
+			    struct gp_diag *diag)
+{
+	yaml_document_t next;
+	if (!yaml_parser_load(parser, &next)) {
+		yaml_error(parser, file, data, size, flat, diag);
+		return false;
+	}
+	yaml_node_t *root = yaml_document_get_root_node(&next);
+	struct gp_where where = { file, 0, 0 };
+	if (root && !flat) {
+		where.line = (int)next.start_mark.line + 1;
+		where.col = (int)next.start_mark.column + 1;
+	}
+	yaml_document_delete(&next);
+	if (root)
+		return gp_diag_error(diag, &where,
+				     "a second YAML document starts here; a "
+				     "description is one document");
+	return true;
+}
+
+/* Parse one YAML document into a tree; flat drops line/col (overrides).
+ * *nodes counts the nodes made, across calls, against the limit. */
 static struct gp_node *parse_tree(const char *file, const char *data,
-				  size_t size, bool flat,
+				  size_t size, bool flat, size_t *nodes,
 				  struct gp_diag *diag)
 {
 	yaml_parser_t parser;
@@ -193,18 +251,24 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
 				     size);
 	if (!yaml_parser_load(&parser, &document)) {
-		yaml_error(&parser, file, diag);
+		yaml_error(&parser, file, data, size, flat, diag);
 		yaml_parser_delete(&parser);
 		return NULL;
 	}
 	yaml_node_t *top = yaml_document_get_root_node(&document);
-	struct convert c = { &document, file, diag, 0, flat };
+	if (top && !single_document(&parser, file, data, size, flat, diag)) {
+		yaml_document_delete(&document);
+		yaml_parser_delete(&parser);
+		return NULL;
+	}
+	struct convert c = { &document, file, diag, *nodes, flat };
 	if (top)
 		root = convert_node(&c, top, 0);
 	else
 		gp_diag_error(diag, &(struct gp_where){ file, 1, 1 },
 			      "the description is empty; expected a map of "
 			      "sections such as 'front', 'back' and 'blocks'");
+	*nodes = c.nodes;
 	yaml_document_delete(&document);
 	yaml_parser_delete(&parser);
 	return root;
@@ -225,7 +289,8 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 		gp_diag_error(diag, NULL, "%s: out of memory", name);
 		return NULL;
 	}
-	spec->root = parse_tree(spec->file, data, size, false, diag);
+	spec->root = parse_tree(spec->file, data, size, false,
+				&spec->node_count, diag);
 	if (spec->root && spec->root->kind != GP_NODE_MAP) {
 		gp_diag_error(diag, &spec->root->where,
 			      "the description must be a map of sections "
@@ -375,6 +440,33 @@ static bool graft(struct gp_spec *spec, char *path, struct gp_node *value,
 			     "a key or a sequence item (from 1)");
 }
 
+/* Every part of a key path names something: no empty part, none longer
+ * than a value may be. */
+static bool check_path(const char *path, size_t length,
+		       const struct gp_where *where, struct gp_diag *diag)
+{
+	size_t part = 0;
+	for (size_t i = 0; i <= length; i++) {
+		if (i < length && path[i] != '.') {
+			if (++part > GP_SPEC_MAX_SCALAR)
+				return gp_diag_error(diag, where,
+						     "a part of the key path "
+						     "is longer than %d bytes",
+						     GP_SPEC_MAX_SCALAR);
+			continue;
+		}
+		if (part == 0)
+			return gp_diag_error(diag, where,
+					     "the key path '%.*s' has an "
+					     "empty part; expected a key path "
+					     "such as blocks.main.cell_pitch",
+					     length > 200 ? 200 : (int)length,
+					     path);
+		part = 0;
+	}
+	return true;
+}
+
 bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 		      int number, struct gp_diag *diag)
 {
@@ -390,12 +482,15 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 					   label), 0, 0 };
 	if (!where.file)
 		return gp_diag_error(diag, NULL, "%s: out of memory", label);
+	if (!check_path(assignment, (size_t)(equals - assignment), &where,
+			diag))
+		return false;
 	const char *text = equals + 1;
 	if (!*text)
 		return gp_diag_error(diag, &where,
 				     "the value after '=' is empty");
 	struct gp_node *value = parse_tree(where.file, text, strlen(text),
-					   true, diag);
+					   true, &spec->node_count, diag);
 	if (!value)
 		return false;
 	char *path = strndup(assignment, (size_t)(equals - assignment));

@@ -36,12 +36,15 @@ struct gp_spec {
 	/* "--set #N" names that grafted nodes point at as their file. */
 	char **labels;
 	size_t label_count;
+	size_t node_count;        /* nodes made so far, overrides included */
 };
 
 /* Limits that keep hostile input bounded. */
 #define GP_SPEC_MAX_DEPTH 32
-#define GP_SPEC_MAX_NODES 200000
+#define GP_SPEC_MAX_NODES 200000        /* file and overrides together */
 #define GP_SPEC_MAX_BYTES (8 * 1024 * 1024)
+#define GP_SPEC_MAX_SCALAR 1024         /* bytes in one value or key */
+#define GP_SPEC_MAX_OVERRIDES 256
 
 /* Load from a file or a buffer; name is used in messages.  Returns NULL and
  * records errors on failure. */

@@ -7,8 +7,13 @@
 #include <stdint.h>
 
 #define GP_NM_PER_MM INT64_C(1000000)
-/* Largest length accepted anywhere: 10 m.  Keeps every product of two
- * coordinates (areas in nm^2) far inside int64_t. */
+/* Largest length accepted anywhere: 10 m (1e13 nm).  Overflow is ruled
+ * out by construction: sums of a few lengths stay far inside int64_t
+ * (9.2e18); a count times a length is bounded by the count limits
+ * (GP_MAX_CELLS x GP_LENGTH_MAX = 1e18, checked at compile time in
+ * matrix.c); a product of two lengths (areas, cross products) may reach
+ * 1e26 and is therefore only ever computed in double or __int128, never
+ * in int64_t.  gp_add_nm/gp_mul_nm below check anything else. */
 #define GP_LENGTH_MAX (INT64_C(10000) * GP_NM_PER_MM)
 
 /* Parse a decimal millimetre value ("12.5", "-0.000001", "+3") straight to

@@ -23,33 +23,10 @@
 
 #include <cmocka.h>
 
+#include "fixtures.h"
+
 #define MM INT64_C(1000000)
 #define UM INT64_C(1000)
-
-struct fixture {
-	struct gp_diag diag;
-	struct gp_geos *geos;
-};
-
-static int setup(void **state)
-{
-	struct fixture *f = calloc(1, sizeof(*f));
-	assert_non_null(f);
-	gp_diag_init(&f->diag);
-	f->geos = gp_geos_create(&f->diag);
-	assert_non_null(f->geos);
-	*state = f;
-	return 0;
-}
-
-static int teardown(void **state)
-{
-	struct fixture *f = *state;
-	gp_geos_destroy(f->geos);
-	gp_diag_finish(&f->diag);
-	free(f);
-	return 0;
-}
 
 static double distance(struct fixture *f, const struct gp_polygon *a,
 		       const struct gp_polygon *b)

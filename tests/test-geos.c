@@ -14,34 +14,11 @@
 
 #include <cmocka.h>
 
+#include "fixtures.h"
+
 #define MM INT64_C(1000000)
 #define UM INT64_C(1000)
 #define PI 3.14159265358979323846
-
-struct fixture {
-	struct gp_diag diag;
-	struct gp_geos *geos;
-};
-
-static int setup(void **state)
-{
-	struct fixture *f = calloc(1, sizeof(*f));
-	assert_non_null(f);
-	gp_diag_init(&f->diag);
-	f->geos = gp_geos_create(&f->diag);
-	assert_non_null(f->geos);
-	*state = f;
-	return 0;
-}
-
-static int teardown(void **state)
-{
-	struct fixture *f = *state;
-	gp_geos_destroy(f->geos);
-	gp_diag_finish(&f->diag);
-	free(f);
-	return 0;
-}
 
 static void box_poly(struct gp_polygon *p, int64_t x0, int64_t y0, int64_t x1,
 		     int64_t y1)

@@ -107,13 +107,5 @@ static int run(const struct tool_options *options, struct gp_diag *diag)
 
 int cmd_build(int argc, char **argv)
 {
-	struct tool_options options;
-	int status = tool_parse(argc, argv, &options, usage, true);
-	if (status < 0) {
-		struct gp_diag *diag = gp_diag_create();
-		status = diag ? run(&options, diag) : EXIT_BAD_INPUT;
-		gp_diag_destroy(diag);
-	}
-	tool_options_finish(&options);
-	return status;
+	return tool_main(argc, argv, usage, true, run);
 }

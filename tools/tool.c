@@ -103,6 +103,21 @@ void tool_options_finish(struct tool_options *options)
 	options->overrides = NULL;
 }
 
+int tool_main(int argc, char **argv, const char *usage, bool wants_output,
+	      int (*run)(const struct tool_options *options,
+			 struct gp_diag *diag))
+{
+	struct tool_options options;
+	int status = tool_parse(argc, argv, &options, usage, wants_output);
+	if (status < 0) {
+		struct gp_diag *diag = gp_diag_create();
+		status = diag ? run(&options, diag) : EXIT_BAD_INPUT;
+		gp_diag_destroy(diag);
+	}
+	tool_options_finish(&options);
+	return status;
+}
+
 struct gp_design *tool_load(const struct tool_options *options,
 			    struct gp_diag *diag)
 {

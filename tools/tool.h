@@ -42,6 +42,11 @@ int tool_source_date_epoch(long long *epoch);
 /* Progress callback: prints stages on stderr when it is a terminal and
  * the run has lasted more than a second. */
 void tool_progress(const char *stage, void *data);
+/* The body of a command that reads one description: parses the common
+ * options, then calls run with a fresh diagnostics object. */
+int tool_main(int argc, char **argv, const char *usage, bool wants_output,
+	      int (*run)(const struct tool_options *options,
+			 struct gp_diag *diag));
 /* Loads the description with the overrides, printing errors. */
 struct gp_design *tool_load(const struct tool_options *options,
 			    struct gp_diag *diag);

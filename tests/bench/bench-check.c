@@ -1,6 +1,7 @@
 /* Benchmark of the checks: the 320 x 240-dot glass of bench-build (times
  * a scale factor) laid out, then every check run on its artwork.  Prints
  * the time of the checks alone and per pixel.  usage: bench-check [SCALE] */
+#include "bench-glass.h"
 #include "build.h"
 #include "check.h"
 #include "geos.h"
@@ -11,46 +12,11 @@
 #include <string.h>
 #include <time.h>
 
-static double now(void)
-{
-	struct timespec t;
-	clock_gettime(CLOCK_MONOTONIC, &t);
-	return (double)t.tv_sec + (double)t.tv_nsec / 1e9;
-}
-
-/* 5 x 8 dot cells, as bench-build; scale multiplies the pixel count. */
-static char *describe(double scale, long *pixels)
-{
-	long cells = lround(64 * sqrt(scale)), lines = lround(30 * sqrt(scale));
-	*pixels = cells * lines * 40;
-	double width = cells * 3.2 + 20, height = lines * 5.6 + 20;
-	char *text = malloc(2048);
-	if (!text)
-		return NULL;
-	snprintf(text, 2048,
-		 "glass: {part: BENCH-%ld}\n"
-		 "front: {size: [%.1f, %.1f]}\n"
-		 "back: {size: [%.1f, %.1f], position: [0, 5]}\n"
-		 "viewing_area: {position: [5, 10], size: [%.1f, %.1f]}\n"
-		 "blocks:\n"
-		 "  matrix:\n"
-		 "    origin: [10, %.1f]\n"
-		 "    cells: [%ld, %ld]\n"
-		 "    dots: [5, 8]\n"
-		 "    dot_size: [0.5, 0.55]\n"
-		 "    dot_pitch: [0.55, 0.6]\n"
-		 "    cell_pitch: 3.2\n"
-		 "    line_pitch: 5.6\n",
-		 *pixels, width, height + 5, width, height, width - 10,
-		 height - 10, height, cells, lines);
-	return text;
-}
-
 int main(int argc, char **argv)
 {
 	double scale = argc > 1 ? atof(argv[1]) : 1.0;
 	long pixels;
-	char *text = describe(scale, &pixels);
+	char *text = bench_describe(scale, true, &pixels);
 	struct gp_diag *diag = gp_diag_create();
 	struct gp_design *design = text ? gp_design_load_buffer(
 		"bench.yaml", text, strlen(text), NULL, 0, diag) : NULL;
@@ -67,9 +33,9 @@ int main(int argc, char **argv)
 		limits.plate[GP_PLATE_BACK] = design->back.box;
 		limits.viewing = design->viewing;
 		limits.row_time = 1.0 / (70.0 * 240); /* 1/240 duty, 70 Hz */
-		double start = now();
+		double start = bench_now();
 		ok = gp_check_run(geos, &build->art, &limits, &report, diag);
-		seconds = now() - start;
+		seconds = bench_now() - start;
 	}
 	for (size_t i = 0; i < gp_diag_count(diag); i++)
 		fprintf(stderr, "%s\n", gp_diag_message(diag, i));
