@@ -161,9 +161,7 @@ static bool make_items(struct ledge_ctx *c)
 		it->pos = it->side == GP_SIDE_BOTTOM || it->side == GP_SIDE_TOP
 				  ? at.x
 				  : at.y;
-		int64_t w = min64(r->g->leads.width, cd->width);
-		w = min64(w, c->l->pad_width);
-		it->width = max64(w, r->design->rules.min_line);
+		it->width = gp_route_lead_width(r, ns, cd);
 		it->pin = ns->pin;
 		switch (it->side) {
 		case GP_SIDE_BOTTOM: it->group = 2, it->key = it->pos; break;
