@@ -48,6 +48,8 @@ enum gp_maze_layer {
 	GP_MAZE_TARGET,
 	GP_MAZE_FRAGILE,  /* own or target ITO that notches may cut: a
 			   * lead ends end_depth inside it */
+	GP_MAZE_SHADOW,   /* where other leads will run: passable at a
+			   * high cost */
 	GP_MAZE_LAYERS
 };
 

@@ -89,6 +89,22 @@ static void mark(struct join *j, struct gp_maze *m, struct gp_box window)
 		/* marks, text and nothing of a net keep the space too */
 		gp_maze_mark_polygon(m, layer, &s->poly);
 	}
+	/* where the other nets will most likely lead out: straight from
+	 * their electrodes toward their ledges */
+	for (size_t i = 0; i < j->r->net_count; i++) {
+		const struct netstate *n = &j->r->nets[i];
+		if ((int)i == j->net || n->ledge < 0 || gp_box_is_empty(n->centre))
+			continue;
+		struct gp_box c = n->centre, in = j->r->s_in;
+		switch (j->r->g->ledges[n->ledge].side) {
+		case GP_SIDE_BOTTOM: c.y1 = c.y0, c.y0 = in.y0; break;
+		case GP_SIDE_TOP: c.y0 = c.y1, c.y1 = in.y1; break;
+		case GP_SIDE_LEFT: c.x1 = c.x0, c.x0 = in.x0; break;
+		default: c.x0 = c.x1, c.x1 = in.x1; break;
+		}
+		if (!gp_box_is_empty(c) && boxes_meet(c, window))
+			gp_maze_mark_box(m, GP_MAZE_SHADOW, c);
+	}
 	for (size_t k = 0; k < j->pieces.count; k++)
 		gp_maze_mark_polygon(m, j->joined[k] ? GP_MAZE_OWN
 						     : GP_MAZE_TARGET,
