@@ -36,6 +36,7 @@ struct gp_maze {
 	uint8_t *marks;     /* bit per layer */
 	uint8_t *flags;
 	uint8_t *flags2;
+	uint8_t used;       /* layers marked at all */
 };
 
 static size_t at(const struct gp_maze *m, int i, int j)
@@ -55,7 +56,7 @@ static int64_t cy(const struct gp_maze *m, int j)
 
 int64_t gp_maze_cell_for(struct gp_box window, int64_t fine)
 {
-	int64_t cell = fine / 4 > 1000 ? fine / 4 : 1000;
+	int64_t cell = fine / 3 > 1000 ? fine / 3 : 1000;
 	double area = (double)gp_box_width(window) * (double)gp_box_height(window);
 	while (area / ((double)cell * (double)cell) > (double)GP_MAZE_MAX_CELLS ||
 	       gp_box_width(window) / cell > 4000 ||
@@ -188,6 +189,7 @@ void gp_maze_mark_polygon(struct gp_maze *m, enum gp_maze_layer layer,
 	    b.y0 > w.y1)
 		return;
 	uint8_t bit = (uint8_t)(1u << layer);
+	m->used |= bit;
 	fill_rows(m, bit, p, b);
 	/* ends lie inside their ITO; obstacles are marked where they touch */
 	if (layer == GP_MAZE_OWN || layer == GP_MAZE_TARGET ||
@@ -249,6 +251,12 @@ static void dt1d(const float *f, int n, float *d, int *v, float *z)
 static bool transform(const struct gp_maze *m, uint8_t bit, bool invert,
 		      float *out)
 {
+	if (!invert && !(m->used & bit)) {
+		size_t n = (size_t)m->w * (size_t)m->h;
+		for (size_t k = 0; k < n; k++)
+			out[k] = FAR;
+		return true;
+	}
 	int n = m->w > m->h ? m->w : m->h;
 	float *f = calloc((size_t)n, sizeof(float));
 	float *d = calloc((size_t)n, sizeof(float));
@@ -293,6 +301,12 @@ static bool deep(struct gp_maze *m, const struct gp_maze_rules *r,
 {
 	size_t n = (size_t)m->w * (size_t)m->h;
 	uint8_t bit = (uint8_t)(1u << layer);
+	if (!(m->used & (1u << GP_MAZE_FRAGILE))) {
+		for (size_t k = 0; k < n; k++)
+			if (m->marks[k] & bit)
+				m->flags2[k] |= flag;
+		return true;
+	}
 	if (!transform(m, bit, true, d))
 		return false;
 	float most = 0;
@@ -343,6 +357,8 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 		m->flags[k] = fl;
 	}
 	/* patches: blocked but near the lead's own ITO */
+	if (!(m->used & (1u << GP_MAZE_PATCH)))
+		goto depth;
 	ok = transform(m, 1u << GP_MAZE_PATCH, false, other) &&
 	     transform(m, (1u << GP_MAZE_OWN) |
 				  (r->to_target ? 1u << GP_MAZE_TARGET : 0),
@@ -361,6 +377,7 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 		else
 			m->flags[k] |= F_SOFT;
 	}
+depth:
 	/* where a lead may start and end: deep enough inside its ITO that
 	 * notches (which never take a pixel) leave it attached */
 	ok = deep(m, r, GP_MAZE_OWN, F_DEEP_OWN, same) &&

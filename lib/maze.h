@@ -82,7 +82,7 @@ struct gp_maze;
 struct gp_maze *gp_maze_create(struct gp_box window, int64_t cell);
 void gp_maze_destroy(struct gp_maze *maze);
 /* The cell size a window of this size needs for leads `fine` apart at
- * the least: fine / 4, coarser when the window would be too large. */
+ * the least: fine / 3, coarser when the window would be too large. */
 int64_t gp_maze_cell_for(struct gp_box window, int64_t fine);
 
 void gp_maze_mark_polygon(struct gp_maze *maze, enum gp_maze_layer layer,

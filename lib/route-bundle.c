@@ -21,6 +21,7 @@
  * leads are spaced for their transfer pads.  What does not fit is an error
  * naming the leads, the place, the room needed and the room there is. */
 #include "route-private.h"
+#include "units.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -110,8 +111,8 @@ static bool in_bundle(const struct bundle *b, int net)
 	return false;
 }
 
-/* Height of the slices a slanted or curved obstacle is cut into: its
- * boxes follow its outline that closely. */
+/* Height of the slices a thin slanted obstacle is cut into: its boxes
+ * follow its outline that closely. */
 #define SLICE (250 * 1000)
 
 static bool rectilinear(const struct gp_polygon *p)
@@ -131,7 +132,12 @@ static bool add_polygon(struct bundle *b, const struct gp_polygon *p, int net,
 			bool patch, size_t *cap)
 {
 	struct gp_box bb = gp_polygon_bounds(p);
-	if (rectilinear(p) || gp_box_height(bb) <= SLICE)
+	/* compact shapes (icons, letters) stay whole, so that leads go
+	 * round them in one move; thin slanted ones (leads, buses) are
+	 * sliced */
+	double box = gp_mm(gp_box_width(bb)) * gp_mm(gp_box_height(bb));
+	if (rectilinear(p) || gp_box_height(bb) <= SLICE ||
+	    gp_polygon_area_mm2(p) > 0.25 * box)
 		return add_obstacle(b, bb, net, patch, cap);
 	const struct gp_ring *o = &p->outer;
 	for (int64_t ya = bb.y0; ya < bb.y1; ya += SLICE) {
@@ -445,14 +451,38 @@ static int dir_of(const struct blead *l)
 /* Diagonals in the band (y, top]: parallel ones staggered so that they
  * keep the spacing (centre lines x +- y = const at least sqrt(2) (w + s)
  * apart), each starting below its lead's start. */
-static bool move(struct bundle *b, int64_t y, int64_t top)
+/* How high above level v[i] a lead may start its move: up to where it
+ * last turned (or started), but not into a band with an obstacle
+ * (not its own) across its way. */
+static int64_t move_top(const struct bundle *b, const struct blead *l,
+			const int64_t *v, size_t i)
 {
+	int64_t cap = l->start.y - l->w;
+	if (l->n)
+		cap = min64(cap, l->pts[l->n - 1].y);
+	int64_t x0 = min64(l->x, l->p), x1 = max64(l->x, l->p);
+	int64_t top = v[i];
+	for (size_t j = i; j-- > 0;) {
+		int64_t lo = v[j + 1], hi = min64(v[j], cap);
+		if (lo >= cap)
+			break;
+		for (size_t k = 0; k < b->obs_count; k++) {
+			const struct bobst *o = &b->obs[k];
+			if (active(o, lo, hi) && o->b.x1 > x0 && o->b.x0 < x1 &&
+			    !exempt(l, o))
+				return top;
+		}
+		top = hi;
+	}
+	return max64(top, v[i]);
+}
+
+static bool move(struct bundle *b, const int64_t *v, size_t i)
+{
+	int64_t y = v[i];
 	for (size_t k = 0; k < b->active; k++) {
 		struct blead *l = &b->leads[b->order[k]];
-		int64_t cap = min64(top, l->start.y - l->w);
-		if (l->n)
-			cap = min64(cap, l->pts[l->n - 1].y);
-		l->ytop = cap;
+		l->ytop = l->p == l->x ? v[i] : move_top(b, l, v, i);
 	}
 	for (size_t k = b->active; k-- > 1;) {
 		struct blead *a = &b->leads[b->order[k - 1]];
@@ -534,7 +564,7 @@ static bool sweep(struct bundle *b)
 		/* positions for the band below y, moved into in the band
 		 * above it (which the leads started so far have crossed) */
 		ok = place(b, y, below, i ? v[i - 1] : y, final) &&
-		     move(b, y, i ? v[i - 1] : y);
+		     move(b, v, i);
 		start_at(b, y);
 		above = y;
 	}

@@ -992,6 +992,61 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
  * plate shift can bring them together (registration x sqrt 2), except
  * under the patch's own front shapes, which stay covered.  A patch may not
  * fall apart. */
+/* The part of a lead over its own pixel's patch but off the pixel: it
+ * lights with the pixel, so it joins the pixel's nominal region. */
+static bool add_spur(struct gp_geos *geos, struct gp_pixel *px,
+		     const struct gp_polyset *lead, const struct gp_polygon *patch,
+		     const struct gp_polyset *region)
+{
+	struct gp_polyset back, over, spur, all, merged;
+	gp_polyset_init(&back);
+	gp_polyset_init(&over);
+	gp_polyset_init(&spur);
+	gp_polyset_init(&all);
+	gp_polyset_init(&merged);
+	struct gp_polygon p;
+	bool ok = gp_polygon_copy(&p, patch) && gp_polyset_take(&back, &p) &&
+		  gp_geos_intersection(geos, lead, &back, &over) &&
+		  gp_geos_difference(geos, &over, region, &spur);
+	double area = 0;
+	for (size_t k = 0; k < spur.count; k++)
+		area += gp_polygon_area_mm2(&spur.items[k]);
+	if (!ok || area < 1e-9)
+		goto out;
+	/* the region's parts united again, so that they neither overlap
+	 * nor touch */
+	ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
+				   : gp_polygon_set_box(&p, px->box);
+	ok = ok && gp_polyset_take(&all, &p);
+	for (size_t k = 0; ok && k < px->more.count; k++)
+		ok = gp_polygon_copy(&p, &px->more.items[k]) &&
+		     gp_polyset_take(&all, &p);
+	for (size_t k = 0; ok && k < spur.count; k++)
+		ok = gp_polygon_copy(&p, &spur.items[k]) &&
+		     gp_polyset_take(&all, &p);
+	ok = ok && gp_geos_union_set(geos, &all, &merged) && merged.count;
+	if (ok) {
+		gp_polygon_finish(&px->shape);
+		px->shape = merged.items[0];
+		gp_polygon_init(&merged.items[0]);
+		gp_polyset_finish(&px->more);
+		gp_polyset_init(&px->more);
+		struct gp_box box = gp_polygon_bounds(&px->shape);
+		for (size_t k = 1; ok && k < merged.count; k++) {
+			box = gp_box_union(box, gp_polygon_bounds(&merged.items[k]));
+			ok = gp_polyset_take(&px->more, &merged.items[k]);
+		}
+		px->box = box;
+	}
+out:
+	gp_polyset_finish(&back);
+	gp_polyset_finish(&over);
+	gp_polyset_finish(&spur);
+	gp_polyset_finish(&all);
+	gp_polyset_finish(&merged);
+	return ok;
+}
+
 bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 		    const struct gp_polygon *lead, int lead_net)
 {
@@ -1011,14 +1066,33 @@ bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 	gp_polygon_init(&p);
 	bool ok = gp_polygon_copy(&p, lead) && gp_polyset_take(&lead_set, &p) &&
 		  gp_geos_dilate_box(geos, &lead_set, clear, clear, &cut);
+	/* the patch's pixels stay; so does their margin where the lead is
+	 * one of theirs leaving them (the first margin of it then lights
+	 * with the pixel, a spur no wider than the lead) */
+	struct gp_polyset root, ring;
+	gp_polyset_init(&root);
+	gp_polyset_init(&ring);
+	struct gp_pixel *mine = NULL;
 	for (size_t i = 0; ok && i < art->pixel_count; i++) {
-		const struct gp_pixel *px = &art->pixels[i];
+		struct gp_pixel *px = &art->pixels[i];
 		if (px->common != net && px->segment != net)
 			continue;
+		bool own = px->common == lead_net || px->segment == lead_net;
+		if (own && !mine)
+			mine = px;
 		ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
 					   : gp_polygon_set_box(&p, px->box);
-		ok = ok && gp_polyset_take(&keep, &p);
+		ok = ok && gp_polyset_take(own ? &root : &keep, &p);
+		for (size_t k = 0; ok && k < px->more.count; k++)
+			ok = gp_polygon_copy(&p, &px->more.items[k]) &&
+			     gp_polyset_take(own ? &root : &keep, &p);
 	}
+	int64_t m = r->design->rules.registration;
+	ok = ok && (root.count == 0 ||
+		    gp_geos_dilate_box(geos, &root, m, m, &ring));
+	for (size_t k = 0; ok && k < ring.count; k++)
+		ok = gp_polygon_copy(&p, &ring.items[k]) &&
+		     gp_polyset_take(&keep, &p);
 	/* near the patch's own leads and buses the patch stays, so that
 	 * they stay attached; never under the lead itself */
 	struct gp_polyset own, own_near, soft, both;
@@ -1069,6 +1143,9 @@ bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 		gp_polygon_finish(&art->shapes[shape].poly);
 		art->shapes[shape].poly = left.items[0];
 		gp_polygon_init(&left.items[0]);
+		if (mine)
+			ok = add_spur(geos, mine, &lead_set,
+				      &art->shapes[shape].poly, &root);
 	} else if (ok) {
 		char x[32], y[32];
 		struct gp_box b = gp_polygon_bounds(lead);
@@ -1082,6 +1159,8 @@ bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 				   mm(x, b.x0), mm(y, b.y0));
 	}
 	gp_polygon_finish(&p);
+	gp_polyset_finish(&root);
+	gp_polyset_finish(&ring);
 	gp_polyset_finish(&lead_set);
 	gp_polyset_finish(&cut);
 	gp_polyset_finish(&keep);
@@ -1389,6 +1468,10 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		bool retry = !ok && culprit >= 0 && !scratch.lost &&
 			     r->nets[culprit].bend[r->nets[culprit].chosen] &&
 			     attempt < r->net_count;
+		if (getenv("GP_BUNDLE_DEBUG"))
+			for (size_t q = 0; q < scratch.count; q++)
+				fprintf(stderr, "attempt %zu: %s\n", attempt,
+					scratch.entries[q].message);
 		if (!retry)
 			forward(diag, &scratch);
 		gp_diag_finish(&scratch);
