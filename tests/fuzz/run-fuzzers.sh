@@ -21,6 +21,7 @@ for harness in load build; do
 		-report_slow_units=1000 -max_len=65536 -print_final_stats=1 \
 		-artifact_prefix="$work/$harness/findings/" \
 		"$work/$harness/new" "$root/tests/fuzz/corpus-$harness" \
+		"$root/tests/fuzz/regressions" \
 		"$root/samples" "$root/tests/errors" \
 		>"$work/$harness/log" 2>&1
 	rc=$?
@@ -32,7 +33,7 @@ for harness in load build; do
 		tail -n 60 "$work/$harness/log"
 		for f in "$work/$harness/findings"/*; do
 			[ -e "$f" ] || continue
-			echo "finding $(basename "$f") (base64, add it to tests/fuzz/corpus-$harness/):"
+			echo "finding $(basename "$f") (base64; fix it, then add it to tests/fuzz/regressions/):"
 			base64 "$f"
 		done
 	fi
