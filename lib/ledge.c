@@ -12,8 +12,8 @@
 
 /* Outline of a path of straight segments of width w with mitred corners
  * (corners here are 45 or 90 degrees, so mitres stay short). */
-static bool path_polygon(const struct gp_point *p, size_t n, int64_t w,
-			 struct gp_polygon *poly)
+bool gp_route_path_polygon(const struct gp_point *p, size_t n, int64_t w,
+			   struct gp_polygon *poly)
 {
 	double h = (double)w / 2;
 	double *nx = malloc(n * sizeof(double)), *ny = malloc(n * sizeof(double));
@@ -56,7 +56,7 @@ static bool add_path(struct route *r, enum gp_plate plate, int net,
 {
 	struct gp_polygon poly;
 	gp_polygon_init(&poly);
-	bool ok = n >= 2 && path_polygon(p, n, w, &poly) &&
+	bool ok = n >= 2 && gp_route_path_polygon(p, n, w, &poly) &&
 		  gp_artwork_add_shape(&r->build->art, gp_plate_ito_layer(plate),
 				       GP_ROLE_LEAD, net, &poly);
 	gp_polygon_finish(&poly);
@@ -161,9 +161,7 @@ static bool make_items(struct ledge_ctx *c)
 		it->pos = it->side == GP_SIDE_BOTTOM || it->side == GP_SIDE_TOP
 				  ? at.x
 				  : at.y;
-		int64_t w = min64(r->g->leads.width, cd->width);
-		w = min64(w, c->l->pad_width);
-		it->width = max64(w, r->design->rules.min_line);
+		it->width = gp_route_lead_width(r, ns, cd);
 		it->pin = ns->pin;
 		switch (it->side) {
 		case GP_SIDE_BOTTOM: it->group = 2, it->key = it->pos; break;

@@ -71,6 +71,9 @@ struct cand {
 	enum gp_side side;
 	struct gp_point at;
 	int64_t width;
+	/* how far the lead reaches back into its electrode past at: into a
+	 * back patch, deep enough that no notch cuts it off */
+	int64_t reach;
 };
 
 struct netstate {
@@ -88,7 +91,17 @@ struct netstate {
 	struct gp_box corridor;   /* electrode plate, real frame */
 	struct gp_box centre;     /* bounds of the net's electrodes */
 	int64_t ext;              /* narrow lead starts this far past the seal */
+	bool bend[16];            /* cands whose way to the seal is not
+				   * straight but can go round (route-bundle.c) */
+	bool bundle;              /* leaves toward its ledge (route-bundle.c) */
+	bool no_bend;             /* going round failed: leave straight */
+	bool decided;             /* corridor (and path) final */
+	struct gp_point *path;    /* a bundle lead inside the seal, to c->at */
+	size_t path_count;
+	int64_t path_width;
+	struct gp_polygon path_poly;  /* its outline */
 	bool block_common;
+	bool patch;               /* has back patches */
 	int block_row;            /* row within its block, for the split */
 	int block_rows;
 };
@@ -126,6 +139,31 @@ static inline int64_t box_edge(struct gp_box b, enum gp_side s)
 	default: return b.x1;
 	}
 }
+
+/* ledge.c: the outline of a path of straight and 45-degree segments of
+ * width w (mitred corners), appended to poly's outer ring. */
+bool gp_route_path_polygon(const struct gp_point *p, size_t n, int64_t w,
+			   struct gp_polygon *poly);
+/* route.c: cuts a back patch (shape index) back from a lead of another
+ * net by what a plate shift can bring them together; the patch must stay
+ * one piece. */
+bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
+		    const struct gp_polygon *lead, int lead_net);
+/* route-join.c: joins the pieces of every net that is in several on its
+ * plate, inside the seal. */
+bool gp_route_join(struct route *r, struct gp_geos *geos);
+
+/* route.c: the straight lead from c towards its side, across the seal
+ * and ext beyond it; and the width a lead from c has outside the
+ * electrode. */
+struct gp_box gp_route_corridor(const struct route *r, const struct cand *c,
+				int64_t ext);
+int64_t gp_route_lead_width(const struct route *r, const struct netstate *n,
+			    const struct cand *c);
+/* route-bundle.c: the leads toward ledge index that leave toward it,
+ * round what is in their way; sets their paths and the cands where they
+ * cross the seal. */
+bool gp_route_bundle(struct route *r, int index, int *culprit);
 
 /* ledge.c: nets onto ledges and pads (explicit map or automatic). */
 bool gp_route_assign_nets(struct route *r);

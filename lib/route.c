@@ -142,7 +142,7 @@ static void add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
 	if (n->cand_count < 16)
-		n->cands[n->cand_count++] = (struct cand){ side, at, width };
+		n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
 }
 
 /* Ends of block strips come from the strips themselves. */
@@ -209,8 +209,18 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 		if (s->net != net || s->layer != layer)
 			continue;
 		const struct gp_ring *o = &s->poly.outer;
-		for (size_t k = 0; k < o->count; k++) {
-			struct gp_point p = o->points[k];
+		/* middles of flat edges first: of equally outermost points
+		 * the first is kept, and a lead from the middle of a flat
+		 * side has room on both hands */
+		for (size_t k = 0; k < 2 * o->count; k++) {
+			struct gp_point p = o->points[k % o->count];
+			if (k < o->count) {
+				struct gp_point q = o->points[(k + 1) % o->count];
+				if (p.x != q.x && p.y != q.y)
+					continue;
+				p = (struct gp_point){ p.x + (q.x - p.x) / 2,
+						       p.y + (q.y - p.y) / 2 };
+			}
 			for (int d = 0; d < GP_SIDE_COUNT; d++) {
 				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
 				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
@@ -255,7 +265,70 @@ static bool has_port(const struct route *r, int net)
 	return false;
 }
 
-static bool collect_cands(struct route *r)
+/* Point in polygon (even-odd over all rings; on the edge counts as
+ * either). */
+static bool point_in(const struct gp_polygon *p, struct gp_point q)
+{
+	bool in = false;
+	for (size_t r = 0; r <= p->hole_count; r++) {
+		const struct gp_ring *ring = r ? &p->holes[r - 1] : &p->outer;
+		for (size_t k = 0, j = ring->count - 1; k < ring->count; j = k++) {
+			struct gp_point a = ring->points[k], b = ring->points[j];
+			if ((a.y > q.y) != (b.y > q.y) &&
+			    (double)q.x < (double)(b.x - a.x) * (double)(q.y - a.y) /
+						  (double)(b.y - a.y) +
+					  (double)a.x)
+				in = !in;
+		}
+	}
+	return in;
+}
+
+/* A lead that starts in a back patch reaches on into it, past the margin
+ * that notches round other nets' front leads may take, when the patch is
+ * there to take it. */
+static void set_reach(struct route *r, int net, struct cand *c)
+{
+	const struct gp_artwork *art = &r->build->art;
+	int64_t want = r->design->rules.registration + r->g->leads.width;
+	struct gp_point far = c->at;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: far.y += want; break;
+	case GP_SIDE_TOP: far.y -= want; break;
+	case GP_SIDE_LEFT: far.x += want; break;
+	default: far.x -= want; break;
+	}
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->role != GP_ROLE_PATCH)
+			continue;
+		if (point_in(&s->poly, c->at) && point_in(&s->poly, far)) {
+			c->reach = want;
+			return;
+		}
+	}
+}
+
+static void set_reaches(struct route *r)
+{
+	const struct gp_artwork *art = &r->build->art;
+	bool *has = calloc(r->net_count + 1, sizeof(*has));
+	if (!has)
+		return;   /* only a refinement */
+	for (size_t i = 0; i < art->shape_count; i++)
+		if (art->shapes[i].role == GP_ROLE_PATCH && art->shapes[i].net >= 0 &&
+		    (size_t)art->shapes[i].net < r->net_count)
+			has[art->shapes[i].net] = true;
+	for (size_t i = 0; i < r->net_count; i++) {
+		r->nets[i].patch = has[i];
+		for (int k = 0; has[i] && k < r->nets[i].cand_count; k++)
+			set_reach(r, (int)i, &r->nets[i].cands[k]);
+	}
+	free(has);
+}
+
+/* Bounds of each net's electrodes as laid out (before any joining bus). */
+static void net_centres(struct route *r)
 {
 	const struct gp_artwork *art = &r->build->art;
 	for (size_t i = 0; i < r->net_count; i++)
@@ -268,6 +341,10 @@ static bool collect_cands(struct route *r)
 		r->nets[s->net].centre = gp_box_union(
 			r->nets[s->net].centre, gp_polygon_bounds(&s->poly));
 	}
+}
+
+static bool collect_cands(struct route *r)
+{
 	for (size_t i = 0; i < r->build->end_count; i++) {
 		const struct gp_lead_end *e = &r->build->ends[i];
 		if (e->net >= 0 && (size_t)e->net < r->net_count)
@@ -294,6 +371,7 @@ static bool collect_cands(struct route *r)
 		    !has_port(r, (int)i))
 			shape_cands(r, (int)i, &r->nets[i]);
 	}
+	set_reaches(r);
 	return true;
 }
 
@@ -319,6 +397,39 @@ static struct gp_box corridor_box(const struct route *r, const struct cand *c,
 	default:
 		return gp_box_make(c->at.x, c->at.y - h0, o.x1 + ext,
 				   c->at.y + h1);
+	}
+}
+
+struct gp_box gp_route_corridor(const struct route *r, const struct cand *c,
+				int64_t ext)
+{
+	return corridor_box(r, c, ext);
+}
+
+int64_t gp_route_lead_width(const struct route *r, const struct netstate *n,
+			    const struct cand *c)
+{
+	int64_t w = min64(r->g->leads.width, c->width);
+	w = min64(w, r->g->ledges[n->ledge].pad_width);
+	return max64(w, r->design->rules.min_line);
+}
+
+/* The first stretch of a lead from c, length long, as wide as the lead. */
+static struct gp_box stub_box(const struct route *r, const struct netstate *n,
+			      const struct cand *c, int64_t length)
+{
+	int64_t w = gp_route_lead_width(r, n, c);
+	int64_t h0 = w / 2, h1 = w - w / 2;
+	struct gp_point a = c->at;
+	switch (c->side) {
+	case GP_SIDE_BOTTOM:
+		return gp_box_make(a.x - h0, a.y - length, a.x + h1, a.y + c->reach);
+	case GP_SIDE_TOP:
+		return gp_box_make(a.x - h0, a.y - c->reach, a.x + h1, a.y + length);
+	case GP_SIDE_LEFT:
+		return gp_box_make(a.x - length, a.y - h0, a.x + c->reach, a.y + h1);
+	default:
+		return gp_box_make(a.x - c->reach, a.y - h0, a.x + length, a.y + h1);
 	}
 }
 
@@ -356,6 +467,8 @@ struct blocker {
 	struct gp_box box;
 	int hit;                  /* net that blocks, or -1 */
 	bool plate_hit;           /* on the other plate */
+	bool all;                 /* find every blocker, not the first */
+	struct gp_box hits;       /* bounds of the blockers found */
 };
 
 static bool shape_overlaps(struct blocker *k, const struct gp_shape *s,
@@ -384,12 +497,25 @@ static bool shape_nearer(struct blocker *k, const struct gp_shape *s,
 	return d < (double)gap;
 }
 
+static void hit_test(struct blocker *k, const struct gp_shape *s);
+
 static void visit_blocker(void *user, size_t item)
 {
 	struct blocker *k = user;
 	const struct gp_shape *s = &k->r->build->art.shapes[item];
-	if (k->hit >= 0 || s->net == k->net || s->net < 0)
+	if ((k->hit >= 0 && !k->all) || s->net == k->net || s->net < 0)
 		return;
+	int was = k->hit;
+	k->hit = -1;
+	hit_test(k, s);
+	if (k->hit >= 0)
+		k->hits = gp_box_union(k->hits, gp_polygon_bounds(&s->poly));
+	else
+		k->hit = was;
+}
+
+static void hit_test(struct blocker *k, const struct gp_shape *s)
+{
 	enum gp_plate plate = s->layer == GP_LAYER_FRONT_ITO ? GP_PLATE_FRONT
 							     : GP_PLATE_BACK;
 	struct gp_box b = gp_polygon_bounds(&s->poly);
@@ -452,8 +578,61 @@ static int64_t transfer_zone(const struct route *r)
 	return t->count * (t->size + t->margin) + t->margin;
 }
 
+static int64_t stub_length(const struct route *r, const struct netstate *n,
+			   const struct cand *c);
+
+/* Checks one end: the box of its way out, against what is there. */
+static bool blocked(struct route *r, struct gp_geos_index *index,
+		    struct blocker *k, struct gp_box box)
+{
+	k->box = box;
+	k->hit = -1;
+	k->hits = gp_box_none();
+	struct gp_box q = box;
+	q.x0 -= r->min_space, q.y0 -= r->min_space;
+	q.x1 += r->min_space, q.y1 += r->min_space;
+	return gp_geos_index_query(index, q, visit_blocker, k);
+}
+
+/* A lead toward the ledge whose straight way is blocked further on goes
+ * round (route-bundle.c) when that is a short way aside compared with the
+ * room above the blockers: the nearer end of what blocks it (grown by
+ * what touches it) no further aside than half the way down to it. */
+static bool worth_bending(const struct route *r, const struct netstate *n,
+			  const struct cand *c, struct gp_box hits)
+{
+	const struct gp_artwork *art = &r->build->art;
+	enum gp_side side = r->g->ledges[n->ledge].side;
+	struct gp_box h = box_map(hits, side, true);
+	int64_t g = r->space + r->g->leads.width;
+	for (int round = 0; round < 8; round++) {
+		bool grew = false;
+		for (size_t i = 0; i < art->shape_count; i++) {
+			const struct gp_shape *s = &art->shapes[i];
+			if ((s->layer != GP_LAYER_FRONT_ITO &&
+			     s->layer != GP_LAYER_BACK_ITO) || s->net < 0)
+				continue;
+			struct gp_box b = box_map(gp_polygon_bounds(&s->poly),
+						  side, true);
+			if (b.y1 < h.y0 || b.y0 > h.y1 || b.x1 < h.x0 - g ||
+			    b.x0 > h.x1 + g ||
+			    (b.x0 >= h.x0 && b.x1 <= h.x1))
+				continue;
+			h = gp_box_union(h, b);
+			grew = true;
+		}
+		if (!grew)
+			break;
+	}
+	struct gp_point at = to_canon(side, c->at);
+	int64_t aside = min64(at.x - h.x0, h.x1 - at.x) + g;
+	return aside <= (at.y - h.y1) / 2;
+}
+
 /* Candidates of a net ranked, each either free of the shapes already
- * there or not; n->order[0..n->usable) are the free ones, best first. */
+ * there or not; n->order[0..n->usable) are the free ones, best first:
+ * by rank, a straight way before one that goes round, and of equal
+ * ones an end that reaches into its patch (see set_reach) first. */
 static bool rank_ends(struct route *r, struct gp_geos_index *index,
 		      struct gp_geos *geos, int net)
 {
@@ -462,40 +641,65 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 	enum gp_plate plate = r->build->art.nets[net].plate;
 	n->transfer = plate != l->plate;
 	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
-	int order[16] = { 0 };
-	for (int k = 0; k < n->cand_count; k++)
-		order[k] = k;
-	for (int k = 1; k < n->cand_count; k++)
-		for (int j = k; j > 0 && cand_rank(r, n, &n->cands[order[j]]) <
-						 cand_rank(r, n, &n->cands[order[j - 1]]);
-		     j--) {
+	struct blocker k = { .r = r, .geos = geos, .net = net, .plate = plate };
+	int key[16], order[16];
+	n->first_hit = -1;
+	int first_bad = -1, bad_key = 0;
+	for (int c = 0; c < n->cand_count; c++) {
+		const struct cand *cd = &n->cands[c];
+		bool down = side_to_canon(l->side, cd->side) == GP_SIDE_BOTTOM;
+		struct cand narrow = *cd;
+		if (down)
+			narrow.width = gp_route_lead_width(r, n, cd);
+		k.all = down;
+		if (!blocked(r, index, &k, corridor_box(r, &narrow, n->ext)))
+			return false;
+		int rank = cand_rank(r, n, cd);
+		int extra = n->patch && cd->reach == 0;
+		n->bend[c] = false;
+		key[c] = 4 * rank + extra;
+		if (k.hit < 0)
+			continue;
+		struct gp_box hits = k.hits;
+		int hit = k.hit;
+		bool plate_hit = k.plate_hit;
+		k.all = false;
+		if (down && !blocked(r, index, &k,
+				     stub_box(r, n, cd, stub_length(r, n, cd))))
+			return false;
+		if (down && k.hit < 0 && !n->no_bend) {
+			n->bend[c] = true;
+			key[c] = worth_bending(r, n, cd, hits) ? 4 * rank + 2 + extra
+							       : 4 * 5 + 2 + extra;
+			continue;
+		}
+		if (first_bad < 0 || key[c] < bad_key) {
+			n->first_hit = hit, n->first_hit_plate = plate_hit;
+			first_bad = c;
+			bad_key = key[c];
+		}
+		key[c] = -1;
+	}
+	int m = 0;
+	for (int c = 0; c < n->cand_count; c++)
+		if (key[c] >= 0)
+			order[m++] = c;
+	for (int a = 1; a < m; a++)
+		for (int j = a; j > 0 && key[order[j]] < key[order[j - 1]]; j--) {
 			int t = order[j];
 			order[j] = order[j - 1];
 			order[j - 1] = t;
 		}
-	struct blocker k = { .r = r, .geos = geos, .net = net, .plate = plate };
-	n->usable = 0;
-	n->first_hit = -1;
-	for (int c = 0; c < n->cand_count; c++) {
-		k.box = corridor_box(r, &n->cands[order[c]], n->ext);
-		k.hit = -1;
-		struct gp_box q = k.box;
-		q.x0 -= r->min_space, q.y0 -= r->min_space;
-		q.x1 += r->min_space, q.y1 += r->min_space;
-		if (!gp_geos_index_query(index, q, visit_blocker, &k))
-			return false;
-		if (k.hit < 0)
-			n->order[n->usable++] = order[c];
-		else if (n->first_hit < 0)
-			n->first_hit = k.hit, n->first_hit_plate = k.plate_hit;
-	}
+	n->usable = m;
+	for (int c = 0; c < m; c++)
+		n->order[c] = order[c];
 	if (n->cand_count == 0)
 		return gp_diag_error(r->diag, NULL,
 				     "%s: net %s has no place to lead it out",
 				     r->design->spec->file, net_name(r, net));
 	if (n->usable == 0) {
 		char x[32], y[32];
-		const struct cand *c = &n->cands[order[0]];
+		const struct cand *c = &n->cands[first_bad];
 		return gp_diag_error(
 			r->diag, NULL,
 			"%s: the lead-out of %s from (%s, %s) mm towards the %s "
@@ -519,13 +723,33 @@ struct footprint {
 	bool corridor;            /* inside the seal: other plate must not
 				   * overlap it */
 	bool wide;                /* electrode-like: min_space applies */
+	/* 0: a straight lead; 1: where a lead toward the ledge starts;
+	 * 2: the straight way of such a lead, which it may leave to go round
+	 * other leads toward the ledge but not a straight lead crossing it */
+	int kind;
 };
 
 static void set_choice(struct route *r, int net)
 {
 	struct netstate *n = &r->nets[net];
 	n->chosen = n->order[n->pick];
-	n->corridor = corridor_box(r, &n->cands[n->chosen], n->ext);
+	const struct cand *c = &n->cands[n->chosen];
+	n->corridor = corridor_box(r, c, n->ext);
+	switch (c->side) {
+	case GP_SIDE_BOTTOM: n->corridor.y1 += c->reach; break;
+	case GP_SIDE_TOP: n->corridor.y0 -= c->reach; break;
+	case GP_SIDE_LEFT: n->corridor.x1 += c->reach; break;
+	default: n->corridor.x0 -= c->reach; break;
+	}
+	n->bundle = side_to_canon(r->g->ledges[n->ledge].side, c->side) ==
+		    GP_SIDE_BOTTOM;
+}
+
+static int64_t stub_length(const struct route *r, const struct netstate *n,
+			   const struct cand *c)
+{
+	return max64(r->min_space, r->design->rules.registration) +
+	       2 * gp_route_lead_width(r, n, c);
 }
 
 static size_t footprints(const struct route *r, int net, struct footprint *f)
@@ -534,8 +758,21 @@ static size_t footprints(const struct route *r, int net, struct footprint *f)
 	const struct gp_ledge *l = &r->g->ledges[n->ledge];
 	const struct cand *c = &n->cands[n->chosen];
 	size_t count = 0;
+	if (n->bundle) {
+		/* where it starts; route-bundle.c spaces the rest */
+		enum gp_plate plate = r->build->art.nets[net].plate;
+		struct cand narrow = *c;
+		narrow.width = gp_route_lead_width(r, n, c);
+		f[count++] = (struct footprint){
+			net, plate, stub_box(r, n, c, stub_length(r, n, c)),
+			true, true, 1 };
+		f[count++] = (struct footprint){
+			net, plate, corridor_box(r, &narrow, n->ext), true, true,
+			2 };
+		return count;
+	}
 	f[count++] = (struct footprint){ net, r->build->art.nets[net].plate,
-					 n->corridor, true, true };
+					 n->corridor, true, true, 0 };
 	/* narrow lead just outside the seal, with its own space around */
 	int64_t w = min64(r->g->leads.width, c->width);
 	int64_t reach = n->ext + r->space + w;
@@ -549,27 +786,42 @@ static size_t footprints(const struct route *r, int net, struct footprint *f)
 	case GP_SIDE_LEFT: box = gp_box_make(o.x0 - reach, box.y0, o.x0, box.y1); break;
 	default: box = gp_box_make(o.x1, box.y0, o.x1 + reach, box.y1); break;
 	}
-	f[count++] = (struct footprint){ net, l->plate, box, false, false };
+	f[count++] = (struct footprint){ net, l->plate, box, false, false, 0 };
 	if (n->transfer) {
 		struct cand pad = *c;
 		pad.width = r->g->transfers.size + 2 * r->g->transfers.margin;
 		f[count++] = (struct footprint){ net, l->plate,
 						 corridor_box(r, &pad, n->ext),
-						 false, true };
+						 false, true, 0 };
 	}
 	return count;
 }
 
 /* Two footprints clash: same plate and nearer than the space that
  * applies, or other plates and overlapping inside the seal. */
+/* What a plate shift within the registration can bring together: the
+ * diagonal of the registration box. */
+static int64_t shift_reach(const struct route *r)
+{
+	return (int64_t)ceil((double)r->design->rules.registration * SQRT2) +
+	       r->design->rules.chord_tolerance;
+}
+
 static bool clash(const struct route *r, const struct footprint *a,
 		  const struct footprint *b)
 {
-	if (a->net == b->net)
+	if (a->net == b->net || (a->kind == 2 && b->kind) ||
+	    (b->kind == 2 && a->kind))
 		return false;
 	if (a->plate == b->plate) {
 		int64_t gap = a->wide && b->wide ? r->min_space : r->space;
 		return box_gap2(a->box, b->box) < (double)gap * (double)gap;
+	}
+	if (a->kind == 1 && b->kind == 1) {
+		/* two leads toward the ledge where they start: apart by
+		 * what a plate shift can bring together */
+		double g = (double)shift_reach(r);
+		return box_gap2(a->box, b->box) < g * g;
 	}
 	if (!a->corridor || !b->corridor || !boxes_overlap(a->box, b->box))
 		return false;
@@ -595,7 +847,7 @@ static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
 			count += footprints(r, (int)i, f + count);
 	for (size_t i = 0; ok && i < count; i++)
 		boxes[i] = f[i].box;
-	int64_t gap = max64(r->space, r->min_space);
+	int64_t gap = max64(max64(r->space, r->min_space), shift_reach(r));
 	ok = ok && gp_geos_box_pairs(geos, boxes, count, gap, &pairs,
 				     &pair_count);
 	*na = *nb = -1;
@@ -622,8 +874,11 @@ static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
 static int pick_mover(const struct route *r, int a, int b)
 {
 	const struct netstate *na = &r->nets[a], *nb = &r->nets[b];
-	int ra = cand_rank(r, na, &na->cands[na->chosen]);
-	int rb = cand_rank(r, nb, &nb->cands[nb->chosen]);
+	/* a lead that must go round things gives way before a straight one */
+	int ra = cand_rank(r, na, &na->cands[na->chosen]) +
+		 3 * na->bend[na->chosen];
+	int rb = cand_rank(r, nb, &nb->cands[nb->chosen]) +
+		 3 * nb->bend[nb->chosen];
 	int left_a = na->usable - na->pick - 1, left_b = nb->usable - nb->pick - 1;
 	if (ra == rb && left_a > 0 && left_a > left_b)
 		return a;
@@ -687,15 +942,16 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
  * plate shift can bring them together (registration x sqrt 2), except
  * under the patch's own front shapes, which stay covered.  A patch may not
  * fall apart. */
-static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
-		      struct gp_box corridor, int lead_net)
+bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
+		    const struct gp_polygon *lead, int lead_net)
 {
 	struct gp_artwork *art = &r->build->art;
 	int net = art->shapes[shape].net;
 	int64_t clear = (int64_t)ceil((double)r->design->rules.registration *
 				      SQRT2) +
 			r->design->rules.chord_tolerance;
-	struct gp_polyset cut, keep, notch, patch, left;
+	struct gp_polyset lead_set, cut, keep, notch, patch, left;
+	gp_polyset_init(&lead_set);
 	gp_polyset_init(&cut);
 	gp_polyset_init(&keep);
 	gp_polyset_init(&notch);
@@ -703,9 +959,8 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 	gp_polyset_init(&left);
 	struct gp_polygon p;
 	gp_polygon_init(&p);
-	struct gp_box grown = gp_box_make(corridor.x0 - clear, corridor.y0 - clear,
-					  corridor.x1 + clear, corridor.y1 + clear);
-	bool ok = gp_polygon_set_box(&p, grown) && gp_polyset_take(&cut, &p);
+	bool ok = gp_polygon_copy(&p, lead) && gp_polyset_take(&lead_set, &p) &&
+		  gp_geos_dilate_box(geos, &lead_set, clear, clear, &cut);
 	for (size_t i = 0; ok && i < art->pixel_count; i++) {
 		const struct gp_pixel *px = &art->pixels[i];
 		if (px->common != net && px->segment != net)
@@ -724,6 +979,7 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 		gp_polygon_init(&left.items[0]);
 	} else if (ok) {
 		char x[32], y[32];
+		struct gp_box b = gp_polygon_bounds(lead);
 		ok = gp_diag_error(r->diag, NULL,
 				   "%s: the lead-out of %s would cut the back "
 				   "patch of %s in %s near (%s, %s) mm; move "
@@ -731,14 +987,26 @@ static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
 				   r->design->spec->file, net_name(r, lead_net),
 				   net_name(r, net),
 				   left.count ? "pieces" : "nothing",
-				   mm(x, corridor.x0), mm(y, corridor.y0));
+				   mm(x, b.x0), mm(y, b.y0));
 	}
 	gp_polygon_finish(&p);
+	gp_polyset_finish(&lead_set);
 	gp_polyset_finish(&cut);
 	gp_polyset_finish(&keep);
 	gp_polyset_finish(&notch);
 	gp_polyset_finish(&patch);
 	gp_polyset_finish(&left);
+	return ok;
+}
+
+static bool notch_one(struct route *r, struct gp_geos *geos, size_t shape,
+		      struct gp_box corridor, int lead_net)
+{
+	struct gp_polygon p;
+	gp_polygon_init(&p);
+	bool ok = gp_polygon_set_box(&p, corridor) &&
+		  gp_route_notch(r, geos, shape, &p, lead_net);
+	gp_polygon_finish(&p);
 	return ok;
 }
 
@@ -764,7 +1032,92 @@ static bool notch_patches(struct route *r, struct gp_geos *geos)
 			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
 			if (boxes_overlap(b, q))
 				ok = notch_one(r, geos, k, n->corridor, (int)i);
+			if (!ok || n->path_count < 2)
+				continue;
+			q = gp_polygon_bounds(&n->path_poly);
+			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
+			if (boxes_overlap(b, q))
+				ok = gp_route_notch(r, geos, k, &n->path_poly,
+						    (int)i);
 		}
+	}
+	return ok;
+}
+
+/* A bundle lead that goes round things keeps its distances: the sweep's
+ * boxes promise it, GEOS confirms it. */
+static bool check_paths(struct route *r, struct gp_geos *geos)
+{
+	const struct gp_artwork *art = &r->build->art;
+	bool ok = true;
+	for (size_t i = 0; ok && i < r->net_count; i++) {
+		struct netstate *n = &r->nets[i];
+		if (n->ledge < 0 || n->path_count < 2 ||
+		    (n->path_count == 2 && !n->bend[n->chosen]))
+			continue;
+		enum gp_layer mine = gp_plate_ito_layer(art->nets[i].plate);
+		struct gp_box bb = gp_polygon_bounds(&n->path_poly);
+		int64_t g = r->min_space;
+		bb = gp_box_make(bb.x0 - g, bb.y0 - g, bb.x1 + g, bb.y1 + g);
+		/* what the lead adds outside its own net's ITO */
+		struct gp_polyset own;
+		gp_polyset_init(&own);
+		for (size_t k = 0; ok && k < art->shape_count; k++) {
+			struct gp_polygon copy;
+			if (art->shapes[k].net == (int)i &&
+			    art->shapes[k].layer == mine &&
+			    art->shapes[k].role != GP_ROLE_LEAD)
+				ok = gp_polygon_copy(&copy, &art->shapes[k].poly) &&
+				     gp_polyset_take(&own, &copy);
+		}
+		struct gp_geos_shape *whole =
+			gp_geos_shape_from_polygon(geos, &n->path_poly);
+		struct gp_polyset merged;
+		gp_polyset_init(&merged);
+		ok = ok && gp_geos_union_set(geos, &own, &merged);
+		struct gp_geos_shape *mask =
+			ok ? gp_geos_shape_from_polyset(geos, &merged) : NULL;
+		gp_polyset_finish(&merged);
+		struct gp_geos_shape *lead =
+			whole && mask ? gp_geos_shape_difference(geos, whole, mask)
+				      : NULL;
+		gp_geos_shape_destroy(geos, whole);
+		gp_geos_shape_destroy(geos, mask);
+		gp_polyset_finish(&own);
+		ok = lead != NULL;
+		for (size_t k = 0; ok && k < art->shape_count; k++) {
+			const struct gp_shape *s = &art->shapes[k];
+			if ((s->layer != GP_LAYER_FRONT_ITO &&
+			     s->layer != GP_LAYER_BACK_ITO) || s->net == (int)i ||
+			    s->net < 0 || !boxes_overlap(gp_polygon_bounds(&s->poly), bb) ||
+			    (s->layer != mine && s->role == GP_ROLE_PATCH))
+				continue;
+			struct gp_geos_shape *o = gp_geos_shape_from_polygon(geos, &s->poly);
+			double d = 0;
+			bool bad = false;
+			ok = o != NULL;
+			if (ok && s->layer == mine) {
+				ok = gp_geos_shape_distance(geos, lead, o, &d);
+				bad = d < (double)g - 1;
+			} else if (ok) {
+				bad = gp_geos_shape_overlaps_area(geos, lead, o);
+			}
+			gp_geos_shape_destroy(geos, o);
+			if (ok && bad) {
+				char x[32], y[32];
+				struct gp_box sb = gp_polygon_bounds(&s->poly);
+				ok = gp_diag_error(
+					r->diag, NULL,
+					"%s: the lead of %s, going round what is "
+					"in its way, comes too close to %s near "
+					"(%s, %s) mm; move the elements apart",
+					r->design->spec->file, net_name(r, (int)i),
+					s->net >= 0 ? net_name(r, s->net) : "ITO",
+					mm(x, (sb.x0 + sb.x1) / 2),
+					mm(y, (sb.y0 + sb.y1) / 2));
+			}
+		}
+		gp_geos_shape_destroy(geos, lead);
 	}
 	return ok;
 }
@@ -895,6 +1248,64 @@ static bool check_seal_fits(struct route *r)
 	return true;
 }
 
+static void forward(struct gp_diag *to, const struct gp_diag *from)
+{
+	for (size_t i = 0; i < from->count; i++) {
+		const char *m = from->entries[i].message;
+		switch (from->entries[i].severity) {
+		case GP_SEVERITY_ERROR: gp_diag_error(to, NULL, "%s", m); break;
+		case GP_SEVERITY_WARNING: gp_diag_warning(to, NULL, "%s", m); break;
+		default: gp_diag_note(to, NULL, "%s", m); break;
+		}
+	}
+}
+
+/* Ends for every net, then the leads toward each ledge round what is in
+ * their way.  A lead that cannot go round (hemmed in by other leads) is
+ * told to take its next way out, and everything is chosen again. */
+static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
+			      struct gp_geos *geos)
+{
+	struct gp_diag *diag = r->diag;
+	struct cand (*saved)[16] = malloc((r->net_count + 1) * sizeof(*saved));
+	if (!saved)
+		return gp_diag_error(diag, NULL, "out of memory");
+	for (size_t i = 0; i < r->net_count; i++)
+		memcpy(saved[i], r->nets[i].cands, sizeof(saved[i]));
+	bool ok = false;
+	for (size_t attempt = 0;; attempt++) {
+		struct gp_diag scratch;
+		gp_diag_init(&scratch);
+		r->diag = &scratch;
+		int culprit = -1;
+		for (size_t i = 0; i < r->net_count; i++) {
+			struct netstate *n = &r->nets[i];
+			memcpy(n->cands, saved[i], sizeof(saved[i]));
+			free(n->path);
+			n->path = NULL;
+			n->path_count = 0;
+		}
+		ok = choose_ends(r, index, geos);
+		for (size_t i = 0; ok && i < r->net_count; i++)
+			r->nets[i].decided = r->nets[i].ledge >= 0 &&
+					     !r->nets[i].bundle;
+		for (size_t i = 0; ok && i < r->g->ledge_count; i++)
+			ok = gp_route_bundle(r, (int)i, &culprit);
+		r->diag = diag;
+		bool retry = !ok && culprit >= 0 && !scratch.lost &&
+			     r->nets[culprit].bend[r->nets[culprit].chosen] &&
+			     attempt < r->net_count;
+		if (!retry)
+			forward(diag, &scratch);
+		gp_diag_finish(&scratch);
+		if (!retry)
+			break;
+		r->nets[culprit].no_bend = true;
+	}
+	free(saved);
+	return ok;
+}
+
 bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 {
 	const struct gp_design *d = build->design;
@@ -928,7 +1339,10 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		goto out;
 	if (g->ledge_count == 0)
 		goto seal;
-	ok = check_transfer_room(&r) && gp_route_assign_nets(&r) && collect_cands(&r);
+	ok = check_transfer_room(&r) && gp_route_assign_nets(&r);
+	if (ok)
+		net_centres(&r);
+	ok = ok && gp_route_join(&r, geos) && collect_cands(&r);
 	if (!ok)
 		goto out;
 	index = gp_geos_index_create(geos);
@@ -940,7 +1354,15 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 				    s->layer == GP_LAYER_BACK_ITO))
 			ok = gp_geos_index_add(index, gp_polygon_bounds(&s->poly), i);
 	}
-	ok = ok && choose_ends(&r, index, geos) && notch_patches(&r, geos);
+	ok = ok && choose_and_bundle(&r, index, geos);
+	for (size_t i = 0; ok && i < r.net_count; i++) {
+		struct netstate *n = &r.nets[i];
+		if (n->path_count >= 2 &&
+		    !gp_route_path_polygon(n->path, n->path_count, n->path_width,
+					   &n->path_poly))
+			ok = gp_diag_error(diag, NULL, "out of memory");
+	}
+	ok = ok && notch_patches(&r, geos);
 	if (!ok)
 		goto out;
 	for (size_t i = 0; ok && i < r.net_count; i++) {
@@ -948,12 +1370,22 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		if (n->ledge < 0)
 			continue;
 		enum gp_plate plate = build->art.nets[i].plate;
+		struct gp_polygon copy;
+		gp_polygon_init(&copy);
 		ok = gp_artwork_add_box(&build->art, gp_plate_ito_layer(plate),
 					GP_ROLE_LEAD, (int)i, n->corridor) &&
 		     (!n->transfer || add_transfers(&r, (int)i, n));
+		if (ok && n->path_count >= 2) {
+			ok = gp_polygon_copy(&copy, &n->path_poly) &&
+			     gp_artwork_add_shape(&build->art,
+						  gp_plate_ito_layer(plate),
+						  GP_ROLE_LEAD, (int)i, &copy);
+			gp_polygon_finish(&copy);
+		}
 		if (!ok)
 			gp_diag_error(diag, NULL, "out of memory");
 	}
+	ok = ok && check_paths(&r, geos);
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
 		ok = gp_route_ledge(&r, (int)i);
 	for (size_t i = 0; ok && i < build->pin_count; i++) {
@@ -987,6 +1419,10 @@ seal:
 out:
 	gp_geos_index_destroy(index);
 	gp_geos_destroy(geos);
+	for (size_t i = 0; r.nets && i < r.net_count; i++) {
+		free(r.nets[i].path);
+		gp_polygon_finish(&r.nets[i].path_poly);
+	}
 	free(r.nets);
 	return ok;
 }

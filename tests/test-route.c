@@ -208,11 +208,20 @@ static void check_connected(struct gp_geos *geos, const struct gp_artwork *art,
 			}
 		}
 		for (size_t k = 1; k < total; k++)
-			if (find(parent, (int)k) != find(parent, 0))
+			if (find(parent, (int)k) != find(parent, 0)) {
+				for (size_t q = 0; q < total; q++) {
+					struct gp_box bb = gp_polygon_bounds(
+						q < front ? &g->plate[0].items[q]
+							  : &g->plate[1].items[q - front]);
+					print_error("piece %zu: x %.4f..%.4f y %.4f..%.4f\n",
+						    q, gp_mm(bb.x0), gp_mm(bb.x1),
+						    gp_mm(bb.y0), gp_mm(bb.y1));
+				}
 				fail_msg("%s is in %zu pieces (front %zu, back "
 					 "%zu) not joined by transfers",
 					 art->nets[i].name, total, front,
 					 g->plate[1].count);
+			}
 		free(parent);
 	}
 }
@@ -606,6 +615,58 @@ static void route_icons(void **state)
 	finish(&f);
 }
 
+/* Pixels of a net, to show that a description really splits it. */
+static size_t net_pixels(const struct gp_build *b, const char *name)
+{
+	size_t count = 0;
+	for (size_t i = 0; i < b->art.pixel_count; i++) {
+		const struct gp_pixel *p = &b->art.pixels[i];
+		count += strcmp(b->art.nets[p->common].name, name) == 0 ||
+			 strcmp(b->art.nets[p->segment].name, name) == 0;
+	}
+	return count;
+}
+
+/* Nets in several pieces: two icons on one named common (COM9: its back
+ * patches are apart), two icons on one segment (SEG31: bat and tri), an
+ * icon on a dot-matrix row's common (COM8: its patch is away from the
+ * row's strip).  Each must come out as one connected piece per plate with
+ * one pad (check_connected), and the joining buses must keep the spacing
+ * and the no-overlap rule (check_spacing, check_overlap). */
+static void route_split_icons(void **state)
+{
+	(void)state;
+	const char *text =
+		"glass: {part: T-7}\n"
+		"front: {size: [50, 27], position: [0, -3]}\n"
+		"back: {size: [50, 20], position: [0, 4]}\n"
+		"viewing_area: {position: [4, 7], size: [42, 15]}\n"
+		"blocks:\n"
+		"  r: {origin: [5, 20.5], cells: [6, 1], dots: [5, 8],"
+		" dot_size: [0.45, 0.5], dot_pitch: [0.5, 0.55], cell_pitch: 3}\n"
+		"icons:\n"
+		"  bat: {shape: rectangle, size: [3, 1.5], position: [28, 19],"
+		" common: c1, segment: s1}\n"
+		"  dot: {shape: circle, diameter: 1.2, position: [34, 19],"
+		" common: c1, segment: s2}\n"
+		"  tri: {shape: triangle, size: [1.6, 1.2], position: [40, 12],"
+		" common: c2, segment: s1}\n"
+		"  ring: {shape: ring, diameter: 2, width: 0.4,"
+		" position: [28, 12], common: {block: r, row: 8}, segment: s3}\n"
+		"ledges:\n"
+		"  main: {side: bottom, pitch: 0.6, pad_width: 0.3,"
+		" pad_length: 1.5, edge_clearance: 0.3}\n"
+		"seal: {width: 1, distance: 0.2}\n"
+		"leads: {width: 0.05, space: 0.05}\n";
+	struct fixture f;
+	load_ok(&f, text);
+	assert_int_equal(net_pixels(f.build, "COM9"), 2);
+	assert_int_equal(net_pixels(f.build, "SEG31"), 2);
+	assert_int_equal(net_pixels(f.build, "COM8"), 30 + 1);
+	check_all(f.build);
+	finish(&f);
+}
+
 /* --- pads ----------------------------------------------------------------- */
 
 /* The span is the datum (DESIGN.md section 3): pad k sits at pin1 +
@@ -982,6 +1043,7 @@ int main(void)
 		cmocka_unit_test(route_left_ledge),
 		cmocka_unit_test(route_round_the_top),
 		cmocka_unit_test(route_icons),
+		cmocka_unit_test(route_split_icons),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(capacity_tracks),
