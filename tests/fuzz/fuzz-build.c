@@ -5,23 +5,34 @@
 
 #include "build.h"
 
-/* Designs larger than this are valid but only slow to lay out; skip them
- * so that fuzzing time goes to logic, not to throughput.  The limits
- * themselves are tested in tests/errors and by the benchmarks. */
+/* Designs larger than these are valid but only slow to lay out (under
+ * ASan a few hundred nets or a few dozen digits take seconds); skip them
+ * so that fuzzing time goes to logic, not to throughput, and no input
+ * comes near the time-out.  The limits themselves are tested in
+ * tests/errors, tests/test-limits.c and by the benchmarks. */
 #define FUZZ_MAX_DOTS 20000
-#define FUZZ_MAX_ICONS 32
+#define FUZZ_MAX_NETS 400
+#define FUZZ_MAX_ICONS 16
+#define FUZZ_MAX_DIGITS 16
 
 static bool small_enough(const struct gp_design *design)
 {
 	if (design->icon_count > FUZZ_MAX_ICONS)
 		return false;
-	size_t dots = 0;
+	long digits = 0;
+	for (size_t i = 0; i < design->digit_count; i++)
+		digits += design->digits[i].count;
+	if (digits > FUZZ_MAX_DIGITS)
+		return false;
+	size_t dots = 0, nets = 0;
 	for (size_t i = 0; i < design->block_count; i++) {
 		const struct gp_block *b = &design->blocks[i];
 		dots += (size_t)(b->cells * b->lines) *
 			(size_t)(b->dots_across * b->dots_down);
+		nets += (size_t)(b->lines * b->dots_down) +
+			(size_t)(b->lines * b->cells * b->dots_across);
 	}
-	return dots <= FUZZ_MAX_DOTS;
+	return dots <= FUZZ_MAX_DOTS && nets <= FUZZ_MAX_NETS;
 }
 
 static void render(struct gp_build *build, struct gp_diag *diag)

@@ -15,21 +15,25 @@ status=0
 for harness in load build; do
 	exe=$build/tests/fuzz/fuzz-$harness
 	mkdir -p "$work/$harness/new" "$work/$harness/findings"
-	"$exe" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
-		-max_len=65536 -print_final_stats=1 \
+	# an input slower than 30 s is a finding (a hang); merely slow
+	# inputs are not reported (the harness skips the large designs)
+	"$exe" -max_total_time="$seconds" -timeout=30 -rss_limit_mb=2048 \
+		-report_slow_units=1000 -max_len=65536 -print_final_stats=1 \
 		-artifact_prefix="$work/$harness/findings/" \
 		"$work/$harness/new" "$root/tests/fuzz/corpus-$harness" \
+		"$root/tests/fuzz/regressions" \
 		"$root/samples" "$root/tests/errors" \
 		>"$work/$harness/log" 2>&1
 	rc=$?
 	runs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$work/$harness/log")
 	echo "fuzz-$harness: ${runs:-?} executions in ${seconds} s, exit status $rc"
-	if [ "$rc" -ne 0 ] || [ -n "$(ls "$work/$harness/findings")" ]; then
+	found=$(ls "$work/$harness/findings" | grep -E '^(crash|leak|timeout|oom)-')
+	if [ "$rc" -ne 0 ] || [ -n "$found" ]; then
 		status=1
 		tail -n 60 "$work/$harness/log"
 		for f in "$work/$harness/findings"/*; do
 			[ -e "$f" ] || continue
-			echo "finding $(basename "$f") (base64, add it to tests/fuzz/corpus-$harness/):"
+			echo "finding $(basename "$f") (base64; fix it, then add it to tests/fuzz/regressions/):"
 			base64 "$f"
 		done
 	fi
