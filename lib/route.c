@@ -1468,10 +1468,6 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		bool retry = !ok && culprit >= 0 && !scratch.lost &&
 			     r->nets[culprit].bend[r->nets[culprit].chosen] &&
 			     attempt < r->net_count;
-		if (getenv("GP_BUNDLE_DEBUG"))
-			for (size_t q = 0; q < scratch.count; q++)
-				fprintf(stderr, "attempt %zu: %s\n", attempt,
-					scratch.entries[q].message);
 		if (!retry)
 			forward(diag, &scratch);
 		gp_diag_finish(&scratch);
