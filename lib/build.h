@@ -43,6 +43,10 @@ struct gp_build {
 	/* Pads made by routing, in ledge order. */
 	struct gp_pin *pins;
 	size_t pin_count;
+	/* The description's ledges as the routing resolved them (plate,
+	 * pin 1, pin map); the design itself is not changed. */
+	struct gp_ledge ledges[GP_MAX_LEDGES];
+	size_t ledge_count;
 	/* Files read besides the description (fonts...), one per line, for
 	 * dependency files. */
 	struct gp_buffer inputs;

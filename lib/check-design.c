@@ -137,6 +137,11 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 {
 	struct gp_check_limits limits;
 	gp_check_limits_from_design(&limits, build->design);
+	/* pads: their ledge's clearance from the edge along it */
+	for (size_t i = 0; i < build->ledge_count; i++) {
+		const struct gp_ledge *l = &build->ledges[i];
+		limits.pad_clearance[l->plate][l->side] = l->edge_clearance;
+	}
 	struct gp_geos *geos = gp_geos_create(diag);
 	if (!geos)
 		return gp_diag_error(diag, NULL, "out of memory");

@@ -100,6 +100,9 @@ void gp_check_limits_default(struct gp_check_limits *l)
 	l->plate[0] = l->plate[1] = l->viewing = gp_box_none();
 	l->seal_inside = gp_box_none();
 	l->min_conductors = 2;
+	for (int p = 0; p < 2; p++)
+		for (int s = 0; s < 4; s++)
+			l->pad_clearance[p][s] = -1;
 }
 
 double gp_check_capacitance(double area_mm2, double gap, double permittivity)
@@ -1319,14 +1322,23 @@ static void check_edges(struct checker *c)
 		if (gp_box_is_empty(plate))
 			continue;
 		struct gp_box b = it->box;
-		/* least distance from the shape to each edge, inside > 0 */
+		/* least distance from the shape to each edge, inside > 0;
+		 * a pad keeps its own ledge's clearance from the edge it
+		 * faces */
 		int64_t d[4] = { b.x0 - plate.x0, plate.x1 - b.x1,
 				 b.y0 - plate.y0, plate.y1 - b.y1 };
-		int worst = 0;
-		for (int i = 1; i < 4; i++)
-			if (d[i] < d[worst])
+		static const int side_of[4] = { 3, 1, 0, 2 };
+		bool pad = c->art->shapes[it->shape].role == GP_ROLE_PAD;
+		int64_t limit[4];
+		int worst = -1;
+		for (int i = 0; i < 4; i++) {
+			int64_t own = l->pad_clearance[it->plate][side_of[i]];
+			limit[i] = pad && own >= 0 ? own : l->edge_clearance;
+			if (d[i] < limit[i] &&
+			    (worst < 0 || d[i] - limit[i] < d[worst] - limit[worst]))
 				worst = i;
-		if (d[worst] >= l->edge_clearance)
+		}
+		if (worst < 0)
 			continue;
 		struct gp_point mid = box_centre(b);
 		struct gp_point place = {
@@ -1336,8 +1348,7 @@ static void check_edges(struct checker *c)
 		int net = c->art->shapes[it->shape].net;
 		struct gp_finding f = finding(GP_CHECK_EDGE, GP_SEVERITY_ERROR,
 					      net, GP_NET_NONE, place,
-					      gp_mm(d[worst]),
-					      gp_mm(l->edge_clearance),
+					      gp_mm(d[worst]), gp_mm(limit[worst]),
 					      GP_UNIT_MM);
 		f.shape = (int)it->shape;
 		f.detail = (int)it->plate;

@@ -111,6 +111,10 @@ struct gp_check_limits {
 	/* inside edge of the seal when the design knows it (the seal band
 	 * drawn with a fill port has no closed inner ring) */
 	struct gp_box seal_inside;
+	/* edge clearance of pads, by plate and by the edge they face
+	 * (bottom, right, top, left as enum gp_side): a ledge's own
+	 * clearance; < 0: edge_clearance */
+	int64_t pad_clearance[2][4];
 	/* connector: pads checked when pad_pitch > 0 */
 	int64_t conductor_pitch;  /* elastomeric strip, 0 = none */
 	int64_t min_conductors;   /* per pad and per gap */

@@ -702,7 +702,7 @@ bool gp_route_ledge(struct route *r, int index)
 {
 	struct ledge_ctx c = {
 		.r = r,
-		.l = (struct gp_ledge *)&r->g->ledges[index],
+		.l = &r->ledges[index],
 		.index = index,
 		.clear = r->design->rules.edge_clearance,
 	};
@@ -800,10 +800,11 @@ static bool carried(const struct gp_ledge *l, const struct gp_net *net)
 static bool read_map(struct route *r)
 {
 	const struct gp_node *pins = r->g->pins;
-	struct gp_routing *g = (struct gp_routing *)r->g;
+	const struct gp_routing *g = r->g;
+	struct gp_ledge *ledges = r->ledges;
 	const char *names[GP_MAX_LEDGES];
 	for (size_t i = 0; i < g->ledge_count; i++)
-		names[i] = g->ledges[i].name;
+		names[i] = ledges[i].name;
 	bool ok = true;
 	for (size_t k = 0; k < pins->count; k++) {
 		const char *key = pins->keys[k]->text;
@@ -823,16 +824,16 @@ static bool read_map(struct route *r)
 			ok = false;
 			continue;
 		}
-		g->ledges[li].map = pins->items[k];
+		ledges[li].map = pins->items[k];
 	}
 	if (ok)
 		for (size_t i = 0; i < g->ledge_count; i++)
-			if (!g->ledges[i].map)
+			if (!ledges[i].map)
 				ok = gp_diag_error(r->diag, &pins->where,
 						   "'pins' gives no map for "
 						   "ledge '%s'; with a pin map "
 						   "every ledge needs one",
-						   g->ledges[i].name);
+						   ledges[i].name);
 	return ok;
 }
 
@@ -855,14 +856,14 @@ bool gp_route_assign_nets(struct route *r)
 	if (g->pins && !read_map(r))
 		return false;
 	for (size_t i = 0; i < g->ledge_count; i++)
-		total += g->ledges[i].map ? g->ledges[i].map->count : r->net_count;
+		total += r->ledges[i].map ? r->ledges[i].map->count : r->net_count;
 	r->build->pins = calloc(total ? total : 1, sizeof(*r->build->pins));
 	if (!r->build->pins)
 		return gp_diag_error(r->diag, NULL, "out of memory");
 	for (size_t i = 0; i < r->net_count; i++)
 		r->nets[i].ledge = -1, r->nets[i].pin = -1;
 	for (size_t li = 0; li < g->ledge_count; li++) {
-		struct gp_ledge *l = (struct gp_ledge *)&g->ledges[li];
+		struct gp_ledge *l = &r->ledges[li];
 		size_t first = r->build->pin_count;
 		r->pin_first[li] = first;
 		if (l->map) {
@@ -915,7 +916,7 @@ bool gp_route_assign_nets(struct route *r)
 	for (size_t i = 0; ok && i < r->net_count; i++)
 		if (r->nets[i].ledge < 0)
 			ok = gp_diag_error(r->diag, g->pins ? &g->pins->where
-							    : &g->ledges[0].where,
+							    : &r->ledges[0].where,
 					   "net %s has no pin: %s",
 					   net_name(r, (int)i),
 					   g->pins ? "add it to the pin map"

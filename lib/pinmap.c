@@ -112,7 +112,6 @@ bool gp_pins_csv(const struct gp_build *build, struct gp_buffer *out)
 	const struct gp_pin **pins = sorted_pins(build);
 	if (!pins)
 		return false;
-	const struct gp_routing *g = build->design->routing;
 	gp_buffer_printf(out, "pin,ledge,x,y,net,role,drives\n");
 	for (size_t i = 0; i < build->pin_count; i++) {
 		const struct gp_pin *p = pins[i];
@@ -123,7 +122,7 @@ bool gp_pins_csv(const struct gp_build *build, struct gp_buffer *out)
 			p->net >= 0 ? &build->art.nets[p->net] : NULL;
 		describe_net(build, p->net, drives, sizeof(drives));
 		gp_buffer_printf(out, "%d,%s,%s,%s,%s,%s,%s\n", p->number,
-				 g->ledges[p->ledge].name, x, y,
+				 build->ledges[p->ledge].name, x, y,
 				 net ? net->name : "NC",
 				 !net ? "none"
 				 : net->kind == GP_NET_COMMON ? "common"

@@ -579,7 +579,7 @@ static bool sweep(struct bundle *b)
 
 bool gp_route_bundle(struct route *r, int index, int *culprit)
 {
-	const struct gp_ledge *l = &r->g->ledges[index];
+	const struct gp_ledge *l = &r->ledges[index];
 	struct bundle b = { .r = r, .l = l, .index = index, .culprit = -1 };
 	const struct gp_rules *rules = &r->design->rules;
 	size_t n = 0;

@@ -97,7 +97,7 @@ static void mark(struct join *j, struct gp_maze *m, struct gp_box window)
 		if ((int)i == j->net || n->ledge < 0 || gp_box_is_empty(n->centre))
 			continue;
 		struct gp_box c = n->centre, in = j->r->s_in;
-		switch (j->r->g->ledges[n->ledge].side) {
+		switch (j->r->ledges[n->ledge].side) {
 		case GP_SIDE_BOTTOM: c.y1 = c.y0, c.y0 = in.y0; break;
 		case GP_SIDE_TOP: c.y0 = c.y1, c.y1 = in.y1; break;
 		case GP_SIDE_LEFT: c.x1 = c.x0, c.x0 = in.x0; break;

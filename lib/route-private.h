@@ -110,6 +110,7 @@ struct route {
 	struct gp_build *build;
 	const struct gp_design *design;
 	const struct gp_routing *g;
+	struct gp_ledge *ledges;  /* build->ledges: resolved copies */
 	struct gp_diag *diag;
 	struct gp_box s_in, s_out;
 	struct netstate *nets;

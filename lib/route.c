@@ -114,6 +114,33 @@ static bool check_connection(struct route *r, const struct gp_ledge *l)
 	return true;
 }
 
+/* The connection a ledge is laid out for should be the one the ordering
+ * spec names (optics.connection): a warning when they differ. */
+static void compare_connection(struct route *r, const struct gp_ledge *l)
+{
+	static const enum gp_connection as_ordered[] = {
+		[GP_LEDGE_ELASTOMERIC] = GP_CONNECTION_ELASTOMERIC,
+		[GP_LEDGE_PINS] = GP_CONNECTION_PINS,
+		[GP_LEDGE_HEAT_SEAL] = GP_CONNECTION_HEAT_SEAL,
+	};
+	static const char *const ledge_names[] = { "elastomeric", "pins",
+						   "heat_seal" };
+	static const char *const optics_names[] = { "", "elastomeric", "pins",
+						    "heat-seal" };
+	enum gp_connection ordered = r->design->drive.connection;
+	if (ordered == GP_CONNECTION_UNSET ||
+	    as_ordered[l->connection] == ordered)
+		return;
+	gp_diag_warning(r->diag,
+			l->connection_where.file ? &l->connection_where
+						 : &l->where,
+			"ledge '%s' is laid out for connection method %s%s, but "
+			"'optics.connection' orders %s; make them agree",
+			l->name, ledge_names[l->connection],
+			l->connection_where.file ? "" : " (the default)",
+			optics_names[ordered]);
+}
+
 /* --- candidates -------------------------------------------------------------- */
 
 static bool is_block_net(const struct gp_build *b, int net, bool *common,
@@ -460,7 +487,7 @@ int64_t gp_route_lead_width(const struct route *r, const struct netstate *n,
 			    const struct cand *c)
 {
 	int64_t w = min64(r->g->leads.width, c->width);
-	w = min64(w, r->g->ledges[n->ledge].pad_width);
+	w = min64(w, r->ledges[n->ledge].pad_width);
 	return max64(w, r->design->rules.min_line);
 }
 
@@ -591,7 +618,7 @@ static void hit_test(struct blocker *k, const struct gp_shape *s)
 static int cand_rank(const struct route *r, const struct netstate *n,
 		     const struct cand *c)
 {
-	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	const struct gp_ledge *l = &r->ledges[n->ledge];
 	enum gp_side s = side_to_canon(l->side, c->side);
 	int rank = s == GP_SIDE_BOTTOM ? 0 : s == GP_SIDE_TOP ? 4 : 2;
 	if (n->block_common && (c->side == GP_SIDE_LEFT ||
@@ -652,7 +679,7 @@ static bool worth_bending(const struct route *r, const struct netstate *n,
 			  const struct cand *c, struct gp_box hits)
 {
 	const struct gp_artwork *art = &r->build->art;
-	enum gp_side side = r->g->ledges[n->ledge].side;
+	enum gp_side side = r->ledges[n->ledge].side;
 	struct gp_box h = box_map(hits, side, true);
 	int64_t g = r->space + r->g->leads.width;
 	for (int round = 0; round < 8; round++) {
@@ -687,7 +714,7 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 		      struct gp_geos *geos, int net)
 {
 	struct netstate *n = &r->nets[net];
-	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	const struct gp_ledge *l = &r->ledges[n->ledge];
 	enum gp_plate plate = r->build->art.nets[net].plate;
 	n->transfer = plate != l->plate;
 	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
@@ -791,7 +818,7 @@ static void set_choice(struct route *r, int net)
 	case GP_SIDE_LEFT: n->corridor.x1 += c->reach; break;
 	default: n->corridor.x0 -= c->reach; break;
 	}
-	n->bundle = side_to_canon(r->g->ledges[n->ledge].side, c->side) ==
+	n->bundle = side_to_canon(r->ledges[n->ledge].side, c->side) ==
 		    GP_SIDE_BOTTOM;
 }
 
@@ -805,7 +832,7 @@ static int64_t stub_length(const struct route *r, const struct netstate *n,
 static size_t footprints(const struct route *r, int net, struct footprint *f)
 {
 	const struct netstate *n = &r->nets[net];
-	const struct gp_ledge *l = &r->g->ledges[n->ledge];
+	const struct gp_ledge *l = &r->ledges[n->ledge];
 	const struct cand *c = &n->cands[n->chosen];
 	size_t count = 0;
 	if (n->bundle) {
@@ -1370,7 +1397,7 @@ static bool check_transfer_room(struct route *r)
 	char a[32], b[32], c[32], d[32];
 	const struct gp_where *where = t->where.file ? &t->where
 			 : r->g->seal.where.file ? &r->g->seal.where
-						 : &r->g->ledges[0].where;
+						 : &r->ledges[0].where;
 	return gp_diag_error(r->diag, where,
 			     "%ld transfer dots of %s mm with %s mm margins "
 			     "need %s mm across the seal band, which is %s mm "
@@ -1494,6 +1521,11 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		.space = g->leads.space,
 		.min_space = d->rules.min_space,
 	};
+	/* the ledges as resolved for this build (plate, pin 1, map); the
+	 * design stays as read */
+	memcpy(build->ledges, g->ledges, sizeof(build->ledges));
+	build->ledge_count = g->ledge_count;
+	r.ledges = build->ledges;
 	gp_seal_boxes(d, &r.s_in, &r.s_out);
 	struct gp_geos *geos = gp_geos_create(diag);
 	struct gp_geos_index *index = NULL;
@@ -1506,8 +1538,10 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	if (!(ok = check_seal_fits(&r)))
 		goto out;
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
-		ok = resolve_ledge_plate(&r, (struct gp_ledge *)&g->ledges[i]) &&
-		     check_connection(&r, &g->ledges[i]);
+		ok = resolve_ledge_plate(&r, &r.ledges[i]) &&
+		     check_connection(&r, &r.ledges[i]);
+	for (size_t i = 0; ok && i < g->ledge_count; i++)
+		compare_connection(&r, &r.ledges[i]);
 	if (!ok)
 		goto out;
 	if (g->ledge_count == 0)
@@ -1556,7 +1590,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		ok = gp_route_ledge(&r, (int)i);
 	for (size_t i = 0; ok && i < build->pin_count; i++) {
 		struct gp_pin *p = &build->pins[i];
-		const struct gp_ledge *l = &g->ledges[p->ledge];
+		const struct gp_ledge *l = &r.ledges[p->ledge];
 		if (p->net >= 0)
 			build->art.nets[p->net].pin = p->number;
 		ok = gp_artwork_add_box(&build->art, gp_plate_ito_layer(l->plate),
@@ -1565,7 +1599,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	if (!ok)
 		goto out;
 	for (size_t i = 0; i < g->ledge_count; i++) {
-		const struct gp_ledge *l = &g->ledges[i];
+		const struct gp_ledge *l = &r.ledges[i];
 		size_t n = 0, used = 0;
 		for (size_t k = 0; k < build->pin_count; k++) {
 			n += build->pins[k].ledge == (int)i;

@@ -179,7 +179,7 @@ bool gp_build_add_lead_end(struct gp_build *build, int net,
 /* A pad on a ledge. */
 struct gp_pin {
 	int number;
-	int ledge;                /* index into routing->ledges */
+	int ledge;                /* index into build->ledges */
 	struct gp_point centre;
 	struct gp_box box;        /* the pad */
 	int net;                  /* net index, or GP_NET_NONE */

@@ -378,6 +378,39 @@ static void test_planted_edge(void **state)
 		   1e-9);
 }
 
+/* A pad keeps its ledge's own clearance from the edge along the ledge
+ * (the description's ledge edge_clearance), the rules' from the others;
+ * other ITO keeps the rules' everywhere. */
+static void test_pad_clearance(void **state)
+{
+	struct fixture *f = *state;
+	/* 0.3 mm above the front plate's bottom edge (y = -5 mm) */
+	add_box(f, GP_LAYER_FRONT_ITO, GP_ROLE_PAD, f->seg[3], 20 * MM,
+		-4700 * UM, 20300 * UM, -3200 * UM);
+	run(f);
+	expect_one(f, GP_CHECK_EDGE, f->seg[3], GP_NET_NONE, 20.15, -4.7, 0.3,
+		   1e-9);
+	assert_true(fabs(f->report.findings[0].limit - 0.5) < 1e-9);
+	/* the ledge along the bottom asks for 0.3 mm: clean */
+	f->limits.pad_clearance[GP_PLATE_FRONT][0] = 300 * UM;
+	run(f);
+	assert_int_equal(f->report.count, 0);
+	/* not on the back plate's, nor on another side */
+	f->limits.pad_clearance[GP_PLATE_FRONT][0] = -1;
+	f->limits.pad_clearance[GP_PLATE_BACK][0] = 300 * UM;
+	f->limits.pad_clearance[GP_PLATE_FRONT][3] = 300 * UM;
+	run(f);
+	expect_one(f, GP_CHECK_EDGE, f->seg[3], GP_NET_NONE, 20.15, -4.7, 0.3,
+		   1e-9);
+	/* a lead there keeps the rules' clearance whatever the ledge */
+	f->limits.pad_clearance[GP_PLATE_FRONT][0] = 300 * UM;
+	add_box(f, GP_LAYER_FRONT_ITO, GP_ROLE_LEAD, f->seg[2], 25 * MM,
+		-4700 * UM, 25100 * UM, -4000 * UM);
+	run(f);
+	expect_one(f, GP_CHECK_EDGE, f->seg[2], GP_NET_NONE, 25.05, -4.7, 0.3,
+		   1e-9);
+}
+
 static void test_pixels_outside_view(void **state)
 {
 	struct fixture *f = *state;
@@ -464,6 +497,7 @@ int main(void)
 		T(test_lead_resistance_and_rc),
 		T(test_resistance_spread),
 		T(test_planted_edge),
+		T(test_pad_clearance),
 		T(test_pixels_outside_view),
 		T(test_connector_fit),
 		T(test_seal),

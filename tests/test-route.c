@@ -379,7 +379,7 @@ static void check_pads(const struct gp_build *b)
 	gp_seal_boxes(d, &in, &out);
 	for (size_t i = 0; i < b->pin_count; i++) {
 		const struct gp_pin *p = &b->pins[i];
-		const struct gp_ledge *l = &d->routing->ledges[p->ledge];
+		const struct gp_ledge *l = &b->ledges[p->ledge];
 		struct gp_box mine = l->plate == GP_PLATE_FRONT ? d->front.box
 							       : d->back.box;
 		struct gp_box other = l->plate == GP_PLATE_FRONT ? d->back.box
@@ -668,6 +668,85 @@ static void route_split_icons(void **state)
 	assert_int_equal(net_pixels(f.build, "COM8"), 30 + 1);
 	check_all(f.build);
 	finish(&f);
+}
+
+/* The build resolves the ledges (the plate that overhangs, pin 1 under
+ * the leads) in its own copies: the design stays as read, so that one
+ * design can be built again and give the same. */
+static void design_unchanged(void **state)
+{
+	(void)state;
+	const char *text =
+		"glass: {part: T-8}\n"
+		"front: {size: [50, 30]}\n"
+		"back: {size: [54, 24], position: [0, 6]}\n"
+		"viewing_area: {position: [6, 10], size: [38, 16]}\n"
+		"blocks:\n"
+		"  m: {origin: [13.125, 24], cells: [8, 2], dots: [5, 7],"
+		" dot_size: [0.5, 0.55], dot_pitch: [0.55, 0.6],"
+		" cell_pitch: 3, line_pitch: 6}\n"
+		"ledges:\n"
+		"  seg: {side: bottom, pitch: 0.5, carries: segments}\n"
+		"  com: {side: right, pitch: 0.6, pad_length: 1.5,"
+		" edge_clearance: 0.3, carries: commons, numbering: up}\n"
+		"seal: {width: 1, distance: 0.5}\n";
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_design *d = gp_design_load_buffer("t.yaml", text,
+						    strlen(text), NULL, 0, &diag);
+	assert_non_null(d);
+	struct gp_routing before = *d->routing;
+	for (int round = 0; round < 2; round++) {
+		struct gp_build *b = gp_build_create(d, &diag);
+		assert_non_null(b);
+		assert_memory_equal(&before, d->routing, sizeof(before));
+		/* resolved in the build: the back plate overhangs on the
+		 * right, and pin 1 of each row was placed */
+		assert_int_equal(b->ledge_count, 2);
+		assert_int_equal(b->ledges[1].plate, GP_PLATE_BACK);
+		assert_int_equal(d->routing->ledges[1].plate, GP_PLATE_FRONT);
+		assert_false(d->routing->ledges[0].pin1_given);
+		assert_int_equal(d->routing->ledges[0].pin1, 0);
+		assert_int_not_equal(b->ledges[0].pin1, 0);
+		/* pads hold their ledge's own edge clearance, 0.3 mm on the
+		 * right, less than the rules' 0.5 mm: no finding */
+		for (size_t i = 0; i < b->checks.count; i++)
+			assert_int_not_equal(b->checks.findings[i].rule,
+					     GP_CHECK_EDGE);
+		gp_build_destroy(b);
+	}
+	gp_design_destroy(d);
+	gp_diag_finish(&diag);
+}
+
+/* A ledge laid out for one connection while the ordering spec names
+ * another is worth a warning (but builds). */
+static void connection_mismatch_warned(void **state)
+{
+	(void)state;
+	char *text = glass("    pitch: 0.5\n    pad_width: 0.25\n"
+			   "    connection: {method: elastomeric, pitch: 0.1}\n",
+			   "optics: {connection: pins}\n");
+	struct fixture f;
+	load_ok(&f, text);
+	bool warned = false;
+	for (size_t i = 0; i < f.diag.count; i++)
+		warned |= f.diag.entries[i].severity == GP_SEVERITY_WARNING &&
+			  strstr(f.diag.entries[i].message,
+				 "ledge 'main' is laid out for connection "
+				 "method elastomeric, but 'optics.connection' "
+				 "orders pins") != NULL;
+	assert_true(warned);
+	finish(&f);
+	free(text);
+	/* the same connection: nothing to say */
+	text = glass("    pitch: 0.5\n    pad_width: 0.25\n",
+		     "optics: {connection: elastomeric}\n");
+	load_ok(&f, text);
+	for (size_t i = 0; i < f.diag.count; i++)
+		assert_null(strstr(f.diag.entries[i].message, "optics.connection"));
+	finish(&f);
+	free(text);
 }
 
 /* --- pads ----------------------------------------------------------------- */
@@ -1047,6 +1126,8 @@ int main(void)
 		cmocka_unit_test(route_round_the_top),
 		cmocka_unit_test(route_icons),
 		cmocka_unit_test(route_split_icons),
+		cmocka_unit_test(design_unchanged),
+		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(capacity_tracks),
