@@ -2,7 +2,6 @@
 #include "maze.h"
 
 #include <math.h>
-#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -13,6 +12,7 @@ enum {
 	F_TARGET = 1 << 3,
 	F_SIDE = 1 << 4,     /* the path may end here (on a side) */
 	F_CLOSED = 1 << 5,
+	F_SHADOW = 1 << 6,
 };
 
 /* flags2 */
@@ -25,6 +25,7 @@ enum {
 #define STEP 1000u
 #define DIAG 1414u
 #define SOFT_COST 4000u
+#define SHADOW_COST 30000u
 /* Margin for what the grid cannot see, in cells (see maze.h). */
 #define MARGIN 2.25
 
@@ -35,6 +36,7 @@ struct gp_maze {
 	uint8_t *marks;     /* bit per layer */
 	uint8_t *flags;
 	uint8_t *flags2;
+	uint8_t used;       /* layers marked at all */
 };
 
 static size_t at(const struct gp_maze *m, int i, int j)
@@ -54,7 +56,7 @@ static int64_t cy(const struct gp_maze *m, int j)
 
 int64_t gp_maze_cell_for(struct gp_box window, int64_t fine)
 {
-	int64_t cell = fine / 4 > 1000 ? fine / 4 : 1000;
+	int64_t cell = fine / 3 > 1000 ? fine / 3 : 1000;
 	double area = (double)gp_box_width(window) * (double)gp_box_height(window);
 	while (area / ((double)cell * (double)cell) > (double)GP_MAZE_MAX_CELLS ||
 	       gp_box_width(window) / cell > 4000 ||
@@ -187,10 +189,11 @@ void gp_maze_mark_polygon(struct gp_maze *m, enum gp_maze_layer layer,
 	    b.y0 > w.y1)
 		return;
 	uint8_t bit = (uint8_t)(1u << layer);
+	m->used |= bit;
 	fill_rows(m, bit, p, b);
 	/* ends lie inside their ITO; obstacles are marked where they touch */
 	if (layer == GP_MAZE_OWN || layer == GP_MAZE_TARGET ||
-	    layer == GP_MAZE_FRAGILE)
+	    layer == GP_MAZE_FRAGILE || layer == GP_MAZE_SHADOW)
 		return;
 	mark_edges(m, bit, &p->outer);
 	for (size_t k = 0; k < p->hole_count; k++)
@@ -248,6 +251,12 @@ static void dt1d(const float *f, int n, float *d, int *v, float *z)
 static bool transform(const struct gp_maze *m, uint8_t bit, bool invert,
 		      float *out)
 {
+	if (!invert && !(m->used & bit)) {
+		size_t n = (size_t)m->w * (size_t)m->h;
+		for (size_t k = 0; k < n; k++)
+			out[k] = FAR;
+		return true;
+	}
 	int n = m->w > m->h ? m->w : m->h;
 	float *f = calloc((size_t)n, sizeof(float));
 	float *d = calloc((size_t)n, sizeof(float));
@@ -292,6 +301,12 @@ static bool deep(struct gp_maze *m, const struct gp_maze_rules *r,
 {
 	size_t n = (size_t)m->w * (size_t)m->h;
 	uint8_t bit = (uint8_t)(1u << layer);
+	if (!(m->used & (1u << GP_MAZE_FRAGILE))) {
+		for (size_t k = 0; k < n; k++)
+			if (m->marks[k] & bit)
+				m->flags2[k] |= flag;
+		return true;
+	}
 	if (!transform(m, bit, true, d))
 		return false;
 	float most = 0;
@@ -331,6 +346,8 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 			fl |= F_OWN;
 		if (r->to_target && (mk & (1u << GP_MAZE_TARGET)))
 			fl |= F_TARGET;
+		if (mk & (1u << GP_MAZE_SHADOW))
+			fl |= F_SHADOW;
 		if (same[k] < l_same || other[k] < l_other)
 			fl |= F_BLOCKED;
 		else if (other[k] < l_soft)
@@ -340,6 +357,8 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 		m->flags[k] = fl;
 	}
 	/* patches: blocked but near the lead's own ITO */
+	if (!(m->used & (1u << GP_MAZE_PATCH)))
+		goto depth;
 	ok = transform(m, 1u << GP_MAZE_PATCH, false, other) &&
 	     transform(m, (1u << GP_MAZE_OWN) |
 				  (r->to_target ? 1u << GP_MAZE_TARGET : 0),
@@ -358,6 +377,7 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 		else
 			m->flags[k] |= F_SOFT;
 	}
+depth:
 	/* where a lead may start and end: deep enough inside its ITO that
 	 * notches (which never take a pixel) leave it attached */
 	ok = deep(m, r, GP_MAZE_OWN, F_DEEP_OWN, same) &&
@@ -563,6 +583,8 @@ static bool search(struct gp_maze *m, const struct gp_maze_rules *r,
 			uint32_t step = d < 4 ? STEP : DIAG;
 			if (m->flags[q] & F_SOFT)
 				step += SOFT_COST;
+			if ((m->flags[q] & F_SHADOW) && !(m->flags[q] & (F_OWN | F_TARGET)))
+				step += SHADOW_COST;
 			uint32_t ng = g[k] + step;
 			if (ng >= g[q])
 				continue;
@@ -714,28 +736,6 @@ bool gp_maze_route(struct gp_maze *m, const struct gp_maze_rules *r,
 	struct cellpt *cells = NULL;
 	long end = -1;
 	bool ok = dir && g && prepare(m, r) && search(m, r, dir, g, &end);
-#ifdef GP_MAZE_DEBUG
-	{
-		static int serial;
-		char name[64];
-		snprintf(name, sizeof(name), "/tmp/maze-%02d.pgm", serial++);
-		FILE *fp = fopen(name, "wb");
-		if (fp) {
-			fprintf(fp, "P5 %d %d 255\n", m->w, m->h);
-			for (int j = m->h - 1; j >= 0; j--)
-				for (int i = 0; i < m->w; i++) {
-					uint8_t f = m->flags[at(m, i, j)];
-					int v = f & F_OWN ? 255 : f & F_TARGET ? 200
-						: f & F_BLOCKED ? 0 : f & F_SOFT ? 90
-						: f & F_SIDE ? 220 : 150;
-					fputc(v, fp);
-				}
-			fclose(fp);
-		}
-		fprintf(stderr, "maze %dx%d cell %lld end %ld\n", m->w, m->h,
-			(long long)m->cell, end);
-	}
-#endif
 	if (!ok || end < 0)
 		goto done;
 	/* walk back to a source, then keep from the last own cell */

@@ -48,6 +48,8 @@ enum gp_maze_layer {
 	GP_MAZE_TARGET,
 	GP_MAZE_FRAGILE,  /* own or target ITO that notches may cut: a
 			   * lead ends end_depth inside it */
+	GP_MAZE_SHADOW,   /* where other leads will run: passable at a
+			   * high cost */
 	GP_MAZE_LAYERS
 };
 
@@ -80,7 +82,7 @@ struct gp_maze;
 struct gp_maze *gp_maze_create(struct gp_box window, int64_t cell);
 void gp_maze_destroy(struct gp_maze *maze);
 /* The cell size a window of this size needs for leads `fine` apart at
- * the least: fine / 4, coarser when the window would be too large. */
+ * the least: fine / 3, coarser when the window would be too large. */
 int64_t gp_maze_cell_for(struct gp_box window, int64_t fine);
 
 void gp_maze_mark_polygon(struct gp_maze *maze, enum gp_maze_layer layer,

@@ -21,6 +21,7 @@
  * leads are spaced for their transfer pads.  What does not fit is an error
  * naming the leads, the place, the room needed and the room there is. */
 #include "route-private.h"
+#include "units.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -110,6 +111,59 @@ static bool in_bundle(const struct bundle *b, int net)
 	return false;
 }
 
+/* Height of the slices a thin slanted obstacle is cut into: its boxes
+ * follow its outline that closely. */
+#define SLICE (250 * 1000)
+
+static bool rectilinear(const struct gp_polygon *p)
+{
+	const struct gp_ring *o = &p->outer;
+	for (size_t i = 0; i < o->count; i++) {
+		struct gp_point a = o->points[i], c = o->points[(i + 1) % o->count];
+		if (a.x != c.x && a.y != c.y)
+			return false;
+	}
+	return p->hole_count == 0 && o->count == 4;
+}
+
+/* A polygon as boxes: one per horizontal slice (in the glass frame; the
+ * boxes are turned with the rest), each as wide as the outline there. */
+static bool add_polygon(struct bundle *b, const struct gp_polygon *p, int net,
+			bool patch, size_t *cap)
+{
+	struct gp_box bb = gp_polygon_bounds(p);
+	/* compact shapes (icons, letters) stay whole, so that leads go
+	 * round them in one move; thin slanted ones (leads, buses) are
+	 * sliced */
+	double box = gp_mm(gp_box_width(bb)) * gp_mm(gp_box_height(bb));
+	if (rectilinear(p) || gp_box_height(bb) <= SLICE ||
+	    gp_polygon_area_mm2(p) > 0.25 * box)
+		return add_obstacle(b, bb, net, patch, cap);
+	const struct gp_ring *o = &p->outer;
+	for (int64_t ya = bb.y0; ya < bb.y1; ya += SLICE) {
+		int64_t yb = min64(ya + SLICE, bb.y1);
+		int64_t x0 = INT64_MAX, x1 = INT64_MIN;
+		for (size_t i = 0; i < o->count; i++) {
+			struct gp_point a = o->points[i];
+			struct gp_point c = o->points[(i + 1) % o->count];
+			if (a.y >= ya && a.y <= yb)
+				x0 = min64(x0, a.x), x1 = max64(x1, a.x);
+			int64_t ys[2] = { ya, yb };
+			for (int k = 0; k < 2; k++) {
+				if ((a.y < ys[k]) == (c.y < ys[k]) || a.y == c.y)
+					continue;
+				double t = (double)(ys[k] - a.y) / (double)(c.y - a.y);
+				int64_t x = a.x + llround(t * (double)(c.x - a.x));
+				x0 = min64(x0, x), x1 = max64(x1, x);
+			}
+		}
+		if (x0 <= x1 &&
+		    !add_obstacle(b, gp_box_make(x0, ya, x1, yb), net, patch, cap))
+			return false;
+	}
+	return true;
+}
+
 static bool collect_obstacles(struct bundle *b)
 {
 	struct route *r = b->r;
@@ -124,7 +178,8 @@ static bool collect_obstacles(struct bundle *b)
 		if (bb.x1 < r->s_in.x0 || bb.x0 > r->s_in.x1 ||
 		    bb.y1 < r->s_in.y0 || bb.y0 > r->s_in.y1)
 			continue;
-		if (!add_obstacle(b, bb, s->net, s->role == GP_ROLE_PATCH, &cap))
+		if (!add_polygon(b, &s->poly, s->net, s->role == GP_ROLE_PATCH,
+				 &cap))
 			return oom(b);
 	}
 	/* leads of nets that leave another way, and bundles done before */
@@ -134,15 +189,9 @@ static bool collect_obstacles(struct bundle *b)
 			continue;
 		if (!add_obstacle(b, n->corridor, (int)i, false, &cap))
 			return oom(b);
-		for (size_t k = 0; k + 1 < n->path_count; k++) {
-			struct gp_point p = n->path[k], q = n->path[k + 1];
-			struct gp_box seg = gp_box_make(min64(p.x, q.x), min64(p.y, q.y),
-							max64(p.x, q.x), max64(p.y, q.y));
-			int64_t h = n->path_width / 2;
-			seg = gp_box_make(seg.x0 - h, seg.y0 - h, seg.x1 + h, seg.y1 + h);
-			if (!add_obstacle(b, seg, (int)i, false, &cap))
-				return oom(b);
-		}
+		if (n->path_count >= 2 &&
+		    !add_polygon(b, &n->path_poly, (int)i, false, &cap))
+			return oom(b);
 	}
 	return true;
 }
@@ -322,11 +371,6 @@ static bool place(struct bundle *b, int64_t y, int64_t below, int64_t above,
 	if (b->hi > at)
 		g[ng++] = (struct span){ at, b->hi };
 	if (ng == 0) {
-		if (getenv("GP_BUNDLE_DEBUG"))
-			for (size_t i = 0; i < nf; i++)
-				fprintf(stderr, "span %lld %lld\n", (long long)f[i].a, (long long)f[i].b);
-		if (getenv("GP_BUNDLE_DEBUG"))
-			fprintf(stderr, "lo %lld hi %lld y %lld\n", (long long)b->lo, (long long)b->hi, (long long)y);
 		free(f);
 		free(g);
 		blame(b, 0, b->active);
@@ -407,14 +451,38 @@ static int dir_of(const struct blead *l)
 /* Diagonals in the band (y, top]: parallel ones staggered so that they
  * keep the spacing (centre lines x +- y = const at least sqrt(2) (w + s)
  * apart), each starting below its lead's start. */
-static bool move(struct bundle *b, int64_t y, int64_t top)
+/* How high above level v[i] a lead may start its move: up to where it
+ * last turned (or started), but not into a band with an obstacle
+ * (not its own) across its way. */
+static int64_t move_top(const struct bundle *b, const struct blead *l,
+			const int64_t *v, size_t i)
 {
+	int64_t cap = l->start.y - l->w;
+	if (l->n)
+		cap = min64(cap, l->pts[l->n - 1].y);
+	int64_t x0 = min64(l->x, l->p), x1 = max64(l->x, l->p);
+	int64_t top = v[i];
+	for (size_t j = i; j-- > 0;) {
+		int64_t lo = v[j + 1], hi = min64(v[j], cap);
+		if (lo >= cap)
+			break;
+		for (size_t k = 0; k < b->obs_count; k++) {
+			const struct bobst *o = &b->obs[k];
+			if (active(o, lo, hi) && o->b.x1 > x0 && o->b.x0 < x1 &&
+			    !exempt(l, o))
+				return top;
+		}
+		top = hi;
+	}
+	return max64(top, v[i]);
+}
+
+static bool move(struct bundle *b, const int64_t *v, size_t i)
+{
+	int64_t y = v[i];
 	for (size_t k = 0; k < b->active; k++) {
 		struct blead *l = &b->leads[b->order[k]];
-		int64_t cap = min64(top, l->start.y - l->w);
-		if (l->n)
-			cap = min64(cap, l->pts[l->n - 1].y);
-		l->ytop = cap;
+		l->ytop = l->p == l->x ? v[i] : move_top(b, l, v, i);
 	}
 	for (size_t k = b->active; k-- > 1;) {
 		struct blead *a = &b->leads[b->order[k - 1]];
@@ -496,7 +564,7 @@ static bool sweep(struct bundle *b)
 		/* positions for the band below y, moved into in the band
 		 * above it (which the leads started so far have crossed) */
 		ok = place(b, y, below, i ? v[i - 1] : y, final) &&
-		     move(b, y, i ? v[i - 1] : y);
+		     move(b, v, i);
 		start_at(b, y);
 		above = y;
 	}
@@ -575,6 +643,13 @@ bool gp_route_bundle(struct route *r, int index, int *culprit)
 		ns->path = path;
 		ns->path_count = (size_t)bl->n;
 		ns->path_width = bl->w;
+		gp_polygon_finish(&ns->path_poly);
+		gp_polygon_init(&ns->path_poly);
+		if (bl->n >= 2 && !gp_route_path_polygon(path, (size_t)bl->n, bl->w,
+							 &ns->path_poly)) {
+			ok = oom(&b);
+			break;
+		}
 		/* the lead crosses the seal from where it arrives */
 		struct cand *c = &ns->cands[ns->chosen];
 		c->at = path[bl->n - 1];

@@ -17,7 +17,7 @@
 #include <string.h>
 
 /* Room round the pieces that a bus may use to go round things. */
-#define JOIN_ROOM (3 * 1000 * 1000)
+#define JOIN_ROOM (1500 * 1000)
 
 static bool is_ito(enum gp_layer layer)
 {
@@ -69,6 +69,7 @@ struct join {
 	enum gp_plate plate;
 	struct gp_polyset pieces;
 	bool *joined;             /* per piece */
+	int target;               /* the piece to reach, -1: any */
 };
 
 /* Marks what is in the window: other nets' ITO (same plate, other plate,
@@ -89,10 +90,27 @@ static void mark(struct join *j, struct gp_maze *m, struct gp_box window)
 		/* marks, text and nothing of a net keep the space too */
 		gp_maze_mark_polygon(m, layer, &s->poly);
 	}
+	/* where the other nets will most likely lead out: straight from
+	 * their electrodes toward their ledges */
+	for (size_t i = 0; i < j->r->net_count; i++) {
+		const struct netstate *n = &j->r->nets[i];
+		if ((int)i == j->net || n->ledge < 0 || gp_box_is_empty(n->centre))
+			continue;
+		struct gp_box c = n->centre, in = j->r->s_in;
+		switch (j->r->g->ledges[n->ledge].side) {
+		case GP_SIDE_BOTTOM: c.y1 = c.y0, c.y0 = in.y0; break;
+		case GP_SIDE_TOP: c.y0 = c.y1, c.y1 = in.y1; break;
+		case GP_SIDE_LEFT: c.x1 = c.x0, c.x0 = in.x0; break;
+		default: c.x0 = c.x1, c.x1 = in.x1; break;
+		}
+		if (!gp_box_is_empty(c) && boxes_meet(c, window))
+			gp_maze_mark_box(m, GP_MAZE_SHADOW, c);
+	}
 	for (size_t k = 0; k < j->pieces.count; k++)
-		gp_maze_mark_polygon(m, j->joined[k] ? GP_MAZE_OWN
-						     : GP_MAZE_TARGET,
-				     &j->pieces.items[k]);
+		if (j->joined[k] || j->target < 0 || (int)k == j->target)
+			gp_maze_mark_polygon(m, j->joined[k] ? GP_MAZE_OWN
+							     : GP_MAZE_TARGET,
+					     &j->pieces.items[k]);
 	for (size_t i = 0; i < art->shape_count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
 		if (s->net == j->net && s->layer == mine &&
@@ -240,6 +258,34 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 	return ok;
 }
 
+/* The box round the target piece and the joined pieces' point nearest
+ * to it. */
+static bool nearest_box(struct join *j, struct gp_box *out)
+{
+	struct gp_polyset done;
+	gp_polyset_init(&done);
+	bool ok = true;
+	for (size_t k = 0; ok && k < j->pieces.count; k++) {
+		struct gp_polygon copy;
+		if (j->joined[k])
+			ok = gp_polygon_copy(&copy, &j->pieces.items[k]) &&
+			     gp_polyset_take(&done, &copy);
+	}
+	const struct gp_polygon *t = &j->pieces.items[j->target];
+	struct gp_geos_shape *a = ok ? gp_geos_shape_from_polygon(j->geos, t) : NULL;
+	struct gp_geos_shape *b = a ? gp_geos_shape_from_polyset(j->geos, &done)
+				    : NULL;
+	struct gp_point pa, pb;
+	ok = b && gp_geos_shape_nearest(j->geos, a, b, &pa, &pb);
+	if (ok)
+		*out = gp_box_union(gp_polygon_bounds(t),
+				    gp_box_make(pb.x, pb.y, pb.x, pb.y));
+	gp_geos_shape_destroy(j->geos, a);
+	gp_geos_shape_destroy(j->geos, b);
+	gp_polyset_finish(&done);
+	return ok || gp_diag_error(j->r->diag, NULL, "out of memory");
+}
+
 static bool join_pieces(struct join *j, size_t *left)
 {
 	struct route *r = j->r;
@@ -264,16 +310,41 @@ static bool join_pieces(struct join *j, size_t *left)
 			open += !j->joined[k];
 		if (open == 0)
 			break;
-		struct gp_box window = gp_box_make(
-			set_bounds(&j->pieces).x0 - JOIN_ROOM,
-			set_bounds(&j->pieces).y0 - JOIN_ROOM,
-			set_bounds(&j->pieces).x1 + JOIN_ROOM,
-			set_bounds(&j->pieces).y1 + JOIN_ROOM);
-		window = clip(window, r->s_in);
+		/* the nearest open piece, in a window round it and the
+		 * joined ones; failing that any piece, anywhere in the seal */
+		struct gp_box done = gp_box_none();
+		for (size_t k = 0; k < n; k++)
+			if (j->joined[k])
+				done = gp_box_union(done, gp_polygon_bounds(
+								  &j->pieces.items[k]));
+		double best = -1;
+		for (size_t k = 0; k < n; k++) {
+			struct gp_box b = gp_polygon_bounds(&j->pieces.items[k]);
+			double dx = (double)max64(0, max64(b.x0 - done.x1, done.x0 - b.x1));
+			double dy = (double)max64(0, max64(b.y0 - done.y1, done.y0 - b.y1));
+			if (!j->joined[k] && (best < 0 || dx * dx + dy * dy < best)) {
+				best = dx * dx + dy * dy;
+				j->target = (int)k;
+			}
+		}
+		/* first round: round the target and the nearest point of the
+		 * joined pieces */
+		struct gp_box close = done;
+		ok = nearest_box(j, &close);
 		bool found = false;
-		for (int w = 0; ok && !found && w < 2; w++)
-			if (w == 0 || widths[1] != widths[0])
-				ok = one_bus(j, window, widths[w], &found);
+		for (int round = 0; ok && !found && round < 2; round++) {
+			struct gp_box near = round ? set_bounds(&j->pieces) : close;
+			int64_t room = round ? 2 * JOIN_ROOM : JOIN_ROOM;
+			struct gp_box window = clip(
+				gp_box_make(near.x0 - room, near.y0 - room,
+					    near.x1 + room, near.y1 + room),
+				r->s_in);
+			if (round)
+				j->target = -1;
+			for (int w = 0; ok && !found && w < 2; w++)
+				if (w == 0 || widths[1] != widths[0])
+					ok = one_bus(j, window, widths[w], &found);
+		}
 		if (!ok || !found)
 			break;
 	}

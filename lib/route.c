@@ -174,10 +174,12 @@ static void block_cands(struct route *r, int net, struct netstate *n)
  * the electrode so that lead and electrode share area. */
 struct extreme {
 	struct gp_point p;
+	struct gp_box box;        /* bounds of the shape it is on */
 	bool found;
 };
 
-static void consider(struct extreme *e, struct gp_point p, enum gp_side side)
+static void consider(struct extreme *e, struct gp_point p, enum gp_side side,
+		     struct gp_box box)
 {
 	bool better = !e->found;
 	switch (side) {
@@ -187,7 +189,7 @@ static void consider(struct extreme *e, struct gp_point p, enum gp_side side)
 	default: better |= p.x > e->p.x; break;
 	}
 	if (better)
-		e->p = p, e->found = true;
+		e->p = p, e->box = box, e->found = true;
 }
 
 static void shape_cands(struct route *r, int net, struct netstate *n)
@@ -209,6 +211,7 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 		if (s->net != net || s->layer != layer)
 			continue;
 		const struct gp_ring *o = &s->poly.outer;
+		struct gp_box sbox = gp_polygon_bounds(&s->poly);
 		/* middles of flat edges first: of equally outermost points
 		 * the first is kept, and a lead from the middle of a flat
 		 * side has room on both hands */
@@ -225,11 +228,11 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 				bool across = d == GP_SIDE_BOTTOM || d == GP_SIDE_TOP;
 				int64_t at = across ? p.x - b.x0 : p.y - b.y0;
 				int64_t third = across ? w3 : h3;
-				consider(&e[d][0], p, (enum gp_side)d);
+				consider(&e[d][0], p, (enum gp_side)d, sbox);
 				if (at <= third)
-					consider(&e[d][1], p, (enum gp_side)d);
+					consider(&e[d][1], p, (enum gp_side)d, sbox);
 				if (at >= 2 * third)
-					consider(&e[d][2], p, (enum gp_side)d);
+					consider(&e[d][2], p, (enum gp_side)d, sbox);
 			}
 		}
 	}
@@ -243,6 +246,15 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 			if (!e[order[k]][t].found)
 				continue;
 			struct gp_point p = e[order[k]][t].p;
+			/* a whole lead's width inside the shape across */
+			struct gp_box sb = e[order[k]][t].box;
+			bool across = order[k] == GP_SIDE_BOTTOM ||
+				      order[k] == GP_SIDE_TOP;
+			int64_t lo = (across ? sb.x0 : sb.y0) + w;
+			int64_t hi = (across ? sb.x1 : sb.y1) - w;
+			int64_t *v = across ? &p.x : &p.y;
+			if (lo <= hi)
+				*v = *v < lo ? lo : *v > hi ? hi : *v;
 			switch (order[k]) {
 			case GP_SIDE_BOTTOM: p.y += depth; break;
 			case GP_SIDE_TOP: p.y -= depth; break;
@@ -290,6 +302,25 @@ static bool point_in(const struct gp_polygon *p, struct gp_point q)
 static void set_reach(struct route *r, int net, struct cand *c)
 {
 	const struct gp_artwork *art = &r->build->art;
+	/* off the patch's corner: a lead's width in from its sides */
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->role != GP_ROLE_PATCH ||
+		    !point_in(&s->poly, c->at))
+			continue;
+		struct gp_box sb = gp_polygon_bounds(&s->poly);
+		bool across = c->side == GP_SIDE_BOTTOM || c->side == GP_SIDE_TOP;
+		int64_t w = c->width;
+		int64_t lo = (across ? sb.x0 : sb.y0) + w;
+		int64_t hi = (across ? sb.x1 : sb.y1) - w;
+		struct gp_point q = c->at;
+		int64_t *v = across ? &q.x : &q.y;
+		if (lo <= hi)
+			*v = *v < lo ? lo : *v > hi ? hi : *v;
+		if (point_in(&s->poly, q))
+			c->at = q;
+		break;
+	}
 	int64_t want = r->design->rules.registration + r->g->leads.width;
 	struct gp_point far = c->at;
 	switch (c->side) {
@@ -311,18 +342,37 @@ static void set_reach(struct route *r, int net, struct cand *c)
 
 static void set_reaches(struct route *r)
 {
-	const struct gp_artwork *art = &r->build->art;
 	bool *has = calloc(r->net_count + 1, sizeof(*has));
 	if (!has)
 		return;   /* only a refinement */
-	for (size_t i = 0; i < art->shape_count; i++)
-		if (art->shapes[i].role == GP_ROLE_PATCH && art->shapes[i].net >= 0 &&
-		    (size_t)art->shapes[i].net < r->net_count)
-			has[art->shapes[i].net] = true;
+	for (size_t i = 0; i < r->build->art.shape_count; i++) {
+		const struct gp_shape *s = &r->build->art.shapes[i];
+		if (s->role == GP_ROLE_PATCH && s->net >= 0 &&
+		    (size_t)s->net < r->net_count)
+			has[s->net] = true;
+	}
+	const struct gp_artwork *art = &r->build->art;
 	for (size_t i = 0; i < r->net_count; i++) {
-		r->nets[i].patch = has[i];
-		for (int k = 0; has[i] && k < r->nets[i].cand_count; k++)
-			set_reach(r, (int)i, &r->nets[i].cands[k]);
+		struct netstate *n = &r->nets[i];
+		n->patch = has[i];
+		if (!has[i])
+			continue;
+		/* ends offered before a bus notched the patch may lie where
+		 * the patch is no more */
+		int kept = 0;
+		for (int k = 0; k < n->cand_count; k++) {
+			bool on = false;
+			for (size_t s = 0; s < art->shape_count && !on; s++)
+				on = art->shapes[s].net == (int)i &&
+				     art->shapes[s].layer ==
+					     gp_plate_ito_layer(art->nets[i].plate) &&
+				     point_in(&art->shapes[s].poly, n->cands[k].at);
+			if (on)
+				n->cands[kept++] = n->cands[k];
+		}
+		n->cand_count = kept;
+		for (int k = 0; k < n->cand_count; k++)
+			set_reach(r, (int)i, &n->cands[k]);
 	}
 	free(has);
 }
@@ -942,6 +992,61 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
  * plate shift can bring them together (registration x sqrt 2), except
  * under the patch's own front shapes, which stay covered.  A patch may not
  * fall apart. */
+/* The part of a lead over its own pixel's patch but off the pixel: it
+ * lights with the pixel, so it joins the pixel's nominal region. */
+static bool add_spur(struct gp_geos *geos, struct gp_pixel *px,
+		     const struct gp_polyset *lead, const struct gp_polygon *patch,
+		     const struct gp_polyset *region)
+{
+	struct gp_polyset back, over, spur, all, merged;
+	gp_polyset_init(&back);
+	gp_polyset_init(&over);
+	gp_polyset_init(&spur);
+	gp_polyset_init(&all);
+	gp_polyset_init(&merged);
+	struct gp_polygon p;
+	bool ok = gp_polygon_copy(&p, patch) && gp_polyset_take(&back, &p) &&
+		  gp_geos_intersection(geos, lead, &back, &over) &&
+		  gp_geos_difference(geos, &over, region, &spur);
+	double area = 0;
+	for (size_t k = 0; k < spur.count; k++)
+		area += gp_polygon_area_mm2(&spur.items[k]);
+	if (!ok || area < 1e-9)
+		goto out;
+	/* the region's parts united again, so that they neither overlap
+	 * nor touch */
+	ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
+				   : gp_polygon_set_box(&p, px->box);
+	ok = ok && gp_polyset_take(&all, &p);
+	for (size_t k = 0; ok && k < px->more.count; k++)
+		ok = gp_polygon_copy(&p, &px->more.items[k]) &&
+		     gp_polyset_take(&all, &p);
+	for (size_t k = 0; ok && k < spur.count; k++)
+		ok = gp_polygon_copy(&p, &spur.items[k]) &&
+		     gp_polyset_take(&all, &p);
+	ok = ok && gp_geos_union_set(geos, &all, &merged) && merged.count;
+	if (ok) {
+		gp_polygon_finish(&px->shape);
+		px->shape = merged.items[0];
+		gp_polygon_init(&merged.items[0]);
+		gp_polyset_finish(&px->more);
+		gp_polyset_init(&px->more);
+		struct gp_box box = gp_polygon_bounds(&px->shape);
+		for (size_t k = 1; ok && k < merged.count; k++) {
+			box = gp_box_union(box, gp_polygon_bounds(&merged.items[k]));
+			ok = gp_polyset_take(&px->more, &merged.items[k]);
+		}
+		px->box = box;
+	}
+out:
+	gp_polyset_finish(&back);
+	gp_polyset_finish(&over);
+	gp_polyset_finish(&spur);
+	gp_polyset_finish(&all);
+	gp_polyset_finish(&merged);
+	return ok;
+}
+
 bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 		    const struct gp_polygon *lead, int lead_net)
 {
@@ -961,22 +1066,86 @@ bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 	gp_polygon_init(&p);
 	bool ok = gp_polygon_copy(&p, lead) && gp_polyset_take(&lead_set, &p) &&
 		  gp_geos_dilate_box(geos, &lead_set, clear, clear, &cut);
+	/* the patch's pixels stay; so does their margin where the lead is
+	 * one of theirs leaving them (the first margin of it then lights
+	 * with the pixel, a spur no wider than the lead) */
+	struct gp_polyset root, ring;
+	gp_polyset_init(&root);
+	gp_polyset_init(&ring);
+	struct gp_pixel *mine = NULL;
 	for (size_t i = 0; ok && i < art->pixel_count; i++) {
-		const struct gp_pixel *px = &art->pixels[i];
+		struct gp_pixel *px = &art->pixels[i];
 		if (px->common != net && px->segment != net)
 			continue;
+		bool own = px->common == lead_net || px->segment == lead_net;
+		if (own && !mine)
+			mine = px;
 		ok = px->shape.outer.count ? gp_polygon_copy(&p, &px->shape)
 					   : gp_polygon_set_box(&p, px->box);
-		ok = ok && gp_polyset_take(&keep, &p);
+		ok = ok && gp_polyset_take(own ? &root : &keep, &p);
+		for (size_t k = 0; ok && k < px->more.count; k++)
+			ok = gp_polygon_copy(&p, &px->more.items[k]) &&
+			     gp_polyset_take(own ? &root : &keep, &p);
 	}
-	ok = ok && gp_geos_difference(geos, &cut, &keep, &notch) &&
+	int64_t m = r->design->rules.registration;
+	ok = ok && (root.count == 0 ||
+		    gp_geos_dilate_box(geos, &root, m, m, &ring));
+	for (size_t k = 0; ok && k < ring.count; k++)
+		ok = gp_polygon_copy(&p, &ring.items[k]) &&
+		     gp_polyset_take(&keep, &p);
+	/* near the patch's own leads and buses the patch stays, so that
+	 * they stay attached; never under the lead itself */
+	struct gp_polyset own, own_near, soft, both;
+	gp_polyset_init(&own);
+	gp_polyset_init(&own_near);
+	gp_polyset_init(&soft);
+	gp_polyset_init(&both);
+	struct gp_box cb = gp_polygon_bounds(lead);
+	cb = gp_box_make(cb.x0 - 2 * clear, cb.y0 - 2 * clear, cb.x1 + 2 * clear,
+			 cb.y1 + 2 * clear);
+	enum gp_layer layer = art->shapes[shape].layer;
+	for (size_t i = 0; ok && i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_box sb = gp_polygon_bounds(&s->poly);
+		if (s->net != net || s->layer != layer ||
+		    s->role == GP_ROLE_PATCH || sb.x1 < cb.x0 || sb.x0 > cb.x1 ||
+		    sb.y1 < cb.y0 || sb.y0 > cb.y1)
+			continue;
+		ok = gp_polygon_copy(&p, &s->poly) && gp_polyset_take(&own, &p);
+	}
+	/* and its lead, not drawn yet */
+	const struct netstate *ns = net >= 0 && (size_t)net < r->net_count
+					    ? &r->nets[net] : NULL;
+	if (ok && ns && ns->ledge >= 0 && ns->decided) {
+		ok = gp_polygon_set_box(&p, ns->corridor) &&
+		     gp_polyset_take(&own, &p);
+		if (ok && ns->path_count >= 2)
+			ok = gp_polygon_copy(&p, &ns->path_poly) &&
+			     gp_polyset_take(&own, &p);
+	}
+	ok = ok && gp_geos_difference(geos, &cut, &keep, &soft) &&
+	     gp_geos_dilate_box(geos, &own, clear, clear, &own_near) &&
+	     gp_geos_difference(geos, &soft, &own_near, &both);
+	gp_polyset_finish(&own);
+	gp_polyset_init(&own);
+	ok = ok &&
+	     gp_polygon_copy(&p, lead) && gp_polyset_take(&both, &p) &&
+	     gp_geos_union_set(geos, &both, &own) &&
+	     gp_geos_difference(geos, &own, &keep, &notch) &&
 	     gp_polygon_copy(&p, &art->shapes[shape].poly) &&
 	     gp_polyset_take(&patch, &p) &&
 	     gp_geos_difference(geos, &patch, &notch, &left);
+	gp_polyset_finish(&own);
+	gp_polyset_finish(&own_near);
+	gp_polyset_finish(&soft);
+	gp_polyset_finish(&both);
 	if (ok && left.count == 1) {
 		gp_polygon_finish(&art->shapes[shape].poly);
 		art->shapes[shape].poly = left.items[0];
 		gp_polygon_init(&left.items[0]);
+		if (mine)
+			ok = add_spur(geos, mine, &lead_set,
+				      &art->shapes[shape].poly, &root);
 	} else if (ok) {
 		char x[32], y[32];
 		struct gp_box b = gp_polygon_bounds(lead);
@@ -990,6 +1159,8 @@ bool gp_route_notch(struct route *r, struct gp_geos *geos, size_t shape,
 				   mm(x, b.x0), mm(y, b.y0));
 	}
 	gp_polygon_finish(&p);
+	gp_polyset_finish(&root);
+	gp_polyset_finish(&ring);
 	gp_polyset_finish(&lead_set);
 	gp_polyset_finish(&cut);
 	gp_polyset_finish(&keep);
@@ -1284,6 +1455,8 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 			free(n->path);
 			n->path = NULL;
 			n->path_count = 0;
+			gp_polygon_finish(&n->path_poly);
+			gp_polygon_init(&n->path_poly);
 		}
 		ok = choose_ends(r, index, geos);
 		for (size_t i = 0; ok && i < r->net_count; i++)
@@ -1295,6 +1468,10 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		bool retry = !ok && culprit >= 0 && !scratch.lost &&
 			     r->nets[culprit].bend[r->nets[culprit].chosen] &&
 			     attempt < r->net_count;
+		if (getenv("GP_BUNDLE_DEBUG"))
+			for (size_t q = 0; q < scratch.count; q++)
+				fprintf(stderr, "attempt %zu: %s\n", attempt,
+					scratch.entries[q].message);
 		if (!retry)
 			forward(diag, &scratch);
 		gp_diag_finish(&scratch);
@@ -1355,13 +1532,6 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 			ok = gp_geos_index_add(index, gp_polygon_bounds(&s->poly), i);
 	}
 	ok = ok && choose_and_bundle(&r, index, geos);
-	for (size_t i = 0; ok && i < r.net_count; i++) {
-		struct netstate *n = &r.nets[i];
-		if (n->path_count >= 2 &&
-		    !gp_route_path_polygon(n->path, n->path_count, n->path_width,
-					   &n->path_poly))
-			ok = gp_diag_error(diag, NULL, "out of memory");
-	}
 	ok = ok && notch_patches(&r, geos);
 	if (!ok)
 		goto out;

@@ -330,6 +330,9 @@ static void check_overlap(struct gp_geos *geos, const struct gp_build *b)
 		else
 			assert_true(gp_polygon_set_box(&poly, p->box));
 		assert_true(gp_polyset_take(&px, &poly));
+		/* further parts of the region (letters, spurs) */
+		for (size_t k = 0; k < p->more.count; k++)
+			copy_into(&px, &p->more.items[k]);
 	}
 	struct gp_geos_shape *pixels = gp_geos_shape_from_polyset(geos, &px);
 	struct gp_geos_shape *shapes[] = { pixels };
