@@ -356,8 +356,9 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 			fl |= F_CLOSED; /* here: not an end on a side */
 		m->flags[k] = fl;
 	}
-	/* patches: blocked but near the lead's own ITO */
-	if (!(m->used & (1u << GP_MAZE_PATCH)))
+	/* patches and where other leads will run: blocked but near the
+	 * lead's own ITO */
+	if (!(m->used & ((1u << GP_MAZE_PATCH) | (1u << GP_MAZE_SHADOW))))
 		goto depth;
 	ok = transform(m, 1u << GP_MAZE_PATCH, false, other) &&
 	     transform(m, (1u << GP_MAZE_OWN) |
@@ -367,6 +368,11 @@ static bool prepare(struct gp_maze *m, const struct gp_maze_rules *r)
 		goto out;
 	double reach = (double)r->patch_reach / (double)m->cell;
 	float l_reach = (float)(reach * reach);
+	double sreach = (double)r->shadow_reach / (double)m->cell;
+	float l_sreach = (float)(sreach * sreach);
+	for (size_t k = 0; k < n; k++)
+		if ((m->flags[k] & F_SHADOW) && same[k] > l_sreach)
+			m->flags[k] |= F_BLOCKED;
 	for (size_t k = 0; k < n; k++) {
 		if (other[k] >= l_soft)
 			continue;

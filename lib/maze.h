@@ -49,7 +49,8 @@ enum gp_maze_layer {
 	GP_MAZE_FRAGILE,  /* own or target ITO that notches may cut: a
 			   * lead ends end_depth inside it */
 	GP_MAZE_SHADOW,   /* where other leads will run: passable at a
-			   * high cost */
+			   * high cost within shadow_reach of the lead's
+			   * own ITO (or its target), else not */
 	GP_MAZE_LAYERS
 };
 
@@ -63,6 +64,7 @@ struct gp_maze_rules {
 	int64_t other;            /* to GP_MAZE_OTHER (hard) */
 	int64_t soft_other;       /* to GP_MAZE_OTHER and PATCH (preferred) */
 	int64_t patch_reach;      /* PATCH passable this near GP_MAZE_OWN */
+	int64_t shadow_reach;     /* SHADOW passable this near GP_MAZE_OWN */
 	/* side_cost[s] >= 0: the path may end on side s of the window, at
 	 * this extra cost (in nm of path); < 0: not on that side.  Ending on
 	 * a side needs `side_space` from GP_MAZE_SAME there. */

@@ -457,7 +457,7 @@ static int dir_of(const struct blead *l)
 static int64_t move_top(const struct bundle *b, const struct blead *l,
 			const int64_t *v, size_t i)
 {
-	int64_t cap = l->start.y - l->w;
+	int64_t cap = l->start.y;
 	if (l->n)
 		cap = min64(cap, l->pts[l->n - 1].y);
 	int64_t x0 = min64(l->x, l->p), x1 = max64(l->x, l->p);

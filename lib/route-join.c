@@ -225,6 +225,7 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 		.other = 0,
 		.soft_other = (int64_t)ceil((double)rules->registration * SQRT2),
 		.patch_reach = 2 * rules->registration + width,
+		.shadow_reach = JOIN_ROOM,
 		.side_cost = { -1, -1, -1, -1 },
 		.to_target = true,
 		.end_depth = 2 * rules->registration + width,
@@ -366,11 +367,31 @@ static bool report_split(struct join *j)
 			q = bb;
 	}
 	struct route *r = j->r;
+	/* a multiplexed digit row's common: walled in by the lead-ins */
+	const struct gp_build *bd = r->build;
+	for (size_t i = 0; i < bd->digit_row_count; i++) {
+		const struct gp_digit_row *row = &bd->digit_rows[i];
+		const struct gp_digits *dr = &r->design->digits[i];
+		if (j->net < row->first_common ||
+		    j->net >= row->first_common + row->common_count)
+			continue;
+		return gp_diag_error(
+			r->diag, &dr->where,
+			"digits '%s': the patches of %s (one per digit and "
+			"common, %zu pieces) cannot be joined: the lead-ins "
+			"beside each digit wall them in (near (%s, %s) mm); "
+			"only static rows and the 1/4-duty grid (7 segments "
+			"with a point on every digit, no colon, no sign unit, "
+			"the documented assignment) can be routed",
+			dr->name, net_name(r, j->net), j->pieces.count,
+			mm(a, (q.x0 + q.x1) / 2), mm(b, (q.y0 + q.y1) / 2));
+	}
 	return gp_diag_error(
 		r->diag, NULL,
 		"%s: %s is in %zu pieces on the %s plate and the piece near "
 		"(%s, %s) mm cannot be joined to the one near (%s, %s) mm "
-		"inside the seal without crossing other electrodes or leads; "
+		"inside the seal without crossing other electrodes, leads or "
+		"the ways other leads take to the ledge; "
 		"give the elements their own %s, or move them together",
 		r->design->spec->file, net_name(r, j->net), j->pieces.count,
 		j->plate == GP_PLATE_FRONT ? "front" : "back",

@@ -670,6 +670,94 @@ static void route_split_icons(void **state)
 	finish(&f);
 }
 
+/* Two icons under a block on one common: the block's columns come down
+ * between them, so no bus can join their patches inside the seal. */
+static void route_split_unjoinable(void **state)
+{
+	(void)state;
+	expect_error(
+		"glass: {part: T-9}\n"
+		"front: {size: [50, 27], position: [0, -3]}\n"
+		"back: {size: [50, 20], position: [0, 4]}\n"
+		"viewing_area: {position: [4, 7], size: [42, 15]}\n"
+		"blocks:\n"
+		"  r: {origin: [5, 20.5], cells: [6, 1], dots: [5, 8],"
+		" dot_size: [0.45, 0.5], dot_pitch: [0.5, 0.55], cell_pitch: 3}\n"
+		"icons:\n"
+		"  a: {shape: circle, diameter: 1, position: [9.5, 11],"
+		" common: c1, segment: s1}\n"
+		"  b: {shape: circle, diameter: 1, position: [15.5, 11],"
+		" common: c1, segment: s2}\n"
+		"ledges:\n"
+		"  main: {side: bottom, pitch: 0.6, pad_width: 0.3,"
+		" pad_length: 1.5, edge_clearance: 0.3}\n"
+		"seal: {width: 1, distance: 0.2}\n"
+		"leads: {width: 0.05, space: 0.05}\n",
+		"COM9 is in 2 pieces on the back plate and the piece near "
+		"(15.5, 11) mm cannot be joined to the one near (9.5, 11) mm");
+}
+
+/* A row of digits; %d: duty, %s: more keys of the row, then the ledge
+ * side, then the plates and viewing area. */
+static char *digit_glass(int duty, const char *more, const char *side,
+			 const char *plates)
+{
+	char *text = malloc(4096);
+	snprintf(text, 4096,
+		 "glass: {part: T-10, segments_on: front}\n"
+		 "%s"
+		 "rules: {min_line: 0.03, min_space: 0.03, registration: 0.04}\n"
+		 "digits:\n"
+		 "  clock:\n"
+		 "    origin: [6, 11]\n    count: 4\n    pitch: 9\n"
+		 "    segments: 7\n    height: 10\n    width: 5\n"
+		 "    stroke: 1\n    gap: 0.2\n    slant: 6\n"
+		 "    ends: bevelled\n"
+		 "    point: {shape: round, size: 0.9}\n"
+		 "    duty: %d\n%s"
+		 "ledges:\n"
+		 "  main: {side: %s, pitch: 0.6, pad_width: 0.3, pad_length: 2,"
+		 " connection: {method: elastomeric, pitch: 0.1}}\n"
+		 "leads: {width: 0.03, space: 0.03}\n"
+		 "seal: {width: 0.8, distance: 0.4}\n",
+		 plates, duty, more, side);
+	return text;
+}
+
+/* Multiplexed rows but the grid: the lead-ins beside each digit wall the
+ * per-digit patches of a common in; the build says so. */
+static void digits_walled_in(void **state)
+{
+	(void)state;
+	const char *plates =
+		"front: {size: [46, 26]}\n"
+		"back: {size: [46, 21], position: [0, 5]}\n"
+		"viewing_area: {position: [3, 8], size: [40, 15]}\n";
+	char *text = digit_glass(3, "", "bottom", plates);
+	expect_error(text, "digits 'clock': the patches of COM1 (one per "
+			   "digit and common, 12 pieces) cannot be joined");
+	free(text);
+}
+
+/* The 1/4-duty grid with its ledge at the top: the lines leave the row
+ * downward and go round the seal; every net connected to one pad. */
+static void digits_ledge_on_top(void **state)
+{
+	(void)state;
+	const char *plates =
+		"front: {size: [46, 28]}\n"
+		"back: {size: [46, 23]}\n"
+		"viewing_area: {position: [3, 5], size: [40, 16.5]}\n";
+	char *text = digit_glass(4, "", "top", plates);
+	struct fixture f;
+	load_ok(&f, text);
+	assert_int_equal(f.build->pin_count, 12);
+	assert_int_equal(f.build->ledges[0].side, GP_SIDE_TOP);
+	check_all(f.build);
+	finish(&f);
+	free(text);
+}
+
 /* The build resolves the ledges (the plate that overhangs, pin 1 under
  * the leads) in its own copies: the design stays as read, so that one
  * design can be built again and give the same. */
@@ -1126,6 +1214,9 @@ int main(void)
 		cmocka_unit_test(route_round_the_top),
 		cmocka_unit_test(route_icons),
 		cmocka_unit_test(route_split_icons),
+		cmocka_unit_test(route_split_unjoinable),
+		cmocka_unit_test(digits_walled_in),
+		cmocka_unit_test(digits_ledge_on_top),
 		cmocka_unit_test(design_unchanged),
 		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
