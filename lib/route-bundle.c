@@ -66,7 +66,8 @@ struct bundle {
 	int64_t shift;            /* from the other plate's leads */
 	int64_t lo, hi;           /* where lead centres may be, across */
 	int64_t y_seal;
-	int culprit;              /* a lead that went round, when one failed */
+	int culprit;              /* a lead to send another way, when one
+				   * failed */
 };
 
 static bool oom(struct bundle *b)
@@ -284,6 +285,12 @@ static void blame(struct bundle *b, size_t from, size_t to)
 		int net = b->leads[b->order[k]].net;
 		const struct netstate *n = &b->r->nets[net];
 		if (n->bend[n->chosen])
+			b->culprit = net;
+	}
+	/* else one with another way out */
+	for (size_t k = from; k < to && b->culprit < 0; k++) {
+		int net = b->leads[b->order[k]].net;
+		if (b->r->nets[net].usable > 1)
 			b->culprit = net;
 	}
 }
@@ -506,10 +513,7 @@ static bool move(struct bundle *b, const int64_t *v, size_t i)
 		l->ybot = l->ytop - shift;
 		if (l->ybot < y) {
 			char a[32], c[32], d[32], e[32];
-			if (b->r->nets[l->net].bend[b->r->nets[l->net].chosen])
-				b->culprit = l->net;
-			else
-				blame(b, 0, b->active);
+			b->culprit = l->net;
 			struct gp_point at = from_canon(
 				b->l->side, (struct gp_point){ l->x, l->ytop });
 			return gp_diag_error(

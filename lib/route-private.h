@@ -95,6 +95,7 @@ struct netstate {
 				   * straight but can go round (route-bundle.c) */
 	bool bundle;              /* leaves toward its ledge (route-bundle.c) */
 	bool no_bend;             /* going round failed: leave straight */
+	bool banned[16];          /* cands that failed going round */
 	bool decided;             /* corridor (and path) final */
 	struct gp_point *path;    /* a bundle lead inside the seal, to c->at */
 	size_t path_count;

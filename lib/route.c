@@ -731,6 +731,10 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 		k.all = down;
 		if (!blocked(r, index, &k, corridor_box(r, &narrow, n->ext)))
 			return false;
+		if (n->banned[c]) {
+			key[c] = -1;
+			continue;
+		}
 		int rank = cand_rank(r, n, cd);
 		int extra = n->patch && cd->reach == 0;
 		n->bend[c] = false;
@@ -1492,15 +1496,21 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		for (size_t i = 0; ok && i < r->g->ledge_count; i++)
 			ok = gp_route_bundle(r, (int)i, &culprit);
 		r->diag = diag;
-		bool retry = !ok && culprit >= 0 && !scratch.lost &&
-			     r->nets[culprit].bend[r->nets[culprit].chosen] &&
+		struct netstate *c = culprit >= 0 ? &r->nets[culprit] : NULL;
+		bool retry = !ok && c && !scratch.lost &&
+			     (c->bend[c->chosen] || c->usable > 1) &&
 			     attempt < r->net_count;
 		if (!retry)
 			forward(diag, &scratch);
 		gp_diag_finish(&scratch);
 		if (!retry)
 			break;
-		r->nets[culprit].no_bend = true;
+		/* a lead that went round leaves straight; one that went
+		 * straight takes its next end */
+		if (c->bend[c->chosen])
+			c->no_bend = true;
+		else
+			c->banned[c->chosen] = true;
 	}
 	free(saved);
 	return ok;

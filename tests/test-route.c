@@ -739,8 +739,9 @@ static void digits_walled_in(void **state)
 	free(text);
 }
 
-/* The 1/4-duty grid with its ledge at the top: the lines leave the row
- * downward and go round the seal; every net connected to one pad. */
+/* The 1/4-duty grid with its ledge at the top or on the left: the lines
+ * leave the row downward and go round the seal; every net connected to
+ * one pad. */
 static void digits_ledge_on_top(void **state)
 {
 	(void)state;
@@ -753,6 +754,16 @@ static void digits_ledge_on_top(void **state)
 	load_ok(&f, text);
 	assert_int_equal(f.build->pin_count, 12);
 	assert_int_equal(f.build->ledges[0].side, GP_SIDE_TOP);
+	check_all(f.build);
+	finish(&f);
+	free(text);
+	/* and on the left, where the commons leave toward it */
+	text = digit_glass(4, "", "left",
+			   "front: {size: [51, 21], position: [-5, 5]}\n"
+			   "back: {size: [46, 21], position: [0, 5]}\n"
+			   "viewing_area: {position: [3, 8], size: [40, 15]}\n");
+	load_ok(&f, text);
+	assert_int_equal(f.build->pin_count, 12);
 	check_all(f.build);
 	finish(&f);
 	free(text);
