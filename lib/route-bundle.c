@@ -560,7 +560,6 @@ static bool sweep(struct bundle *b)
 	if (!v)
 		return oom(b);
 	bool ok = true;
-	int64_t above = n ? v[0] : b->y_seal;
 	for (size_t i = 0; ok && i < n; i++) {
 		int64_t y = v[i];
 		bool final = i + 1 == n;
@@ -570,9 +569,7 @@ static bool sweep(struct bundle *b)
 		ok = place(b, y, below, i ? v[i - 1] : y, final) &&
 		     move(b, v, i);
 		start_at(b, y);
-		above = y;
 	}
-	(void)above;
 	for (size_t k = 0; k < b->count; k++)
 		push_point(&b->leads[k], b->leads[k].x, b->y_seal);
 	free(v);

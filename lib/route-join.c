@@ -25,7 +25,7 @@ static bool is_ito(enum gp_layer layer)
 }
 
 /* The pieces of net on its plate: the union of its ITO there. */
-static bool net_pieces(struct route *r, struct gp_geos *geos, int net,
+static bool net_pieces(struct route *r, struct gp_geos *geos,
 		       const size_t *shapes, size_t count,
 		       struct gp_polyset *out)
 {
@@ -37,7 +37,6 @@ static bool net_pieces(struct route *r, struct gp_geos *geos, int net,
 		ok = gp_polygon_copy(&copy, &r->build->art.shapes[shapes[k]].poly) &&
 		     gp_polyset_take(&all, &copy);
 	}
-	(void)net;
 	ok = ok && gp_geos_union_set(geos, &all, out);
 	gp_polyset_finish(&all);
 	return ok;
@@ -445,7 +444,7 @@ bool gp_route_join(struct route *r, struct gp_geos *geos)
 		struct join j = { .r = r, .geos = geos, .net = (int)n,
 				  .plate = r->build->art.nets[n].plate };
 		gp_polyset_init(&j.pieces);
-		ok = net_pieces(r, geos, (int)n, items + a, b - a, &j.pieces);
+		ok = net_pieces(r, geos, items + a, b - a, &j.pieces);
 		if (ok && j.pieces.count > 1) {
 			j.joined = calloc(j.pieces.count, sizeof(*j.joined));
 			size_t left = 0;
