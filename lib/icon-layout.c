@@ -408,9 +408,8 @@ static bool copy_into(struct gp_polyset *dst, const struct gp_polyset *src)
 	return true;
 }
 
-/* Every front-plate trace a patch must keep clear of: the icons' bridges
- * and whatever earlier stages put on the front plate. */
-static bool front_traces(struct layout *l, struct gp_polyset *traces)
+/* Copies of the front-plate shapes earlier stages made (not lines). */
+static bool earlier_front(struct layout *l, struct gp_polyset *out)
 {
 	const struct gp_artwork *art = &l->build->art;
 	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
@@ -420,9 +419,18 @@ static bool front_traces(struct layout *l, struct gp_polyset *traces)
 		if (s->layer != layer || s->open_path)
 			continue;
 		if (!gp_polygon_copy(&copy, &s->poly) ||
-		    !gp_polyset_take(traces, &copy))
+		    !gp_polyset_take(out, &copy))
 			return false;
 	}
+	return true;
+}
+
+/* Every front-plate trace a patch must keep clear of: the icons' bridges
+ * and whatever earlier stages put on the front plate. */
+static bool front_traces(struct layout *l, struct gp_polyset *traces)
+{
+	if (!earlier_front(l, traces))
+		return false;
 	for (size_t i = 0; i < l->design->icon_count; i++)
 		if (!copy_into(traces, &l->icons[i].bridges))
 			return false;
@@ -478,17 +486,8 @@ static int64_t shift_reach(const struct gp_rules *r)
 static bool foreign_front(struct layout *l, size_t self,
 			  struct gp_polyset *out)
 {
-	const struct gp_artwork *art = &l->build->art;
-	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
-	for (size_t i = 0; i < art->shape_count; i++) {
-		const struct gp_shape *s = &art->shapes[i];
-		struct gp_polygon copy;
-		if (s->layer != layer || s->open_path)
-			continue;
-		if (!gp_polygon_copy(&copy, &s->poly) ||
-		    !gp_polyset_take(out, &copy))
-			return false;
-	}
+	if (!earlier_front(l, out))
+		return false;
 	for (size_t i = 0; i < l->design->icon_count; i++)
 		if (i != self && (!copy_into(out, &l->icons[i].front) ||
 				  !copy_into(out, &l->icons[i].bridges)))
