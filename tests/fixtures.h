@@ -4,6 +4,7 @@
 
 #include "diag.h"
 #include "geos.h"
+#include "test-files.h"
 
 /* A diagnostics object and a GEOS context, made fresh for each test. */
 struct fixture {
@@ -14,5 +15,6 @@ struct fixture {
 /* cmocka setup and teardown: *state is a struct fixture. */
 int setup(void **state);
 int teardown(void **state);
+
 
 #endif

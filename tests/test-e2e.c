@@ -10,6 +10,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "fixtures.h"
+
 #include "build.h"
 #include "geos.h"
 #include "gerbv-render.h"
@@ -28,29 +30,6 @@
 #define DPI 400.0
 #define DETAIL_DPI 4000.0
 #define DETAIL_HALF_PX 800
-
-static const char *env(const char *name)
-{
-	const char *value = getenv(name);
-	if (!value)
-		fail_msg("%s is not set; run through 'meson test'", name);
-	return value;
-}
-
-static char *temporary_folder(void)
-{
-	char *folder = malloc(256);
-	snprintf(folder, 256, "%s/e2e-XXXXXX", env("GP_TEST_TMP"));
-	assert_non_null(mkdtemp(folder));
-	return folder;
-}
-
-static void remove_folder(const char *folder)
-{
-	char command[600];
-	snprintf(command, sizeof(command), "rm -rf '%s'", folder);
-	assert_int_equal(system(command), 0);
-}
 
 static double ring_length_mm(const struct gp_ring *ring)
 {
@@ -179,7 +158,7 @@ static void check_detail(const char *gbr, const char *png,
 	expect.perimeter_mm = polyset_perimeter_mm(&inside) / 2;
 	struct gerbv_result result;
 	char err[256], why[512];
-	if (!gerbv_render(env("GERBV"), gbr, png, &frame, &result, err,
+	if (!gerbv_render(fixture_env("GERBV"), gbr, png, &frame, &result, err,
 			  sizeof(err)))
 		fail_msg("%s: %s", gbr, err);
 	bool agrees = gerbv_compare(&result, &expect, why, sizeof(why));
@@ -206,7 +185,7 @@ static void check_layer(const char *folder, const struct gp_artwork *art,
 	struct gerbv_frame frame = { expect.x0, expect.y0, expect.x1,
 				     expect.y1, DPI, 8 };
 	struct gerbv_result result;
-	if (!gerbv_render(env("GERBV"), gbr, png, &frame, &result, err,
+	if (!gerbv_render(fixture_env("GERBV"), gbr, png, &frame, &result, err,
 			  sizeof(err)))
 		fail_msg("%s: %s", gbr, err);
 	bool agrees = gerbv_compare(&result, &expect, why, sizeof(why));
@@ -219,10 +198,10 @@ static void check_layer(const char *folder, const struct gp_artwork *art,
 
 static void check_sample(const char *path)
 {
-	char *folder = temporary_folder();
+	char *folder = fixture_temporary_folder("e2e");
 	char command[4096];
 	snprintf(command, sizeof(command), "'%s' build -q '%s' -o '%s/out'",
-		 env("GLASSPLOT"), path, folder);
+		 fixture_env("GLASSPLOT"), path, folder);
 	assert_int_equal(system(command), 0);
 	struct gp_diag diag;
 	gp_diag_init(&diag);
@@ -237,14 +216,14 @@ static void check_sample(const char *path)
 	gp_build_destroy(build);
 	gp_design_destroy(design);
 	gp_diag_finish(&diag);
-	remove_folder(folder);
+	fixture_remove_tree(folder);
 	free(folder);
 }
 
 static void samples_read_by_gerbv(void **state)
 {
 	(void)state;
-	const char *samples = env("GP_SAMPLES");
+	const char *samples = fixture_env("GP_SAMPLES");
 	DIR *dir = opendir(samples);
 	assert_non_null(dir);
 	int count = 0;
@@ -314,7 +293,7 @@ static void pitch_budget_in_gerber(void **state)
 		assert_non_null(design);
 		struct gp_build *build = gp_build_create(design, &diag);
 		assert_non_null(build);
-		char *folder = temporary_folder();
+		char *folder = fixture_temporary_folder("e2e");
 		assert_true(gp_build_write(build, folder, &diag));
 		char path[600];
 		snprintf(path, sizeof(path), "%s/front-ito.gbr", folder);
@@ -329,7 +308,7 @@ static void pitch_budget_in_gerber(void **state)
 		gp_build_destroy(build);
 		gp_design_destroy(design);
 		gp_diag_finish(&diag);
-		remove_folder(folder);
+		fixture_remove_tree(folder);
 		free(folder);
 	}
 }

@@ -10,6 +10,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "test-files.h"
+
 #include "build.h"
 #include "output.h"
 
@@ -23,30 +25,6 @@
 #include <unistd.h>
 
 #define CHUNK (1u << 20) /* write_all's largest write, output.c */
-
-static const char *env(const char *name)
-{
-	const char *value = getenv(name);
-	if (!value)
-		fail_msg("%s is not set; run through 'meson test'", name);
-	return value;
-}
-
-static char *temporary_folder(void)
-{
-	char *folder = malloc(512);
-	snprintf(folder, 512, "%s/output-XXXXXX", env("GP_TEST_TMP"));
-	assert_non_null(mkdtemp(folder));
-	return folder;
-}
-
-static void remove_tree(const char *path)
-{
-	char command[1200];
-	snprintf(command, sizeof(command), "chmod -R u+w '%s' 2>/dev/null; "
-		 "rm -rf '%s'", path, path);
-	assert_int_equal(system(command), 0);
-}
 
 static char *path_join(const char *a, const char *b)
 {
@@ -115,7 +93,7 @@ static char *snapshot(const char *folder)
 static void render(const char *sample, const char *const *overrides,
 		   size_t override_count, struct gp_output_set *set)
 {
-	char *path = path_join(env("GP_SAMPLES"), sample);
+	char *path = path_join(fixture_env("GP_SAMPLES"), sample);
 	struct gp_diag diag;
 	gp_diag_init(&diag);
 	struct gp_design *design = gp_design_load(path, overrides,
@@ -158,7 +136,7 @@ struct fixture {
 static int setup(void **state)
 {
 	struct fixture *f = calloc(1, sizeof(*f));
-	f->folder = temporary_folder();
+	f->folder = fixture_temporary_folder("output");
 	render("panel-2x16.yaml", NULL, 0, &f->before);
 	/* a different result, so that old and new files differ */
 	static const char *const change[] = {
@@ -180,7 +158,7 @@ static int teardown(void **state)
 	struct fixture *f = *state;
 	gp_output_fail_after(0);
 	gp_output_fail_rename_after(0);
-	remove_tree(f->folder);
+	fixture_remove_tree(f->folder);
 	free(f->folder);
 	gp_output_set_finish(&f->before);
 	gp_output_set_finish(&f->after);
