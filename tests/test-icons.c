@@ -878,7 +878,7 @@ static void test_nets(void **state)
 	assert_string_equal(nets[icon_pixel(art, 2)->segment].name, "SEG22");
 	assert_int_equal(icon_pixel(art, 4)->segment,
 			 icon_pixel(art, 0)->segment);
-	assert_int_equal(gp_design_common_count(b.design), 10);
+	assert_int_equal(art->common_count, 10);
 	/* right and top of the ink box on the anchor */
 	struct gp_box box = icon_pixel(art, 4)->box;
 	assert_int_equal(box.x1, 30 * MM);
