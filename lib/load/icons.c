@@ -35,20 +35,6 @@ void gp_icons_free(struct gp_design *design)
 	design->icon_count = 0;
 }
 
-int gp_icons_common_count(const struct gp_design *design)
-{
-	int count = 0;
-	for (size_t i = 0; i < design->icon_count; i++) {
-		const char *c = design->icons[i].common;
-		bool seen = !c;
-		for (size_t j = 0; j < i && !seen; j++)
-			seen = design->icons[j].common &&
-			       strcmp(design->icons[j].common, c) == 0;
-		count += !seen;
-	}
-	return count;
-}
-
 static const char *kind_name(enum gp_icon_kind kind)
 {
 	return kind == GP_ICON_TEXT ? "text" : shape_names[kind - 1];
