@@ -761,6 +761,46 @@ static bool grid_back(struct gp_build *build, const struct gp_digits *row,
 	return ok || gp_diag_error(diag, NULL, "out of memory");
 }
 
+/* A banded row: its back links (inside the units and from unit to unit),
+ * and its commons led out at the row's ends: at both when the row starts
+ * with a digit, at the right when it starts with the sign unit (the
+ * bands end there). */
+static bool band_back(struct gp_build *build, struct gp_digit_row *out,
+		      struct gp_diag *diag)
+{
+	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
+	for (size_t i = 0; i < out->unit_count; i++) {
+		const struct gp_digit_unit *u = &out->units[i];
+		for (int k = 0; k < u->back_count; k++)
+			if (!add_copy(&build->art, layer, GP_ROLE_BRIDGE,
+				      out->first_common + u->backs[k].common - 1,
+				      &u->backs[k].poly))
+				return oom(diag);
+	}
+	struct gp_figure_frame fr;
+	gp_figure_frame(&build->design->digits[0].figure, &fr);
+	for (int end = 0; end < 2; end++) {
+		const struct gp_digit_unit *u =
+			&out->units[end ? out->unit_count - 1 : 0];
+		if (!end && u->number == 0)
+			continue;
+		for (int c = 0; c < out->common_count; c++) {
+			const struct gp_digit_exit *e = end ? &u->right[c] : &u->left[c];
+			if (!e->given)
+				continue;
+			struct gp_point at = {
+				u->origin.x + llround(e->u + e->v * fr.t),
+				u->origin.y + llround(e->v),
+			};
+			if (!gp_build_add_lead_end(build, out->first_common + c,
+						   end ? GP_SIDE_RIGHT : GP_SIDE_LEFT,
+						   at, (int64_t)u->lead))
+				return oom(diag);
+		}
+	}
+	return true;
+}
+
 /* Every segment line leaves from its port, down toward the ledge; a
  * multiplexed common from each of its patches' top (the patches of one
  * common are not joined yet: see the README). */
@@ -776,6 +816,8 @@ static bool offer_ends(struct gp_build *build, const struct gp_digits *row,
 		return static_bus(build, row, out, diag);
 	if (gp_digits_grid(row))
 		return grid_back(build, row, out, diag);
+	if (out->units[0].banded)
+		return band_back(build, out, diag);
 	enum gp_layer layer = gp_plate_ito_layer(gp_common_plate(build->design));
 	int64_t w = 2 * build->design->rules.min_line;
 	for (size_t s = 0; s < build->art.shape_count; s++) {

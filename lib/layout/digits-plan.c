@@ -122,7 +122,7 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 	struct gp_polygon seg[GP_FIGURE_MAX_SEGMENTS];
 	const struct gp_figure_spec *fs = &row->figure;
 	u->number = (int)i + 1;
-	u->origin = (struct gp_point){ row->origin.x + i * row->pitch,
+	u->origin = (struct gp_point){ row->origin.x + gp_digits_offset(row, i),
 				       row->origin.y };
 	if (!gp_figure_build(fs, u->origin, seg, diag))
 		goto fail;
@@ -154,7 +154,8 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 	if (row->colon_mask >> i & 1) {
 		struct gp_figure_frame fr;
 		gp_figure_frame(fs, &fr);
-		double mid = (fr.W + (double)row->pitch) / 2;
+		double mid = (fr.W + (double)(gp_digits_offset(row, i + 1) -
+					      gp_digits_offset(row, i))) / 2;
 		double v[2] = { (fr.S + fr.mlo) / 2, (fr.mtop + fr.H - fr.S) / 2 };
 		struct gp_digit_part *part = add_part(u, "colon");
 		part->poly_count = 2;
@@ -207,6 +208,16 @@ static bool sign_unit(const struct gp_digits *row, struct gp_digit_unit *u,
 	for (int s = 0; s < 7; s++)
 		gp_polygon_finish(&seg[s]);
 	return true;
+}
+
+int64_t gp_digits_offset(const struct gp_digits *row, long i)
+{
+	int64_t x = 0;
+	for (long k = 0; k < i; k++)
+		x += row->colon_pitch && (row->colon_mask >> k & 1)
+			     ? row->colon_pitch
+			     : row->pitch;
+	return x;
 }
 
 void gp_digit_unit_label(const struct gp_digit_unit *unit, char *buffer,
@@ -1060,6 +1071,639 @@ static bool grid_unit(struct plan *p, struct gp_digit_row *out, size_t index)
 	       add_port(out, a2, (int64_t)p->w, (int)index, 2);
 }
 
+/* --- bands ------------------------------------------------------------------- */
+
+/* Multiplexed rows (but the grid above) are laid out as bands and walls.
+ * Each common is a band on the common plate: the back patches of its parts
+ * in every unit, joined inside a unit by back links across the gaps (or a
+ * counter) between them and from unit to unit by links beside the digits.
+ * Each segment line is a wall on the segment plate: a chain of parts, one
+ * per band from some band down to the lowest, joined by front links, that
+ * leaves the unit downward.  A wall crosses a band only inside its own
+ * part there, so neither plate crosses the other outside the pixels; a
+ * band passes over the top of a wall that starts below it.  The walls of
+ * a unit are listed left to right, each from the top down; the bands'
+ * parts are then taken wall by wall, so the order of the list is the
+ * electrode layout and the assignment at once: line = wall, common =
+ * band.  A colon is a wall of its own in the lowest band, standing
+ * between its two digits, which the other bands pass over. */
+
+struct scheme {
+	enum gp_figure figure;
+	int duty;
+	bool point;
+	/* walls left to right: "part/common ..." from the top down */
+	const char *walls[GP_UNIT_MAX_PARTS];
+};
+
+static const struct scheme schemes[] = {
+	{ GP_FIGURE_7, 3, true, { "a/1 f/2 e/3", "g/2 d/3", "b/1 c/2 dp/3" } },
+	{ GP_FIGURE_7, 3, false, { "a/1 f/2 e/3", "g/2 d/3", "b/2 c/3" } },
+	{ GP_FIGURE_7, 4, true, { "a/1 f/2 e/3 d/4", "b/1 g/2 c/3 dp/4" } },
+	{ GP_FIGURE_7, 4, false, { "a/1 f/2 e/3 d/4", "b/2 g/3 c/4" } },
+};
+
+#define WALL_MAX GP_DIGITS_MAX_DUTY
+
+struct wall {
+	int part[WALL_MAX];       /* top down */
+	int count;
+};
+
+struct bands {
+	struct wall walls[GP_UNIT_MAX_PARTS];
+	int count;
+};
+
+static const struct scheme *find_scheme(const struct gp_digits *row,
+					bool point)
+{
+	for (size_t i = 0; i < sizeof(schemes) / sizeof(*schemes); i++)
+		if (schemes[i].figure == row->figure.figure &&
+		    schemes[i].duty == row->duty && schemes[i].point == point)
+			return &schemes[i];
+	return NULL;
+}
+
+bool gp_digits_banded(const struct gp_digits *row)
+{
+	if (row->duty < 2 || row->pairs || gp_digits_grid(row))
+		return false;
+	uint64_t all = row->count >= 64 ? ~UINT64_C(0)
+					: (UINT64_C(1) << row->count) - 1;
+	bool some = (row->point_mask & all) != 0;
+	bool none = (row->point_mask & all) != all;
+	return (!some || find_scheme(row, true)) &&
+	       (!none || find_scheme(row, false));
+}
+
+/* One wall "a/1 f/2" into parts; false when a part is missing. */
+static bool parse_wall(struct gp_digit_unit *u, const char *text, int line,
+		       struct wall *w)
+{
+	char buffer[128];
+	snprintf(buffer, sizeof(buffer), "%s", text);
+	w->count = 0;
+	for (char *save = NULL, *tok = strtok_r(buffer, " ", &save); tok;
+	     tok = strtok_r(NULL, " ", &save)) {
+		char *slash = strchr(tok, '/');
+		if (!slash || w->count == WALL_MAX)
+			return false;
+		*slash = '\0';
+		int k = part_index(u, tok);
+		if (k < 0)
+			return false;
+		u->parts[k].common = atoi(slash + 1);
+		u->parts[k].line = line;
+		w->part[w->count++] = k;
+	}
+	return w->count > 0;
+}
+
+/* The sign unit: the "1" over the minus in the two lowest bands. */
+static void sign_walls(const struct gp_digits *row, struct gp_digit_unit *u,
+		       struct bands *b)
+{
+	int one = part_index(u, "one"), minus = part_index(u, "minus");
+	struct wall *w = &b->walls[b->count++];
+	w->count = 0;
+	int n = row->duty;
+	if (one >= 0) {
+		u->parts[one].common = minus >= 0 ? n - 1 : n;
+		u->parts[one].line = 1;
+		w->part[w->count++] = one;
+	}
+	if (minus >= 0) {
+		u->parts[minus].common = n;
+		u->parts[minus].line = 1;
+		w->part[w->count++] = minus;
+	}
+}
+
+static bool band_walls(const struct gp_digits *row, struct gp_digit_unit *u,
+		       struct bands *b, struct gp_diag *diag)
+{
+	b->count = 0;
+	int colon = part_index(u, "colon");
+	if (u->number == 0) {
+		sign_walls(row, u, b);
+	} else {
+		bool point = part_index(u, "dp") >= 0;
+		const struct scheme *sc = find_scheme(row, point);
+		if (!sc)
+			return gp_diag_error(diag, &row->where,
+					     "digits '%s': no band layout for "
+					     "%zu-segment digits %s a point at "
+					     "1/%d duty",
+					     row->name,
+					     gp_figure_segment_count(row->figure.figure),
+					     point ? "with" : "without",
+					     row->duty);
+		for (int i = 0; sc->walls[i]; i++)
+			if (!parse_wall(u, sc->walls[i], i + 1, &b->walls[b->count++]))
+				return gp_diag_error(diag, NULL,
+						     "digits: band layout '%s' "
+						     "names a part the digit "
+						     "lacks", sc->walls[i]);
+	}
+	if (colon >= 0) {
+		struct wall *w = &b->walls[b->count++];
+		u->parts[colon].common = row->duty;
+		u->parts[colon].line = b->count;
+		w->part[0] = colon;
+		w->count = 1;
+	}
+	u->line_count = b->count;
+	return true;
+}
+
+static bool is_named(const struct plan *p, int part, const char *name)
+{
+	return strcmp(p->unit->parts[part].name, name) == 0;
+}
+
+/* A back link of the unit: a line `w` wide along pts (upright frame). */
+static bool add_back(struct plan *p, const struct pt *pts, int n, int common)
+{
+	struct gp_digit_unit *u = p->unit;
+	if (u->back_count == GP_UNIT_MAX_TRACES)
+		return false;
+	struct gp_digit_back *b = &u->backs[u->back_count];
+	if (!thick_line(pts, n, p->w, u->origin, &b->poly))
+		return false;
+	b->common = common;
+	u->back_count++;
+	return true;
+}
+
+static double seg_point_distance(struct pt a, struct pt b, struct pt q,
+				 struct pt *at)
+{
+	double dx = b.x - a.x, dy = b.y - a.y, l2 = dx * dx + dy * dy;
+	double t = l2 > 0 ? ((q.x - a.x) * dx + (q.y - a.y) * dy) / l2 : 0;
+	t = fmax(0, fmin(1, t));
+	*at = (struct pt){ a.x + t * dx, a.y + t * dy };
+	return hypot(q.x - at->x, q.y - at->y);
+}
+
+/* A link across the gap between two neighbouring parts: from the middle
+ * of the longest stretch where an edge of x runs parallel to an edge of y
+ * at about the gap, straight across.  False when they share no gap. */
+static bool gap_link_at(const struct plan *p, const struct gp_polygon *x,
+			const struct gp_polygon *y, double at, struct pt out[2])
+{
+	const struct gp_ring *rx = &x->outer, *ry = &y->outer;
+	double best = 2 * p->w, G = p->fr.G;
+	bool found = false;
+	for (size_t i = 0; i < rx->count; i++) {
+		struct pt a = rel(p, rx->points[i]);
+		struct pt b = rel(p, rx->points[(i + 1) % rx->count]);
+		double lx = hypot(b.x - a.x, b.y - a.y);
+		if (lx < 1)
+			continue;
+		struct pt d = { (b.x - a.x) / lx, (b.y - a.y) / lx };
+		for (size_t k = 0; k < ry->count; k++) {
+			struct pt c = rel(p, ry->points[k]);
+			struct pt e = rel(p, ry->points[(k + 1) % ry->count]);
+			double ly = hypot(e.x - c.x, e.y - c.y);
+			if (ly < 1)
+				continue;
+			struct pt f = { (e.x - c.x) / ly, (e.y - c.y) / ly };
+			if (fabs(d.x * f.y - d.y * f.x) > 0.02)
+				continue;
+			/* signed distance of y's edge from x's, along the
+			 * normal */
+			double nc = -d.y * (c.x - a.x) + d.x * (c.y - a.y);
+			if (fabs(nc) < 0.5 * G || fabs(nc) > 1.5 * G)
+				continue;
+			double t0 = (c.x - a.x) * d.x + (c.y - a.y) * d.y;
+			double t1 = (e.x - a.x) * d.x + (e.y - a.y) * d.y;
+			double lo = fmax(0, fmin(t0, t1)), hi = fmin(lx, fmax(t0, t1));
+			if (hi - lo <= best)
+				continue;
+			best = hi - lo;
+			found = true;
+			double tm = lo + at * (hi - lo), s = nc > 0 ? 1 : -1;
+			double reach = 2.5 * p->w;
+			struct pt m = { a.x + d.x * tm, a.y + d.y * tm };
+			struct pt n = { -d.y * s, d.x * s };
+			out[0] = (struct pt){ m.x - n.x * reach, m.y - n.y * reach };
+			out[1] = (struct pt){ m.x + n.x * (fabs(nc) + reach),
+					      m.y + n.y * (fabs(nc) + reach) };
+		}
+	}
+	return found;
+}
+
+static bool gap_link(const struct plan *p, const struct gp_polygon *x,
+		     const struct gp_polygon *y, struct pt out[2])
+{
+	return gap_link_at(p, x, y, 0.5, out);
+}
+
+/* The "1" of the sign unit: its two uprights joined across their gap on
+ * both plates, a quarter of the way along it from either end. */
+static bool one_links(struct plan *p, int k)
+{
+	struct gp_digit_unit *u = p->unit;
+	struct pt f[2], b[2];
+	if (!gap_link_at(p, &u->parts[k].poly[0], &u->parts[k].poly[1], 0.25, f) ||
+	    !gap_link_at(p, &u->parts[k].poly[0], &u->parts[k].poly[1], 0.75, b))
+		return false;
+	/* from piece 1 to piece 0 (part2's first) */
+	if (!add_trace(u, f, 2, p->w, k, 1, u->parts[k].line, 0))
+		return false;
+	u->traces[u->trace_count - 1].part2 = k;
+	return add_back(p, b, 2, u->parts[k].common);
+}
+
+/* The shortest way between two parts that are close but share no
+ * parallel edge (a point beside its digit), reaching into both. */
+static bool near_link(const struct plan *p, const struct gp_polygon *x,
+		      const struct gp_polygon *y, struct pt out[2])
+{
+	double best = INFINITY;
+	struct pt bx = { 0, 0 }, by = { 0, 0 };
+	const struct gp_polygon *polys[2] = { x, y };
+	for (int side = 0; side < 2; side++) {
+		const struct gp_ring *r = &polys[side]->outer;
+		const struct gp_ring *o = &polys[1 - side]->outer;
+		for (size_t i = 0; i < r->count; i++) {
+			struct pt q = rel(p, r->points[i]);
+			for (size_t k = 0; k < o->count; k++) {
+				struct pt at;
+				double d = seg_point_distance(
+					rel(p, o->points[k]),
+					rel(p, o->points[(k + 1) % o->count]), q, &at);
+				if (d < best) {
+					best = d;
+					bx = side ? at : q;
+					by = side ? q : at;
+				}
+			}
+		}
+	}
+	if (!(best < 3 * p->fr.G + (double)p->row->point_gap))
+		return false;
+	double dx = by.x - bx.x, dy = by.y - bx.y, l = hypot(dx, dy);
+	if (l <= 0)
+		return false;
+	double reach = 2.5 * p->w;
+	out[0] = (struct pt){ bx.x - dx / l * reach, bx.y - dy / l * reach };
+	out[1] = (struct pt){ by.x + dx / l * reach, by.y + dy / l * reach };
+	return true;
+}
+
+
+/* Special links: the bottom bar to the point under the baseline (as the
+ * grid's COM4), the top bar over the figure down to the point. */
+static int special_link(struct plan *p, int a, int b, bool front,
+			struct pt *pts)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	int dp = is_named(p, a, "dp") ? a : is_named(p, b, "dp") ? b : -1;
+	if (dp < 0)
+		return 0;
+	int other = dp == a ? b : a;
+	struct pt c = centre_of(p, &p->unit->parts[dp].poly[0]);
+	double pu = upright(p, c), pv = c.y;
+	double r = (double)p->row->point_size / 2;
+	double v4 = -(p->keep + p->w / 2);
+	if (!front && is_named(p, other, "d")) {
+		double dr = W - sv - G - S / 2;
+		pts[0] = P(p, dr, S / 2);
+		pts[1] = P(p, dr, v4);
+		pts[2] = P(p, pu - r / 3, v4);
+		pts[3] = P(p, pu - r / 3, pv);
+		return 4;
+	}
+	if (front && is_named(p, other, "a")) {
+		double ua = W - sv / 2 - G - S + 2 * p->pitch;
+		double v1 = H + p->keep + p->w / 2;
+		pts[0] = P(p, ua, H - S / 2);
+		pts[1] = P(p, ua, v1);
+		pts[2] = P(p, pu, v1);
+		pts[3] = P(p, pu, pv);
+		return 4;
+	}
+	return 0;
+}
+
+/* Joins parts a and b of one wall (front) or band (back). */
+static bool band_link(struct plan *p, int a, int b, bool front, int common)
+{
+	struct gp_digit_unit *u = p->unit;
+	struct pt pts[ROUTE_MAX_POINTS];
+	int n = special_link(p, a, b, front, pts);
+	if (n == 0) {
+		n = 2;
+		const struct gp_polygon *x = &u->parts[a].poly[0];
+		const struct gp_polygon *y = &u->parts[b].poly[0];
+		if (!gap_link(p, x, y, pts) && !near_link(p, x, y, pts)) {
+			/* across a counter, centre to centre */
+			pts[0] = centre_of(p, x);
+			pts[1] = centre_of(p, y);
+		}
+	}
+	if (!front)
+		return add_back(p, pts, n, common);
+	if (!add_trace(u, pts, n, p->w, a, 0, u->parts[a].line, 0))
+		return false;
+	u->traces[u->trace_count - 1].part2 = b;
+	return true;
+}
+
+/* The two dots of a colon: joined on the segment plate to the right of
+ * their centres (where its wall then drops) and on the common plate to
+ * the left. */
+static bool colon_links(struct plan *p, int k)
+{
+	struct gp_digit_unit *u = p->unit;
+	struct pt lo = centre_of(p, &u->parts[k].poly[0]);
+	struct pt hi = centre_of(p, &u->parts[k].poly[1]);
+	double r = (double)p->row->colon_size / 4;
+	struct pt f[2] = { P(p, upright(p, hi) + r, hi.y),
+			   P(p, upright(p, lo) + r, lo.y) };
+	struct pt b[2] = { P(p, upright(p, hi) - r, hi.y),
+			   P(p, upright(p, lo) - r, lo.y) };
+	/* from piece 1 to piece 0 (part2's first) */
+	if (!add_trace(u, f, 2, p->w, k, 1, u->parts[k].line, 0))
+		return false;
+	u->traces[u->trace_count - 1].part2 = k;
+	return add_back(p, b, 2, u->parts[k].common);
+}
+
+/* Where a band leaves part k toward one side: pts from inside the part
+ * to the unit's side (upright u = side).  0 when the part has no way out
+ * there. */
+static int exit_path(struct plan *p, int k, bool right, struct pt *pts)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, H = f->H, S = f->S, G = f->G, sv = f->sv;
+	double upper = (f->mtop + H - S) / 2, lower = (S + f->mlo) / 2;
+	double side = right ? W + p->keep + p->w / 2 : -(p->keep + p->w / 2);
+	double vtop = H + p->keep + p->w / 2 + p->pitch;
+	double v4 = -(p->keep + p->w / 2);
+	const char *name = p->unit->parts[k].name;
+	bool sign = p->unit->number == 0;
+	if (strcmp(name, "a") == 0) {
+		double ua = right ? W - sv / 2 - G - S : sv / 2 + G + S;
+		pts[0] = P(p, ua, H - S / 2);
+		pts[1] = P(p, ua, vtop);
+		pts[2] = P(p, side, vtop);
+		return 3;
+	}
+	if (!right && (!strcmp(name, "f") || !strcmp(name, "e"))) {
+		double v = name[0] == 'f' ? upper : lower;
+		pts[0] = P(p, sv / 2, v);
+		pts[1] = P(p, side, v);
+		return 2;
+	}
+	if (right && (!strcmp(name, "b") || !strcmp(name, "c"))) {
+		double v = name[0] == 'b' ? upper : lower;
+		pts[0] = P(p, W - sv / 2, v);
+		pts[1] = P(p, side, v);
+		return 2;
+	}
+	if (!strcmp(name, "g") && !sign) {
+		double ug = right ? W - sv - G * f->sec - S / 2
+				  : sv + G * f->sec + S / 2;
+		pts[0] = P(p, ug, f->mc);
+		pts[1] = P(p, side, f->mc);
+		return 2;
+	}
+	if (!strcmp(name, "d")) {
+		double ud = right ? W - sv - G - S / 2
+				  : (p->row->figure.ends == GP_ENDS_BEVELLED
+					     ? sv + G + S / 2 : S);
+		pts[0] = P(p, ud, S / 2);
+		pts[1] = P(p, ud, v4);
+		pts[2] = P(p, side, v4);
+		return 3;
+	}
+	if (right && !strcmp(name, "dp")) {
+		struct pt c = centre_of(p, &p->unit->parts[k].poly[0]);
+		double r = (double)p->row->point_size / 2;
+		pts[0] = c;
+		pts[1] = P(p, upright(p, c) + r + p->keep + p->w / 2, c.y);
+		return 2;
+	}
+	if (right && sign && !strcmp(name, "one")) {
+		/* from its upper piece when the minus shares the unit */
+		bool alone = part_index(p->unit, "minus") < 0;
+		double v = alone ? lower : upper;
+		pts[0] = P(p, W - sv / 2, v);
+		pts[1] = P(p, side, v);
+		return 2;
+	}
+	if (right && sign && !strcmp(name, "minus")) {
+		if (part_index(p->unit, "one") < 0) {
+			pts[0] = P(p, W / 2, f->m);
+			pts[1] = P(p, side, f->m);
+			return 2;
+		}
+		/* under the "1" */
+		double um = W / 2 + S / 2;
+		pts[0] = P(p, um, f->m);
+		pts[1] = P(p, um, v4);
+		pts[2] = P(p, side, v4);
+		return 3;
+	}
+	return 0;
+}
+
+/* The drop of a wall from its lowest part k to v_end. */
+static int drop_path(struct plan *p, int k, struct pt *pts)
+{
+	const struct gp_figure_frame *f = &p->fr;
+	double W = f->W, S = f->S, G = f->G, sv = f->sv;
+	const char *name = p->unit->parts[k].name;
+	double ve = p->v_end;
+	if (!strcmp(name, "d")) {
+		pts[0] = P(p, W / 2, S / 2);
+		pts[1] = P(p, W / 2, ve);
+		return 2;
+	}
+	if (!strcmp(name, "dp") || !strcmp(name, "colon")) {
+		struct pt c = centre_of(p, &p->unit->parts[k].poly[0]);
+		int64_t size = name[0] == 'd' ? p->row->point_size
+					      : p->row->colon_size;
+		double u = upright(p, c) + (double)size / (name[0] == 'd' ? 6 : 4);
+		pts[0] = P(p, u, c.y);
+		pts[1] = P(p, u, ve);
+		return 2;
+	}
+	if (!strcmp(name, "e") || !strcmp(name, "c")) {
+		bool right = name[0] == 'c';
+		double v = S + G + 2 * p->w;
+		double u = right ? W - sv / 2 : sv / 2;
+		double out = right ? W + p->keep + p->w / 2 + p->pitch
+				   : -(p->keep + p->w / 2 + p->pitch);
+		pts[0] = P(p, u, v);
+		pts[1] = P(p, out, v);
+		pts[2] = P(p, out, ve);
+		return 3;
+	}
+	if (!strcmp(name, "minus")) {
+		double u = (W / 2 + sv) / 2;
+		pts[0] = P(p, u, f->m);
+		pts[1] = P(p, u, ve);
+		return 2;
+	}
+	if (!strcmp(name, "one")) {
+		double lower = (S + f->mlo) / 2;
+		pts[0] = P(p, W - sv / 2, lower);
+		pts[1] = P(p, W - sv / 2, ve);
+		return 2;
+	}
+	return 0;
+}
+
+static void note_reach(struct plan *p, const struct pt *pts, int n)
+{
+	struct gp_digit_unit *u = p->unit;
+	for (int i = 0; i < n; i++) {
+		double x = upright(p, pts[i]);
+		u->reach_left = fmin(u->reach_left, x - p->w / 2);
+		u->reach_right = fmax(u->reach_right, x + p->w / 2);
+		if (pts[i].y > u->v_low) {
+			u->reach_left_hi = fmin(u->reach_left_hi, x - p->w / 2);
+			u->reach_right_hi = fmax(u->reach_right_hi, x + p->w / 2);
+		}
+	}
+}
+
+/* The exits of every band the unit holds: from the band's first part in
+ * wall order to the left, from its last to the right. */
+static bool band_exits(struct plan *p, const struct bands *b,
+		       struct gp_diag *diag)
+{
+	struct gp_digit_unit *u = p->unit;
+	for (int c = 1; c <= p->row->duty; c++) {
+		int first = -1, last = -1;
+		for (int i = 0; i < b->count; i++)
+			for (int k = 0; k < b->walls[i].count; k++) {
+				int part = b->walls[i].part[k];
+				if (u->parts[part].common != c ||
+				    is_named(p, part, "colon"))
+					continue;
+				if (first < 0)
+					first = part;
+				last = part;
+			}
+		if (first < 0)
+			continue;
+		for (int side = 0; side < 2; side++) {
+			struct pt pts[ROUTE_MAX_POINTS];
+			int part = side ? last : first;
+			int n = exit_path(p, part, side == 1, pts);
+			if (n == 0) {
+				if (u->number == 0 && side == 0)
+					continue; /* bands end at the sign */
+				return gp_diag_error(
+					diag, &p->row->where,
+					"digits '%s': common %d cannot leave "
+					"'%s' toward the %s", p->row->name, c,
+					u->parts[part].name,
+					side ? "right" : "left");
+			}
+			if (!add_back(p, pts, n, c))
+				return false;
+			note_reach(p, pts, n);
+			struct gp_digit_exit *e = side ? &u->right[c - 1]
+						       : &u->left[c - 1];
+			*e = (struct gp_digit_exit){ true, upright(p, pts[n - 1]),
+						     pts[n - 1].y };
+		}
+	}
+	return true;
+}
+
+static bool band_drops(struct plan *p, const struct bands *b,
+		       struct gp_digit_row *out, size_t index)
+{
+	struct gp_digit_unit *u = p->unit;
+	for (int i = 0; i < b->count; i++) {
+		const struct wall *w = &b->walls[i];
+		int k = w->part[w->count - 1];
+		struct pt pts[ROUTE_MAX_POINTS];
+		int n = drop_path(p, k, pts);
+		if (n == 0)
+			return false;
+		if (!is_named(p, k, "colon"))
+			note_reach(p, pts, n);
+		if (!add_trace(u, pts, n, p->w, k, 0, u->parts[k].line,
+			       upright(p, pts[n - 1])))
+			return false;
+		struct gp_point at = { u->origin.x + llround(pts[n - 1].x),
+				       u->origin.y + llround(pts[n - 1].y) };
+		if (!add_port(out, at, (int64_t)p->w, (int)index, i + 1))
+			return false;
+	}
+	return true;
+}
+
+/* The parts in wall order, for the firmware map and messages. */
+static void band_order(struct gp_digit_unit *u, const struct bands *b)
+{
+	int n = 0;
+	for (int i = 0; i < b->count; i++)
+		for (int k = 0; k < b->walls[i].count; k++)
+			u->order[n++] = b->walls[i].part[k];
+}
+
+static bool band_unit(struct plan *p, struct gp_digit_row *out, size_t index,
+		      struct gp_diag *diag)
+{
+	struct gp_digit_unit *u = p->unit;
+	struct bands b;
+	if (!band_walls(p->row, u, &b, diag))
+		return false;
+	u->banded = true;
+	u->pitch = p->pitch;
+	u->lead = p->w;
+	u->keep = p->keep;
+	u->reach_left = u->reach_left_hi = 0;
+	u->reach_right = u->reach_right_hi = p->fr.W;
+	/* what reaches out below this (the point, side drops, the bottom
+	 * bar's exits) does not bar links above it */
+	u->v_low = p->fr.S + p->fr.G + 3 * p->w;
+	band_order(u, &b);
+	p->v_end = -(p->keep + p->w / 2) - p->w - p->keep;
+	bool ok = true;
+	/* walls: front links top down */
+	for (int i = 0; ok && i < b.count; i++)
+		for (int k = 0; ok && k + 1 < b.walls[i].count; k++)
+			ok = band_link(p, b.walls[i].part[k],
+				       b.walls[i].part[k + 1], true, 0);
+	/* bands: back links wall by wall */
+	for (int c = 1; ok && c <= p->row->duty; c++) {
+		int prev = -1;
+		for (int i = 0; ok && i < b.count; i++)
+			for (int k = 0; ok && k < b.walls[i].count; k++) {
+				int part = b.walls[i].part[k];
+				if (u->parts[part].common != c ||
+				    is_named(p, part, "colon"))
+					continue;
+				if (prev >= 0)
+					ok = band_link(p, prev, part, false, c);
+				prev = part;
+			}
+	}
+	/* parts of two pieces: joined on both plates */
+	for (int k = 0; ok && k < u->part_count; k++)
+		if (u->parts[k].poly_count == 2)
+			ok = is_named(p, k, "colon") ? colon_links(p, k)
+						     : one_links(p, k);
+	ok = ok && band_exits(p, &b, diag) && band_drops(p, &b, out, index);
+	if (!ok && diag->errors == 0)
+		gp_diag_error(diag, &p->row->where,
+			      "digits '%s': the band layout of %s failed",
+			      p->row->name, u->number ? "a digit" : "the sign unit");
+	return ok;
+}
+
 static bool plan_unit(const struct gp_digits *row,
 		      const struct gp_digit_rules *rules, struct gp_digit_unit *u,
 		      struct gp_digit_row *out, size_t index, struct gp_diag *diag)
@@ -1088,6 +1732,10 @@ static bool plan_unit(const struct gp_digits *row,
 		ok = grid_unit(p, out, index);
 		if (!ok)
 			gp_diag_error(diag, NULL, "out of memory");
+		goto done;
+	}
+	if (gp_digits_banded(row)) {
+		ok = band_unit(p, out, index, diag);
 		goto done;
 	}
 	if (u->number > 0)
@@ -1122,6 +1770,174 @@ done:
 	return ok;
 }
 
+
+/* --- bands from unit to unit ------------------------------------------------- */
+
+struct joiner {
+	const struct gp_digits *row;
+	struct gp_digit_unit *a;
+	const struct gp_digit_unit *b;
+	double t, dx;
+	struct gp_diag *diag;
+	double du;                /* upright u between two parallel upright
+				   * leads side by side */
+	double L, R, L_hi, R_hi;  /* where jogs may stand: beside everything
+				   * of the two units, or of what is above
+				   * their low parts */
+};
+
+/* Where the jog of a link between heights h1 and h2 may stand at the
+ * earliest (from unit a) and the latest (toward unit b). */
+static double base_left(const struct joiner *j, double h1, double h2)
+{
+	return fmin(h1, h2) > j->a->v_low + j->a->keep ? j->L_hi : j->L;
+}
+
+static double base_right(const struct joiner *j, double h1, double h2)
+{
+	return fmin(h1, h2) > j->b->v_low + j->a->keep ? j->R_hi : j->R;
+}
+
+static bool join_line(struct joiner *j, const struct pt *upr, int n, int common)
+{
+	struct gp_digit_unit *a = j->a;
+	struct pt pts[ROUTE_MAX_POINTS];
+	for (int i = 0; i < n; i++)
+		pts[i] = (struct pt){ upr[i].x + upr[i].y * j->t, upr[i].y };
+	if (a->back_count == GP_UNIT_MAX_TRACES)
+		return gp_diag_error(j->diag, &j->row->where,
+				     "digits '%s': too many links", j->row->name);
+	struct gp_digit_back *bk = &a->backs[a->back_count];
+	if (!thick_line(pts, n, a->lead, a->origin, &bk->poly))
+		return gp_diag_error(j->diag, NULL, "out of memory");
+	bk->common = common;
+	a->back_count++;
+	return true;
+}
+
+static bool no_room(struct joiner *j, const char *what)
+{
+	char label[32];
+	gp_digit_unit_label(j->a, label, sizeof(label));
+	return gp_diag_error(j->diag, &j->row->where,
+			     "digits '%s': the commons cannot pass between "
+			     "%s and the next digit%s: widen the pitch%s",
+			     j->row->name, label, what,
+			     *what ? " ('pitch' of the colon)" : "");
+}
+
+/* Commons between two units without a colon: each straight across, or
+ * with one jog; jogs of links that climb go left to right from the top
+ * band down, of links that fall right to left, so that none cross. */
+static bool join_plain(struct joiner *j)
+{
+	double up = -INFINITY, down = INFINITY;
+	const struct gp_digit_unit *a = j->a, *b = j->b;
+	for (int c = 0; c < j->row->duty; c++) {
+		if (!a->right[c].given || !b->left[c].given)
+			continue;
+		double h1 = a->right[c].v, h2 = b->left[c].v;
+		struct pt q[4] = { { a->right[c].u, h1 }, { 0, h1 }, { 0, h2 },
+				   { j->dx + b->left[c].u, h2 } };
+		if (fabs(h1 - h2) < 1) {
+			q[1] = q[3];
+			if (!join_line(j, q, 2, c + 1))
+				return false;
+			continue;
+		}
+		double u;
+		if (h2 > h1)
+			u = up = fmax(base_left(j, h1, h2), up + j->du);
+		else
+			u = down = fmin(base_right(j, h1, h2), down - j->du);
+		if (u < base_left(j, h1, h2) || u > base_right(j, h1, h2))
+			return no_room(j, "");
+		q[1].x = q[2].x = u;
+		if (!join_line(j, q, 4, c + 1))
+			return false;
+	}
+	if (up > down - j->du)
+		return no_room(j, "");
+	return true;
+}
+
+/* Across a colon: its own (lowest) band runs into its lower dot and out
+ * again; every other band climbs over the upper dot, the top band
+ * outermost. */
+static bool join_colon(struct joiner *j, int k)
+{
+	struct gp_digit_unit *a = j->a;
+	const struct gp_digit_unit *b = j->b;
+	int n = j->row->duty;
+	double rc = (double)j->row->colon_size / 2;
+	struct gp_box lo = gp_polygon_bounds(&a->parts[k].poly[0]);
+	struct gp_box hi = gp_polygon_bounds(&a->parts[k].poly[1]);
+	double vlo = ((double)lo.y0 + (double)lo.y1) / 2 - (double)a->origin.y;
+	double vhi = ((double)hi.y0 + (double)hi.y1) / 2 - (double)a->origin.y;
+	double uc = ((double)lo.x0 + (double)lo.x1) / 2 - (double)a->origin.x -
+		    vlo * j->t;
+	double clear = a->keep + a->lead / 2;
+	double uj = -INFINITY, uk = INFINITY;
+	for (int c = 0; c < n; c++) {
+		if (!a->right[c].given || !b->left[c].given)
+			return no_room(j, " round the colon");
+		double h1 = a->right[c].v, h2 = b->left[c].v;
+		bool below = c == n - 1 && h1 < vlo - rc - clear;
+		if (!below)
+			uj = fmax(base_left(j, h1, h2), uj + j->du);
+		uk = fmin(base_right(j, h1, h2), uk - j->du);
+		if ((!below && uj + clear > uc - rc) || uk - clear < uc + rc)
+			return no_room(j, " round the colon");
+		double u1 = a->right[c].u, u2 = j->dx + b->left[c].u;
+		if (c == n - 1) {
+			/* from below, beside the colon's own drop, when
+			 * the band comes in under the lower dot */
+			struct pt in[4] = { { u1, h1 }, { uj, h1 }, { uj, vlo },
+					    { uc, vlo } };
+			if (below) {
+				in[1] = (struct pt){ uc - rc / 2, h1 };
+				in[2] = (struct pt){ uc - rc / 2, vlo };
+			}
+			struct pt out[4] = { { uc, vlo }, { uk, vlo }, { uk, h2 },
+					     { u2, h2 } };
+			if (!join_line(j, in, 4, c + 1) ||
+			    !join_line(j, out, 4, c + 1))
+				return false;
+			continue;
+		}
+		double vo = vhi + rc + clear + (n - 2 - c) * a->pitch;
+		vo = fmax(vo, fmax(h1, h2));
+		struct pt q[6] = { { u1, h1 }, { uj, h1 }, { uj, vo },
+				   { uk, vo }, { uk, h2 }, { u2, h2 } };
+		if (!join_line(j, q, 6, c + 1))
+			return false;
+	}
+	return true;
+}
+
+static bool join_units(const struct gp_digits *row, struct gp_digit_row *out,
+		       struct gp_diag *diag)
+{
+	struct gp_figure_frame fr;
+	gp_figure_frame(&row->figure, &fr);
+	for (size_t i = 0; i + 1 < out->unit_count; i++) {
+		struct joiner j = { .row = row, .a = &out->units[i],
+				    .b = &out->units[i + 1], .t = fr.t,
+				    .diag = diag,
+				    .du = out->units[i].pitch * fr.sec };
+		j.dx = (double)(j.b->origin.x - j.a->origin.x);
+		double clear = (j.a->keep + j.a->lead / 2) * fr.sec;
+		j.L = j.a->reach_right + clear;
+		j.L_hi = j.a->reach_right_hi + clear;
+		j.R = j.dx + j.b->reach_left - clear;
+		j.R_hi = j.dx + j.b->reach_left_hi - clear;
+		int k = part_index(j.a, "colon");
+		if (!(k >= 0 ? join_colon(&j, k) : join_plain(&j)))
+			return false;
+	}
+	return true;
+}
+
 void gp_digit_row_finish(struct gp_digit_row *row)
 {
 	for (size_t i = 0; i < row->unit_count; i++) {
@@ -1131,6 +1947,8 @@ void gp_digit_row_finish(struct gp_digit_row *row)
 				gp_polygon_finish(&u->parts[k].poly[j]);
 		for (int k = 0; k < u->trace_count; k++)
 			gp_polygon_finish(&u->traces[k].poly);
+		for (int k = 0; k < u->back_count; k++)
+			gp_polygon_finish(&u->backs[k].poly);
 	}
 	free(row->units);
 	free(row->ports);
@@ -1159,6 +1977,8 @@ bool gp_digits_plan(const struct gp_digits *row,
 				diag) ||
 		    !plan_unit(row, rules, &out->units[k], out, k, diag))
 			goto fail;
+	if (out->units[0].banded && !join_units(row, out, diag))
+		goto fail;
 	return true;
 fail:
 	gp_digit_row_finish(out);

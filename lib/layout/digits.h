@@ -148,6 +148,7 @@ struct gp_digits {
 	uint64_t colon_mask;
 	enum gp_dot_shape colon_shape;
 	int64_t colon_size;
+	int64_t colon_pitch;      /* digit to digit across a colon; 0: pitch */
 	/* the unit before digit 1: a minus sign and/or a half digit "1" */
 	bool minus, one;
 	/* drive */
@@ -156,6 +157,10 @@ struct gp_digits {
 	size_t pair_count;
 	struct gp_where drive_where;
 };
+
+/* Upright x offset of digit i (0-based) from the row's origin: i pitches,
+ * each one across a colon `colon_pitch` instead when that is given. */
+int64_t gp_digits_offset(const struct gp_digits *row, long i);
 
 struct gp_design;
 /* Reads the "digits" section (a map of rows by name) into design. */
@@ -192,6 +197,22 @@ struct gp_digit_trace {
 };
 
 #define GP_UNIT_MAX_TRACES (2 * GP_UNIT_MAX_PARTS + 8)
+#define GP_DIGITS_MAX_DUTY 8
+
+/* A back-plate link of a banded unit (see digits-plan.c, "bands"): it
+ * joins parts of one common inside the unit, or leads a common out to
+ * the unit's side. */
+struct gp_digit_back {
+	struct gp_polygon poly;
+	int common;               /* 1-based */
+};
+
+/* Where a common of a banded unit leaves it sideways: the end of its
+ * exit, upright (u across, v up) relative to the unit's origin, in nm. */
+struct gp_digit_exit {
+	bool given;
+	double u, v;
+};
 
 /* A unit: digit 1..count, or unit 0 for the minus and "1" (when any). */
 struct gp_digit_unit {
@@ -206,6 +227,15 @@ struct gp_digit_unit {
 	int order[GP_UNIT_MAX_PARTS];
 	int line_count;           /* segment lines of this unit */
 	int first_line_net;       /* net of line 1, once laid out */
+	/* banded units (multiplexed rows but the 1/4-duty grid) */
+	bool banded;
+	struct gp_digit_back backs[GP_UNIT_MAX_TRACES];
+	int back_count;
+	struct gp_digit_exit left[GP_DIGITS_MAX_DUTY], right[GP_DIGITS_MAX_DUTY];
+	double reach_left, reach_right; /* upright u the unit's own leads reach */
+	double reach_left_hi, reach_right_hi, v_low; /* ... above v_low */
+	double pitch;             /* centre to centre of two leads side by side */
+	double lead, keep;        /* lead width; its clearance from parts */
 };
 
 /* Where a segment line leaves a row toward the ledge (the lower edge, -y):
@@ -227,6 +257,11 @@ struct gp_digit_row {
 	struct gp_digit_port *ports;
 	size_t port_count;
 };
+
+/* Whether a row is laid out in bands (see digits-plan.c): multiplexed,
+ * the documented assignment, not the grid, and a band layout known for
+ * its figure and duty with and without a point as its digits need. */
+bool gp_digits_banded(const struct gp_digits *row);
 
 /* Line width and spacing for the lead-ins, and the shift to survive. */
 struct gp_digit_rules {

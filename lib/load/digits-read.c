@@ -14,7 +14,8 @@
  *       ends: bevelled        or square
  *       point: {shape: round, size: 0.8, gap: 0.15, on: [1, 2, 3],
  *               at: [x, y]}   centre relative to the digit's origin
- *       colon: {after: [2], shape: round, size: 0.6}
+ *       colon: {after: [2], shape: round, size: 0.6, pitch: 11}
+ *                             pitch: digit to digit across the colon
  *       minus: true           a sign unit one pitch before digit 1
  *       one: true             ... with a half digit "1"
  *       duty: 4               1 (static) to 4
@@ -91,6 +92,7 @@ static bool read_colon(struct gp_digits *row, const struct gp_node *node,
 	gp_reader_begin(&r, node, label, diag);
 	bool ok = gp_read_choice(&r, "shape", false, shapes, &shape);
 	ok &= gp_read_size(&r, "size", false, &row->colon_size);
+	ok &= gp_read_size(&r, "pitch", false, &row->colon_pitch);
 	const struct gp_node *after = gp_read_node(&r, "after", true);
 	if (after) {
 		if (row->count < 2)
@@ -224,6 +226,17 @@ static bool read_row(struct gp_digits *row, const char *name,
  * outline's width. */
 static bool check_row(const struct gp_digits *row, struct gp_diag *diag)
 {
+	if (row->colon_mask && row->colon_pitch &&
+	    row->colon_pitch <= row->figure.width) {
+		char p[32], w[32];
+		gp_format_mm_short(p, sizeof(p), row->colon_pitch);
+		gp_format_mm_short(w, sizeof(w), row->figure.width);
+		return gp_diag_error(diag, &row->where,
+				     "digits '%s': the pitch across the colon "
+				     "%s mm is not larger than the digit width "
+				     "%s mm; digits would overlap",
+				     row->name, p, w);
+	}
 	if (row->count > 1 && row->pitch <= row->figure.width) {
 		char p[32], w[32];
 		gp_format_mm_short(p, sizeof(p), row->pitch);
