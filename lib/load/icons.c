@@ -36,45 +36,6 @@ void gp_icons_free(struct gp_design *design)
 	design->icon_count = 0;
 }
 
-/* Commons the blocks and digit rows make before the icons: COM1..this. */
-static long earlier_commons(const struct gp_design *design)
-{
-	long total = 0;
-	for (size_t i = 0; i < design->block_count; i++)
-		if (design->blocks[i].commons_from < 0)
-			total += design->blocks[i].lines *
-				 design->blocks[i].dots_down;
-	for (size_t i = 0; i < design->digit_count; i++)
-		total += design->digits[i].duty;
-	return total;
-}
-
-/* "COM12" -> 12; 0 when the name is not of that form. */
-long gp_icon_common_number(const char *name)
-{
-	if (strncmp(name, "COM", 3) != 0 || name[3] < '1' || name[3] > '9')
-		return 0;
-	char *end = NULL;
-	long n = strtol(name + 3, &end, 10);
-	return *end == '\0' && n > 0 ? n : 0;
-}
-
-int gp_icons_common_count(const struct gp_design *design)
-{
-	int count = 0;
-	long earlier = earlier_commons(design);
-	for (size_t i = 0; i < design->icon_count; i++) {
-		const char *c = design->icons[i].common;
-		long n = c ? gp_icon_common_number(c) : 0;
-		bool seen = !c || (n > 0 && n <= earlier);
-		for (size_t j = 0; j < i && !seen; j++)
-			seen = design->icons[j].common &&
-			       strcmp(design->icons[j].common, c) == 0;
-		count += !seen;
-	}
-	return count;
-}
-
 static const char *kind_name(enum gp_icon_kind kind)
 {
 	return kind == GP_ICON_TEXT ? "text" : shape_names[kind - 1];

@@ -180,9 +180,6 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 
 enum gp_plate gp_common_plate(const struct gp_design *design);
 
-/* Number of commons (COM nets) the design drives: the duty is 1/N. */
-int gp_design_common_count(const struct gp_design *design);
-
 /* Section readers, one per module. */
 bool gp_electrical_read(struct gp_design *design, const struct gp_node *node,
 			struct gp_diag *diag);
@@ -194,12 +191,6 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 /* Reads the 'icons' section (after 'blocks' and 'rules'). */
 bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag);
-/* Commons the icons add: their named icon commons (a block row's common
- * shared by an icon adds none). */
-int gp_icons_common_count(const struct gp_design *design);
-/* The n of a common named "COMn" (an existing common of the blocks or
- * digit rows when n is not past them), else 0. */
-long gp_icon_common_number(const char *name);
 /* Frees what gp_icons_read allocated. */
 void gp_icons_free(struct gp_design *design);
 /* Top-left corner of dot (row, col) of cell (line, cell) of a block,
