@@ -390,11 +390,12 @@ static bool add_gerbers(const struct gp_build *build,
 		snprintf(name, sizeof(name), "%s.gbr",
 			 gp_layer_name((enum gp_layer)layer));
 		struct gp_buffer *out = gp_output_add(set, name, diag);
-		const char *why = "out of memory";
+		char why[320];
 		if (!out)
 			return false;
 		if (!gp_gerber_write_why(out, &build->art,
-					 (enum gp_layer)layer, &info, &why))
+					 (enum gp_layer)layer, &info, why,
+					 sizeof(why)))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
 					     "Gerber file: %s", name, why);
 	}
