@@ -135,9 +135,12 @@ int tool_source_date_epoch(long long *epoch)
 	const char *text = getenv("SOURCE_DATE_EPOCH");
 	if (!text || !*text)
 		return 0;
-	char *end;
-	long long value = strtoll(text, &end, 10);
-	if (*end || value < 0 || value > 253402300799LL) {
+	/* digits only: strtoll would take blanks and a sign */
+	size_t digits = strspn(text, "0123456789");
+	long long value = -1;
+	if (!text[digits] && digits <= 12)
+		value = strtoll(text, NULL, 10);
+	if (value < 0 || value > 253402300799LL) {
 		tool_usage_error("SOURCE_DATE_EPOCH='%s' is not a number of "
 				 "seconds since 1970 (up to year 9999)", text);
 		return -2;
