@@ -7,6 +7,7 @@
 #include "buffer.h"
 #include "check.h"
 #include "diag.h"
+#include "drive.h"
 #include "model.h"
 #include "output.h"
 #include "route.h"
@@ -54,8 +55,14 @@ struct gp_build {
 	struct gp_buffer written;
 	struct gp_buffer json;
 	unsigned outputs;               /* enum gp_output_kind bits */
+	bool outputs_chosen;            /* by gp_build_select (--only) */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
+	/* The drive resolved against the commons the layout made (N is
+	 * art.common_count, counted once, from the artwork), when the
+	 * description has a 'drive' or 'optics' section. */
+	bool has_drive;
+	struct gp_drive_report drive;
 	/* findings of the check stage (lib/check.h) */
 	struct gp_check_report checks;
 	bool checked;
@@ -87,6 +94,14 @@ int gp_block_common_net(const struct gp_build *build, size_t block, long row);
 bool gp_build_outputs(struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag);
+
+/* The drive of a design on the commons its layout makes: runs the
+ * layout stages (blocks, digits, icons) on a scratch build and resolves
+ * the drive against their COM nets, with or without a drive section
+ * (gp_drive_resolve_spec; an empty window is an error in diag and
+ * report->result.feasible false).  For 'glassplot drive' and tests. */
+bool gp_design_drive(const struct gp_design *design,
+		     struct gp_drive_report *report, struct gp_diag *diag);
 
 /* Lays out every icon: nets, front electrodes and bridges, back patches
  * and bridges, pixels, summary lines (icon-layout.c). */
