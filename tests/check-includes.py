@@ -1,13 +1,18 @@
 #!/usr/bin/env python3
-"""Fails when an include in lib/ runs back up the pipeline.
+"""Fails when an include or a call in lib/ runs back up the pipeline.
 
 The rooms of lib/ are ordered as the stages run (ROOMS below, the same
 order as lib/meson.build).  A file may include headers of its own room, of
 an earlier room, the public header and system headers; anything else is an
-arrow back up the pipeline and fails the test.  Usage: check-includes.py LIBDIR
+arrow back up the pipeline and fails the test.  Given the internal static
+library as well, the same holds for calls: no object of a room may use a
+symbol defined in a later room (read with nm).
+
+Usage: check-includes.py LIBDIR [ARCHIVE]
 """
 import os
 import re
+import subprocess
 import sys
 
 ROOMS = ['base', 'load', 'layout', 'route', 'drive', 'check', 'write', 'pipeline']
@@ -16,14 +21,18 @@ INCLUDE = re.compile(r'^\s*#\s*include\s+"([^"]+)"', re.M)
 ANYWHERE = {'glassplot.h', 'gp-config.h'}
 
 
-def main(libdir):
+def rooms_in(libdir):
+    return [room for room in ROOMS if os.path.isdir(os.path.join(libdir, room))]
+
+
+def include_arrows(libdir):
     home = {}
-    for room in ROOMS:
+    for room in rooms_in(libdir):
         for name in os.listdir(os.path.join(libdir, room)):
             if name.endswith('.h'):
                 home[name] = room
     bad = []
-    for room in ROOMS:
+    for room in rooms_in(libdir):
         folder = os.path.join(libdir, room)
         for name in sorted(os.listdir(folder)):
             if not name.endswith(('.c', '.h')):
@@ -38,11 +47,49 @@ def main(libdir):
                 elif ROOMS.index(home[header]) > ROOMS.index(room):
                     bad.append(f'lib/{room}/{name}: includes "{header}" '
                                f'from the later room {home[header]}/')
-    for line in bad:
+    return bad
+
+
+def object_room(member):
+    """meson names an object ROOM_FILE.c.o; None for anything else."""
+    room = member.split('_', 1)[0]
+    return room if room in ROOMS and member.endswith('.c.o') else None
+
+
+def call_arrows(archive):
+    listing = subprocess.run(['nm', '-A', archive], capture_output=True,
+                             text=True, check=True).stdout
+    defined, used = {}, []
+    for line in listing.splitlines():
+        # ARCHIVE:MEMBER:VALUE TYPE NAME, VALUE blank for undefined symbols
+        head, _, tail = line.rpartition('.o:')
+        member = os.path.basename(head + '.o')
+        room = object_room(member)
+        fields = tail.split()
+        if room is None:
+            continue
+        if len(fields) == 2 and fields[0] == 'U':
+            used.append((room, member, fields[1]))
+        elif len(fields) == 3 and fields[1] in 'TDRB':
+            defined[fields[2]] = (room, member)
+    bad = []
+    for room, member, symbol in used:
+        if symbol in defined:
+            home, where = defined[symbol]
+            if ROOMS.index(home) > ROOMS.index(room):
+                bad.append(f'{room}/{member[len(room) + 1:-2]}: calls '
+                           f'{symbol} from the later room {home}/')
+    return sorted(set(bad))
+
+
+def main(args):
+    bad = include_arrows(args[0])
+    calls = call_arrows(args[1]) if len(args) > 1 else []
+    for line in bad + calls:
         print(line)
-    print(f'{len(bad)} includes run back up the pipeline')
-    return 1 if bad else 0
+    print(f'{len(bad)} includes and {len(calls)} calls run back up the pipeline')
+    return 1 if bad or calls else 0
 
 
 if __name__ == '__main__':
-    sys.exit(main(sys.argv[1]))
+    sys.exit(main(sys.argv[1:]))

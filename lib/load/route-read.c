@@ -1,6 +1,6 @@
 /* Reading the routing sections: ledges, leads, seal, transfers, marks,
  * pins and part_text. */
-#include "route.h"
+#include "route-spec.h"
 
 #include "model.h"
 #include "units.h"

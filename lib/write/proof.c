@@ -1,5 +1,5 @@
-/* The PDF proof: the 'proof' section, the sheet plan, the frame and title
- * block, text primitives, and the document itself. */
+/* The PDF proof: the sheet plan, the frame and title block, text
+ * primitives, and the document itself. */
 #include "proof-internal.h"
 
 #include "font.h"
@@ -28,60 +28,9 @@ const struct rgb proof_transfer_colour = { 0.55, 0.05, 0.55 };
 const struct rgb proof_dim_colour = { 0.0, 0.0, 0.0 };
 const struct rgb proof_finding_colour = { 0.85, 0.0, 0.05 };
 
-/* Sheet sizes, portrait, mm: ISO 216 A series and the US sizes of
- * ANSI/ASME Y14.1 (from memory). */
-struct paper {
-	const char *key, *name;
-	double w, h;
-	int series;               /* 0 ISO, 1 US */
-};
-
-static const struct paper papers[] = {
-	{ "a4", "A4", 210, 297, 0 },
-	{ "a3", "A3", 297, 420, 0 },
-	{ "a2", "A2", 420, 594, 0 },
-	{ "a1", "A1", 594, 841, 0 },
-	{ "a0", "A0", 841, 1189, 0 },
-	{ "letter", "Letter", 215.9, 279.4, 1 },
-	{ "legal", "Legal", 215.9, 355.6, 1 },
-	{ "tabloid", "Tabloid", 279.4, 431.8, 1 },
-	{ "ansi-c", "ANSI C", 431.8, 558.8, 1 },
-	{ "ansi-d", "ANSI D", 558.8, 863.6, 1 },
-	{ "ansi-e", "ANSI E", 863.6, 1117.6, 1 },
-};
-#define PAPER_COUNT (sizeof(papers) / sizeof(papers[0]))
-
 /* Reduction scales recommended by ISO 5455 (from memory), tried in turn
  * when the glass does not fit at 1:1. */
 static const int reductions[] = { 1, 2, 5, 10, 20, 50, 100 };
-
-/* --- the 'proof' section ------------------------------------------------- */
-
-bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
-		   struct gp_diag *diag)
-{
-	static const char *const series[] = { "iso", "us", NULL };
-	static const char *const orientations[] = { "any", "portrait",
-						    "landscape", NULL };
-	const char *paper_keys[PAPER_COUNT + 2];
-	paper_keys[0] = "fit";
-	for (size_t i = 0; i < PAPER_COUNT; i++)
-		paper_keys[i + 1] = papers[i].key;
-	paper_keys[PAPER_COUNT + 1] = NULL;
-
-	struct gp_proof_spec *s = &design->proof;
-	struct gp_reader r;
-	s->where = node->where;
-	gp_reader_begin(&r, node, "'proof'", diag);
-	gp_read_choice(&r, "paper", false, paper_keys, &s->paper);
-	gp_read_choice(&r, "series", false, series, &s->series);
-	gp_read_choice(&r, "orientation", false, orientations,
-		       &s->orientation);
-	gp_read_size(&r, "span_tolerance", false, &s->span_tolerance);
-	gp_read_size(&r, "outline_tolerance", false, &s->outline_tolerance);
-	gp_read_string(&r, "revision_date", false, &s->revision_date);
-	return gp_reader_end(&r);
-}
 
 /* --- the plan ------------------------------------------------------------ */
 
@@ -106,7 +55,7 @@ static void overview_need(const struct gp_build *build, double s, double *w,
 		*w = least;
 }
 
-static bool fits(const struct paper *paper, bool landscape, double w,
+static bool fits(const struct gp_paper *paper, bool landscape, double w,
 		 double h)
 {
 	double pw = landscape ? paper->h : paper->w;
@@ -123,8 +72,8 @@ static bool choose_paper(const struct gp_build *build, double s,
 	double w, h;
 	overview_need(build, s, &w, &h);
 	bool wide = w >= h;
-	for (size_t i = 0; i < PAPER_COUNT; i++) {
-		const struct paper *paper = &papers[i];
+	for (size_t i = 0; i < GP_PAPER_COUNT; i++) {
+		const struct gp_paper *paper = &gp_papers[i];
 		if (spec->paper ? (size_t)spec->paper != i + 1
 				: paper->series != spec->series)
 			continue;
@@ -150,11 +99,11 @@ static void largest_paper(const struct gp_build *build,
 			  struct gp_proof_plan *plan)
 {
 	const struct gp_proof_spec *spec = &build->design->proof;
-	const struct paper *paper = NULL;
-	for (size_t i = 0; i < PAPER_COUNT; i++)
+	const struct gp_paper *paper = NULL;
+	for (size_t i = 0; i < GP_PAPER_COUNT; i++)
 		if (spec->paper ? (size_t)spec->paper == i + 1
-				: papers[i].series == spec->series)
-			paper = &papers[i];
+				: gp_papers[i].series == spec->series)
+			paper = &gp_papers[i];
 	plan->landscape = spec->orientation != 1;
 	plan->paper_name = paper->name;
 	plan->paper_w = plan->landscape ? paper->h : paper->w;
