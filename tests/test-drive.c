@@ -16,6 +16,7 @@
 #include <cmocka.h>
 
 #include "drive.h"
+#include "build.h"
 #include "model.h"
 
 #include <json-c/json.h>
@@ -425,7 +426,7 @@ static void load(struct loaded *l, const char *first, const char *second)
 	l->design = gp_design_load_buffer("t.yaml", text, strlen(text), NULL,
 					  0, &l->diag);
 	l->resolved = l->design &&
-		      gp_drive_resolve(l->design, &l->report, &l->diag);
+		      gp_design_drive(l->design, &l->report, &l->diag);
 }
 
 static void unload(struct loaded *l)

@@ -10,6 +10,7 @@
 #include "build.h"
 #include "model.h"
 #include "proof.h"
+#include "proof-internal.h"
 #include "route.h"
 
 #include <math.h>
@@ -630,6 +631,109 @@ static void test_reduced_scale_stated(void **state)
 	unload(&f);
 }
 
+/* --- legend colours for a colour-blind reader ------------------------------ */
+
+/* Simulated dichromat vision: the matrices of Machado, Oliveira and
+ * Fernandes, "A physiologically-based model for simulation of color vision
+ * deficiency", IEEE TVCG 2009, severity 1.0, on linear RGB (from memory). */
+static const double protanopia[3][3] = {
+	{ 0.152286, 1.052583, -0.204868 },
+	{ 0.114503, 0.786281, 0.099216 },
+	{ -0.003882, -0.048116, 1.051998 },
+};
+static const double deuteranopia[3][3] = {
+	{ 0.367322, 0.860646, -0.227968 },
+	{ 0.280085, 0.672501, 0.047413 },
+	{ -0.011820, 0.042940, 0.968881 },
+};
+static const double normal_vision[3][3] = {
+	{ 1, 0, 0 }, { 0, 1, 0 }, { 0, 0, 1 }
+};
+
+/* sRGB decoding (IEC 61966-2-1) */
+static double linear(double c)
+{
+	return c <= 0.04045 ? c / 12.92 : pow((c + 0.055) / 1.055, 2.4);
+}
+
+static double lab_f(double t)
+{
+	return t > 216.0 / 24389 ? cbrt(t) : (24389.0 / 27 * t + 16) / 116;
+}
+
+/* CIELAB (D65 white) of colour c painted with alpha over white paper, as
+ * seen through matrix m. */
+static void seen(struct rgb c, double alpha, const double m[3][3],
+		 double lab[3])
+{
+	double in[3] = { linear(alpha * c.r + 1 - alpha),
+			 linear(alpha * c.g + 1 - alpha),
+			 linear(alpha * c.b + 1 - alpha) };
+	double rgb[3];
+	for (int i = 0; i < 3; i++) {
+		rgb[i] = m[i][0] * in[0] + m[i][1] * in[1] + m[i][2] * in[2];
+		rgb[i] = rgb[i] < 0 ? 0 : rgb[i] > 1 ? 1 : rgb[i];
+	}
+	/* sRGB to XYZ (IEC 61966-2-1), white D65 */
+	double x = 0.4124 * rgb[0] + 0.3576 * rgb[1] + 0.1805 * rgb[2];
+	double y = 0.2126 * rgb[0] + 0.7152 * rgb[1] + 0.0722 * rgb[2];
+	double z = 0.0193 * rgb[0] + 0.1192 * rgb[1] + 0.9505 * rgb[2];
+	double fx = lab_f(x / 0.95047), fy = lab_f(y), fz = lab_f(z / 1.08883);
+	lab[0] = 116 * fy - 16;
+	lab[1] = 500 * (fx - fy);
+	lab[2] = 200 * (fy - fz);
+}
+
+static double colour_distance(const struct proof_legend_item *a,
+			      const struct proof_legend_item *b,
+			      const double m[3][3])
+{
+	double la[3], lb[3];
+	seen(a->colour, a->alpha, m, la);
+	seen(b->colour, b->alpha, m, lb);
+	return sqrt((la[0] - lb[0]) * (la[0] - lb[0]) +
+		    (la[1] - lb[1]) * (la[1] - lb[1]) +
+		    (la[2] - lb[2]) * (la[2] - lb[2]));
+}
+
+/* Every two legend items differ: by their swatch (line style) when they
+ * share a colour, else by a colour difference of at least 20 CIELAB
+ * units for normal, protanope and deuteranope vision alike (20: clearly
+ * distinct at a glance, common practice, no published source; the just
+ * noticeable difference is about 2.3, Sharma 2003).  The finding colour
+ * is held against them too. */
+static void test_legend_colours(void **state)
+{
+	const struct proof_legend_item finding = { "finding",
+						   proof_finding_colour, 1.0,
+						   SWATCH_FILL };
+	int n = proof_overview_legend_count;
+	const double (*visions[3])[3] = { normal_vision, protanopia,
+					  deuteranopia };
+	for (int i = 0; i <= n; i++)
+		for (int k = i + 1; k <= n; k++) {
+			const struct proof_legend_item *a =
+				&proof_overview_legend[i];
+			const struct proof_legend_item *b =
+				k == n ? &finding : &proof_overview_legend[k];
+			if (colour_distance(a, b, normal_vision) < 1) {
+				assert_int_not_equal(a->swatch, b->swatch);
+				continue;
+			}
+			for (int v = 0; v < 3; v++)
+				if (colour_distance(a, b, visions[v]) < 20)
+					fail_msg("'%s' and '%s' look alike "
+						 "(vision %d)",
+						 a->label, b->label, v);
+		}
+	/* the check can fail: the old transfer and viewing-area purples */
+	const struct proof_legend_item purple1 = { "a", { 0.55, 0.05, 0.55 },
+						   1.0, SWATCH_FILL };
+	const struct proof_legend_item purple2 = { "b", { 0.45, 0.20, 0.70 },
+						   1.0, SWATCH_FILL };
+	assert_true(colour_distance(&purple1, &purple2, protanopia) < 20);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -642,6 +746,7 @@ int main(void)
 		cmocka_unit_test(test_scale),
 		cmocka_unit_test(test_paper),
 		cmocka_unit_test(test_reduced_scale_stated),
+		cmocka_unit_test(test_legend_colours),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -41,45 +41,30 @@ void gp_check_limits_from_design(struct gp_check_limits *l,
 	     i++)
 		if (d->routing->ledges[i].connection == GP_LEDGE_ELASTOMERIC)
 			l->conductor_pitch = d->routing->ledges[i].connector_pitch;
-	/* row time 1/(N f): N from the duty given, else the commons */
-	long commons = d->drive.duty.given ? (long)d->drive.duty.value
-					   : gp_design_common_count(d);
-	if (d->drive.frame_rate.given && d->drive.frame_rate.value > 0 &&
-	    commons > 0)
-		l->row_time = 1.0 / ((double)commons * d->drive.frame_rate.value);
 }
 
 /* The drive as a finding: an empty operating-voltage window blocks
- * manufacture as surely as a short.  Its warnings (values out of their
- * usual ranges) go to diag; bad drive input was refused on loading. */
+ * manufacture as surely as a short.  The pipeline resolved the drive
+ * after the layout (build->drive), passed its warnings on and refused
+ * bad drive input there. */
 static bool check_drive(struct gp_build *build, struct gp_diag *diag)
 {
 	const struct gp_design *d = build->design;
-	if (!d->drive.has_optics)
-		return true;
-	struct gp_diag scratch;
-	gp_diag_init(&scratch);
-	struct gp_drive_report report;
-	bool ok = gp_drive_resolve(d, &report, &scratch);
-	for (size_t i = 0; i < scratch.count; i++)
-		if (scratch.entries[i].severity == GP_SEVERITY_WARNING)
-			gp_diag_warning(diag, NULL, "%s",
-					scratch.entries[i].message);
-	gp_diag_finish(&scratch);
-	if (!ok || report.result.feasible)
+	const struct gp_drive_report *report = &build->drive;
+	if (!build->has_drive || report->result.feasible)
 		return true;
 	struct gp_finding f = {
 		.rule = GP_CHECK_DRIVE,
 		.severity = GP_SEVERITY_ERROR,
 		.nets = { GP_NET_NONE, GP_NET_NONE },
 		.place = { d->viewing.x0, d->viewing.y0 },
-		.value = report.result.ratio,
-		.limit = report.result.needed,
+		.value = report->result.ratio,
+		.limit = report->result.needed,
 		.unit = GP_UNIT_RATIO,
 		.pixel = -1,
 		.shape = -1,
 	};
-	gp_drive_advice(&report, f.text, sizeof(f.text));
+	gp_drive_advice(report, f.text, sizeof(f.text));
 	return gp_check_report_add(&build->checks, &f) ||
 	       gp_diag_error(diag, NULL, "out of memory");
 }
@@ -88,6 +73,10 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 {
 	struct gp_check_limits limits;
 	gp_check_limits_from_design(&limits, build->design);
+	/* row time 1/(N f) with N the commons the layout made, as the drive
+	 * computed it; not known without a frame rate */
+	if (build->has_drive && build->drive.result.has_timing)
+		limits.row_time = build->drive.result.row_time;
 	/* pads: their ledge's clearance from the edge along it */
 	for (size_t i = 0; i < build->ledge_count; i++) {
 		const struct gp_ledge *l = &build->ledges[i];

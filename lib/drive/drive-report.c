@@ -641,26 +641,3 @@ void gp_drive_format_json(const struct gp_drive_report *report,
 	gp_buffer_puts(out, "\n");
 	json_object_put(o);
 }
-
-GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
-				       enum gp_drive_output output,
-				       bool *feasible, struct gp_diag *diag)
-{
-	struct gp_drive_report report;
-	*feasible = true;
-	if (!gp_drive_resolve(design, &report, diag))
-		return NULL;
-	*feasible = report.result.feasible;
-	struct gp_buffer out;
-	gp_buffer_init(&out);
-	if (output == GP_DRIVE_JSON)
-		gp_drive_format_json(&report, &out);
-	else
-		gp_drive_format(&report, &out);
-	if (out.failed || !out.data) {
-		gp_buffer_finish(&out);
-		gp_diag_error(diag, NULL, "out of memory");
-		return NULL;
-	}
-	return out.data;
-}

@@ -199,15 +199,3 @@ bool gp_drive_resolve_spec(const struct gp_drive_spec *spec, long commons,
 	}
 	return true;
 }
-
-bool gp_drive_resolve(const struct gp_design *design,
-		      struct gp_drive_report *report, struct gp_diag *diag)
-{
-	const char *file = design->spec ? design->spec->file : NULL;
-	bool ok = gp_drive_resolve_spec(&design->drive,
-					gp_design_common_count(design), file,
-					report, diag);
-	report->part = design->part;
-	report->revision = design->revision;
-	return ok;
-}

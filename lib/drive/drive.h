@@ -187,16 +187,15 @@ struct gp_drive_report {
 	struct gp_drive_result result;
 };
 
-/* Checks the drive against the design's commons (duty, bias range) and
- * computes it.  Errors (bad input) at the value's place return false;
- * an empty Vop window is recorded as an error too, but returns true with
- * report->result.feasible false.  Warnings for values out of their usual
- * ranges. */
-bool gp_drive_resolve(const struct gp_design *design,
-		      struct gp_drive_report *report, struct gp_diag *diag);
-
-/* The same from a spec and a number of commons, for callers (and tests)
- * without a design. */
+/* Checks the drive against the number of commons the layout made (the
+ * pipeline resolves it once, in build->drive, right after the layout
+ * stages; a design alone does not know its commons) and computes it:
+ * duty, bias range.  Errors (bad input) at the value's place return
+ * false; an empty Vop window is recorded as an error too, but returns
+ * true with report->result.feasible false.  Warnings for values out of
+ * their usual ranges.  commons < 1 takes N from the spec's duty (a
+ * drive-only description).  The caller fills report->part and
+ * ->revision. */
 bool gp_drive_resolve_spec(const struct gp_drive_spec *spec, long commons,
 			   const char *file, struct gp_drive_report *report,
 			   struct gp_diag *diag);

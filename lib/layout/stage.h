@@ -9,6 +9,7 @@
 #include "artwork.h"
 #include "buffer.h"
 #include "diag.h"
+#include "drive.h"
 #include "findings.h"
 #include "geom.h"
 #include "model.h"
@@ -80,8 +81,14 @@ struct gp_build {
 	struct gp_buffer written;
 	struct gp_buffer json;
 	unsigned outputs;               /* enum gp_output_kind bits */
+	bool outputs_chosen;            /* by gp_build_select (--only) */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
+	/* The drive resolved against the commons the layout made (N is
+	 * art.common_count, counted once, from the artwork), when the
+	 * description has a 'drive' or 'optics' section. */
+	bool has_drive;
+	struct gp_drive_report drive;
 	/* findings of the check stage (lib/check.h) */
 	struct gp_check_report checks;
 	bool checked;

@@ -50,7 +50,7 @@ struct gp_drive_value {
 };
 
 /* The two sections as written; checked against the number of commons
- * only in gp_drive_resolve, since that comes from the whole design. */
+ * only in gp_drive_resolve_spec, since that comes from the artwork. */
 struct gp_drive_spec {
 	bool has_drive, has_optics;
 	struct gp_where drive_where, optics_where;

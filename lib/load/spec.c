@@ -591,10 +591,23 @@ static void list_known(const struct gp_reader *reader, char *out,
 	}
 }
 
+static void (*reader_observer)(const struct gp_reader *reader, void *data);
+static void *reader_observer_data;
+
+void gp_reader_observe(void (*observer)(const struct gp_reader *reader,
+					void *data),
+		       void *data)
+{
+	reader_observer = observer;
+	reader_observer_data = data;
+}
+
 bool gp_reader_end(struct gp_reader *reader)
 {
 	if (!reader->map)
 		return reader->ok;
+	if (reader_observer)
+		reader_observer(reader, reader_observer_data);
 	for (size_t i = 0; i < reader->map->count; i++) {
 		const struct gp_node *key = reader->map->keys[i];
 		bool known = false;

@@ -85,7 +85,48 @@ static bool check_net_count(const struct gp_build *build,
 			     build->art.net_count, GP_MAX_NETS);
 }
 
-GP_EXPORT struct gp_build *gp_build_create_with_progress(
+/* Moves the messages of scratch into diag: all of them when the drive
+ * could not be resolved, else the warnings and notes only (an empty Vop
+ * window is a finding of the check stage, not bad input). */
+static void forward_drive_messages(struct gp_diag *scratch, bool resolved,
+				   struct gp_diag *diag)
+{
+	for (size_t i = 0; i < scratch->count; i++) {
+		const struct gp_diag_entry *e = &scratch->entries[i];
+		if (e->severity == GP_SEVERITY_ERROR && resolved)
+			continue;
+		if (e->severity == GP_SEVERITY_ERROR)
+			gp_diag_error(diag, NULL, "%s", e->message);
+		else if (e->severity == GP_SEVERITY_WARNING)
+			gp_diag_warning(diag, NULL, "%s", e->message);
+		else
+			gp_diag_note(diag, NULL, "%s", e->message);
+	}
+}
+
+/* The drive against the commons the layout made: the one place N comes
+ * from for the drive spec, the checks (row time, RC), the proof and the
+ * summary.  A drive that cannot be computed fails the build at the
+ * place of its cause. */
+static bool resolve_drive(struct gp_build *build, struct gp_diag *diag)
+{
+	const struct gp_design *d = build->design;
+	if (!d->drive.has_drive && !d->drive.has_optics)
+		return true;
+	struct gp_diag scratch;
+	gp_diag_init(&scratch);
+	bool ok = gp_drive_resolve_spec(&d->drive, build->art.common_count,
+					d->spec ? d->spec->file : NULL,
+					&build->drive, &scratch);
+	build->drive.part = d->part;
+	build->drive.revision = d->revision;
+	forward_drive_messages(&scratch, ok, diag);
+	gp_diag_finish(&scratch);
+	build->has_drive = ok;
+	return ok;
+}
+
+static struct gp_build *build_new(
 	const struct gp_design *design,
 	void (*progress)(const char *stage, void *data), void *data,
 	struct gp_diag *diag)
@@ -108,11 +149,31 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 	gp_check_report_init(&build->checks);
 	gp_buffer_init(&build->check_text);
 	gp_buffer_init(&build->check_json);
-	/* pipeline order: blocks, digits, icons, routing, outlines, checks */
+	return build;
+}
+
+/* The layout stages, which make every net, then the drive on their
+ * commons. */
+static bool lay_out(struct gp_build *build, struct gp_diag *diag)
+{
+	return gp_blocks_layout(build, diag) &&
+	       gp_digits_layout(build, diag) &&
+	       gp_icons_layout(build, diag) &&
+	       resolve_drive(build, diag);
+}
+
+GP_EXPORT struct gp_build *gp_build_create_with_progress(
+	const struct gp_design *design,
+	void (*progress)(const char *stage, void *data), void *data,
+	struct gp_diag *diag)
+{
+	struct gp_build *build = build_new(design, progress, data, diag);
+	if (!build)
+		return NULL;
+	/* pipeline order: blocks, digits, icons, drive, routing, outlines,
+	 * checks */
 	stage(build, "layout");
-	if (!gp_blocks_layout(build, diag) ||
-	    !gp_digits_layout(build, diag) ||
-	    !gp_icons_layout(build, diag) ||
+	if (!lay_out(build, diag) ||
 	    !gp_route_layout(build, diag) ||
 	    !gp_outlines_layout(build, diag) ||
 	    !check_net_count(build, diag)) {
@@ -132,6 +193,48 @@ GP_EXPORT struct gp_build *gp_build_create(const struct gp_design *design,
 					   struct gp_diag *diag)
 {
 	return gp_build_create_with_progress(design, NULL, NULL, diag);
+}
+
+bool gp_design_drive(const struct gp_design *design,
+		     struct gp_drive_report *report, struct gp_diag *diag)
+{
+	memset(report, 0, sizeof(*report));
+	struct gp_build *build = build_new(design, NULL, NULL, diag);
+	if (!build)
+		return false;
+	bool ok = gp_blocks_layout(build, diag) &&
+		  gp_digits_layout(build, diag) &&
+		  gp_icons_layout(build, diag) &&
+		  gp_drive_resolve_spec(&design->drive, build->art.common_count,
+					design->spec ? design->spec->file : NULL,
+					report, diag);
+	report->part = design->part;
+	report->revision = design->revision;
+	gp_build_destroy(build);
+	return ok;
+}
+
+GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
+				       enum gp_drive_output output,
+				       bool *feasible, struct gp_diag *diag)
+{
+	struct gp_drive_report report;
+	*feasible = true;
+	if (!gp_design_drive(design, &report, diag))
+		return NULL;
+	*feasible = report.result.feasible;
+	struct gp_buffer out;
+	gp_buffer_init(&out);
+	if (output == GP_DRIVE_JSON)
+		gp_drive_format_json(&report, &out);
+	else
+		gp_drive_format(&report, &out);
+	if (out.failed || !out.data) {
+		gp_buffer_finish(&out);
+		gp_diag_error(diag, NULL, "out of memory");
+		return NULL;
+	}
+	return out.data;
 }
 
 GP_EXPORT void gp_build_destroy(struct gp_build *build)
@@ -164,31 +267,58 @@ static const char *const output_kinds[] = {
 	"gerber", "proof", "pins", "firmware", "report", NULL,
 };
 
-GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
-			       struct gp_diag *diag)
+/* The kinds listed, as enum gp_output_kind bits; 0 with a message when
+ * the list is empty, or names a kind twice or one that is not known. */
+static unsigned parse_kinds(const char *kinds, struct gp_diag *diag)
 {
 	unsigned selected = 0;
 	const char *p = kinds;
-	while (*p) {
-		size_t length = strcspn(p, ",");
-		bool known = false;
-		for (int i = 0; output_kinds[i] && !known; i++) {
-			if (strlen(output_kinds[i]) == length &&
-			    strncmp(output_kinds[i], p, length) == 0) {
-				selected |= 1u << i;
-				known = true;
-			}
-		}
-		if (!known)
-			return gp_diag_error(diag, NULL,
-					     "unknown kind of output '%.*s'; "
-					     "expected a list of gerber, "
-					     "proof, pins, firmware, report",
-					     (int)length, p);
-		p += length + (p[length] == ',');
+	if (!*p) {
+		gp_diag_error(diag, NULL, "no kind of output given; expected a "
+			      "list of gerber, proof, pins, firmware, report");
+		return 0;
 	}
-	build->outputs = selected;
-	return true;
+	for (;;) {
+		size_t length = strcspn(p, ",");
+		int found = -1;
+		for (int i = 0; output_kinds[i] && found < 0; i++)
+			if (strlen(output_kinds[i]) == length &&
+			    strncmp(output_kinds[i], p, length) == 0)
+				found = i;
+		if (found < 0) {
+			gp_diag_error(diag, NULL,
+				      "unknown kind of output '%.*s'; "
+				      "expected a list of gerber, proof, "
+				      "pins, firmware, report",
+				      (int)length, p);
+			return 0;
+		}
+		if (selected & (1u << found)) {
+			gp_diag_error(diag, NULL, "'%s' is listed twice",
+				      output_kinds[found]);
+			return 0;
+		}
+		selected |= 1u << found;
+		if (!p[length])
+			return selected;
+		p += length + 1;
+	}
+}
+
+GP_EXPORT bool gp_output_kinds_check(const char *kinds, struct gp_diag *diag)
+{
+	return parse_kinds(kinds, diag) != 0;
+}
+
+GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
+			       struct gp_diag *diag)
+{
+	unsigned selected = parse_kinds(kinds, diag);
+	if (selected) {
+		build->outputs = selected;
+		build->outputs_chosen = true;
+	}
+	return selected != 0;
 }
 
 GP_EXPORT const char *gp_build_inputs(const struct gp_build *build)
@@ -230,11 +360,12 @@ static bool add_gerbers(const struct gp_build *build,
 		snprintf(name, sizeof(name), "%s.gbr",
 			 gp_layer_name((enum gp_layer)layer));
 		struct gp_buffer *out = gp_output_add(set, name, diag);
-		const char *why = "out of memory";
+		char why[320];
 		if (!out)
 			return false;
 		if (!gp_gerber_write_why(out, &build->art,
-					 (enum gp_layer)layer, &info, &why))
+					 (enum gp_layer)layer, &info, why,
+					 sizeof(why)))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
 					     "Gerber file: %s", name, why);
 	}

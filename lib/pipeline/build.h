@@ -25,4 +25,12 @@ bool gp_build_outputs(struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag);
 
+/* The drive of a design on the commons its layout makes: runs the
+ * layout stages (blocks, digits, icons) on a scratch build and resolves
+ * the drive against their COM nets, with or without a drive section
+ * (gp_drive_resolve_spec; an empty window is an error in diag and
+ * report->result.feasible false).  For 'glassplot drive' and tests. */
+bool gp_design_drive(const struct gp_design *design,
+		     struct gp_drive_report *report, struct gp_diag *diag);
+
 #endif

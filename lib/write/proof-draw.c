@@ -25,7 +25,6 @@ static int negative(const struct proof *p)
 	return p->design->drive.mode == GP_MODE_NEGATIVE;
 }
 static const struct rgb glass_colour = { 0.93, 0.94, 0.95 };
-static const struct rgb viewing_colour = { 0.45, 0.20, 0.70 };
 
 #define ROLE_BIT(role) (1u << (role))
 #define ALL_ROLES (~0u)
@@ -236,7 +235,7 @@ void proof_viewing_area(struct proof *p, const struct proof_view *v)
 {
 	double dash[] = { 4.0, 1.0, 0.8, 1.0 };
 	cairo_set_dash(p->cr, dash, 4, 0);
-	proof_set_colour(p, viewing_colour, 1.0);
+	proof_set_colour(p, proof_viewing_colour, 1.0);
 	proof_add_box(p, v, p->design->viewing);
 	cairo_set_line_width(p->cr, 0.25);
 	cairo_stroke(p->cr);
@@ -424,17 +423,7 @@ static void fill_seal_and_transfers(struct proof *p, double alpha)
 
 static void overview_legend(struct proof *p)
 {
-	static const char *const labels[] = {
-		"front plate ITO", "back plate ITO", "seal",
-		"common transfer", "viewing area (dash-dot)",
-		"front outline solid, back dashed",
-	};
-	const struct rgb colours[] = {
-		proof_front_colour, proof_back_colour, proof_seal_colour,
-		proof_transfer_colour, viewing_colour, { 1, 1, 1 },
-	};
-	const double alphas[] = { 0.5, 0.5, 0.45, 1, 1, 1 };
-	proof_legend(p, labels, colours, alphas, 6);
+	proof_legend(p, proof_overview_legend, proof_overview_legend_count);
 }
 
 void proof_sheet_overview(struct proof *p)

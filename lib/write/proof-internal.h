@@ -31,6 +31,22 @@ extern const struct rgb proof_seal_colour;
 extern const struct rgb proof_transfer_colour;
 extern const struct rgb proof_dim_colour;      /* dimension lines */
 extern const struct rgb proof_finding_colour;
+extern const struct rgb proof_viewing_colour;  /* viewing area line */
+
+/* How the legend shows an item: a filled swatch, or a sample of a line. */
+enum proof_swatch { SWATCH_FILL, SWATCH_SOLID, SWATCH_DASHED, SWATCH_DASH_DOT };
+
+struct proof_legend_item {
+	const char *label;
+	struct rgb colour;
+	double alpha;             /* as painted over the white sheet */
+	enum proof_swatch swatch;
+};
+
+/* The overview's legend; the tests check its colours for a colour-blind
+ * reader. */
+extern const struct proof_legend_item proof_overview_legend[];
+extern const int proof_overview_legend_count;
 
 /* One block's dots as cairo recording surfaces, each covering one cell
  * (origin at the cell's top-left dot corner, paper mm at the view scale):
@@ -92,8 +108,8 @@ void proof_end_sheet(struct proof *p);
 /* The drawing area of a sheet inside the frame, above the title band. */
 void proof_area(const struct proof *p, double *x0, double *y0, double *x1,
 		double *y1);
-void proof_legend(struct proof *p, const char *const *labels,
-		  const struct rgb *colours, const double *alphas, int count);
+void proof_legend(struct proof *p, const struct proof_legend_item *items,
+		  int count);
 /* "1.25" from nanometres, trailing zeros dropped. */
 void proof_mm(char *buffer, size_t size, int64_t nm);
 

@@ -353,7 +353,7 @@ static void spec_multiplex(const struct gp_build *build,
 	if (n < 1)
 		return;
 	if (n == 1) {
-		spec_pair(out, "duty", "static (1 common)");
+		spec_pair(out, "commons N", "1 (static drive)");
 		return;
 	}
 	long a = gp_drive_best_whole_bias(n);
@@ -372,17 +372,10 @@ static void spec_text(const struct gp_build *build, struct gp_buffer *out)
 		spec_multiplex(build, out);
 		return;
 	}
-	/* the build has reported any problem already: keep these quiet */
-	struct gp_diag quiet;
-	gp_diag_init(&quiet);
-	struct gp_drive_report report;
-	memset(&report, 0, sizeof(report));
-	if (gp_drive_resolve(d, &report, &quiet))
-		gp_drive_format(&report, out);
-	else
-		gp_buffer_printf(out, "Drive: not computed, the drive or "
-				      "optics section has errors.\n");
-	gp_diag_finish(&quiet);
+	/* resolved once by the pipeline; a build whose drive cannot be
+	 * computed has failed before it reaches the proof */
+	if (build->has_drive)
+		gp_drive_format(&build->drive, out);
 }
 
 static size_t utf8_length(const char *s, size_t bytes)

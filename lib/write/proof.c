@@ -20,13 +20,34 @@
 
 #define PT_PER_MM (72.0 / 25.4)
 
-/* Our own colours. */
-const struct rgb proof_front_colour = { 0.08, 0.42, 0.86 };
-const struct rgb proof_back_colour = { 0.93, 0.38, 0.05 };
-const struct rgb proof_seal_colour = { 0.25, 0.62, 0.30 };
-const struct rgb proof_transfer_colour = { 0.55, 0.05, 0.55 };
-const struct rgb proof_dim_colour = { 0.0, 0.0, 0.0 };
+/* Colours: blue, orange and bluish green from Okabe and Ito's palette for
+ * colour-blind readers ("Color Universal Design", 2008, from memory), a
+ * dark violet and a red of our own; test-proof checks every pair as
+ * protanopes and deuteranopes see them. */
+#define FRONT_RGB { 0.0, 0.447, 0.698 }
+#define BACK_RGB { 0.902, 0.624, 0.0 }
+#define SEAL_RGB { 0.0, 0.620, 0.451 }
+#define TRANSFER_RGB { 0.35, 0.20, 0.55 }
+#define BLACK_RGB { 0.0, 0.0, 0.0 }
+const struct rgb proof_front_colour = FRONT_RGB;
+const struct rgb proof_back_colour = BACK_RGB;
+const struct rgb proof_seal_colour = SEAL_RGB;
+const struct rgb proof_transfer_colour = TRANSFER_RGB;
+const struct rgb proof_dim_colour = BLACK_RGB;
 const struct rgb proof_finding_colour = { 0.85, 0.0, 0.05 };
+const struct rgb proof_viewing_colour = BLACK_RGB;
+
+const struct proof_legend_item proof_overview_legend[] = {
+	{ "front plate ITO", FRONT_RGB, 0.5, SWATCH_FILL },
+	{ "back plate ITO", BACK_RGB, 0.5, SWATCH_FILL },
+	{ "seal", SEAL_RGB, 0.45, SWATCH_FILL },
+	{ "common transfer", TRANSFER_RGB, 1.0, SWATCH_FILL },
+	{ "viewing area", BLACK_RGB, 1.0, SWATCH_DASH_DOT },
+	{ "front outline", BLACK_RGB, 1.0, SWATCH_SOLID },
+	{ "back outline", BLACK_RGB, 1.0, SWATCH_DASHED },
+};
+const int proof_overview_legend_count =
+	sizeof(proof_overview_legend) / sizeof(proof_overview_legend[0]);
 
 /* Reduction scales recommended by ISO 5455 (from memory), tried in turn
  * when the glass does not fit at 1:1. */
@@ -176,14 +197,16 @@ void proof_set_colour(struct proof *p, struct rgb c, double alpha)
 		cairo_set_source_rgba(p->cr, c.r, c.g, c.b, alpha);
 }
 
-/* The proof's two faces, opened once per process and kept: cairo keeps
+/* The proof's faces, opened once per process and kept: cairo keeps
  * font faces in caches of its own beyond any one document, so they must
  * outlive every surface.  Found through fontconfig by our font module
- * (cairo 1.16's own fontconfig lookup for toy fonts leaks patterns). */
-static const char *const font_names[3][2] = {
-	{ "Liberation Sans", "DejaVu Sans" },
-	{ "Liberation Sans:bold", "DejaVu Sans:bold" },
-	{ "Liberation Mono", "DejaVu Sans Mono" },
+ * (cairo 1.16's own fontconfig lookup for toy fonts leaks patterns).
+ * Only the family the project installs and tests (.ci/install-deps:
+ * fonts-liberation2). */
+static const char *const font_names[3] = {
+	"Liberation Sans",
+	"Liberation Sans:bold",
+	"Liberation Mono",
 };
 
 static struct {
@@ -201,29 +224,25 @@ static void done_face(void *face)
 static cairo_font_face_t *open_face(int kind)
 {
 	static const cairo_user_data_key_t key;
-	for (int i = 0; i < 2; i++) {
-		struct gp_diag diag;
-		gp_diag_init(&diag);
-		struct gp_font *font = gp_font_open(font_names[kind][i], NULL,
-						    NULL, &diag);
-		gp_diag_finish(&diag);
-		FT_Face face = NULL;
-		bool ok = font && FT_New_Face(fonts.library, gp_font_file(font),
-					      gp_font_face_index(font),
-					      &face) == 0;
-		gp_font_destroy(font);
-		if (!ok)
-			continue;
-		cairo_font_face_t *cf = cairo_ft_font_face_create_for_ft_face(
-			face, FT_LOAD_NO_HINTING);
-		if (cairo_font_face_set_user_data(cf, &key, face, done_face)) {
-			cairo_font_face_destroy(cf);
-			FT_Done_Face(face);
-			continue;
-		}
-		return cf;
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_font *font = gp_font_open(font_names[kind], NULL, NULL,
+					    &diag);
+	gp_diag_finish(&diag);
+	FT_Face face = NULL;
+	bool ok = font && FT_New_Face(fonts.library, gp_font_file(font),
+				      gp_font_face_index(font), &face) == 0;
+	gp_font_destroy(font);
+	if (!ok)
+		return NULL;
+	cairo_font_face_t *cf =
+		cairo_ft_font_face_create_for_ft_face(face, FT_LOAD_NO_HINTING);
+	if (cairo_font_face_set_user_data(cf, &key, face, done_face)) {
+		cairo_font_face_destroy(cf);
+		FT_Done_Face(face);
+		return NULL;
 	}
-	return NULL;
+	return cf;
 }
 
 static void open_fonts(void)
@@ -403,8 +422,33 @@ void proof_end_sheet(struct proof *p)
 	p->sheet++;
 }
 
-void proof_legend(struct proof *p, const char *const *labels,
-		  const struct rgb *colours, const double *alphas, int count)
+static void swatch(struct proof *p, double x, double y,
+		   const struct proof_legend_item *item)
+{
+	cairo_t *cr = p->cr;
+	if (item->swatch == SWATCH_FILL) {
+		proof_set_colour(p, item->colour, item->alpha);
+		cairo_rectangle(cr, x, y, 8, 4);
+		cairo_fill(cr);
+		cairo_set_source_rgb(cr, 0, 0, 0);
+		cairo_set_line_width(cr, 0.15);
+		cairo_rectangle(cr, x, y, 8, 4);
+		cairo_stroke(cr);
+		return;
+	}
+	static const double dashed[] = { 3.0, 1.5 };
+	static const double dash_dot[] = { 4.0, 1.0, 0.8, 1.0 };
+	if (item->swatch == SWATCH_DASHED)
+		cairo_set_dash(cr, dashed, 2, 0);
+	else if (item->swatch == SWATCH_DASH_DOT)
+		cairo_set_dash(cr, dash_dot, 4, 0);
+	proof_set_colour(p, item->colour, item->alpha);
+	proof_line(p, x, y + 2, x + 8, y + 2, 0.3);
+	cairo_set_dash(cr, NULL, 0, 0);
+}
+
+void proof_legend(struct proof *p, const struct proof_legend_item *items,
+		  int count)
 {
 	double x = PROOF_MARGIN + 4;
 	double y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H + 2;
@@ -415,14 +459,9 @@ void proof_legend(struct proof *p, const char *const *labels,
 	proof_font(p, PROOF_TEXT, false);
 	for (int i = 0; i < count; i++) {
 		double cx = x + (i % 2) * column, cy = y + (i / 2) * 6.0;
-		proof_set_colour(p, colours[i], alphas[i]);
-		cairo_rectangle(p->cr, cx, cy, 8, 4);
-		cairo_fill(p->cr);
+		swatch(p, cx, cy, &items[i]);
 		cairo_set_source_rgb(p->cr, 0, 0, 0);
-		cairo_set_line_width(p->cr, 0.15);
-		cairo_rectangle(p->cr, cx, cy, 8, 4);
-		cairo_stroke(p->cr);
-		proof_text(p, cx + 10, cy + 3.3, ALIGN_LEFT, labels[i]);
+		proof_text(p, cx + 10, cy + 3.3, ALIGN_LEFT, items[i].label);
 	}
 }
 
@@ -496,8 +535,10 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 
 	if (!have_fonts())
 		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
-				     "font '%s' (nor '%s')",
-				     font_names[0][0], font_names[0][1]);
+				     "fonts '%s', '%s' and '%s' (install the "
+				     "Liberation fonts, version 2)",
+				     font_names[0], font_names[1],
+				     font_names[2]);
 	bool ok = false;
 	cairo_surface_t *surface = cairo_pdf_surface_create_for_stream(
 		write_chunk, out, p.plan.paper_w * PT_PER_MM,
