@@ -33,7 +33,7 @@ def fail(message):
 # Descriptions the readers are run on: every one the project has.
 FOLDERS = ['samples', 'tests/checks', 'tests/drive', 'tests/errors',
            'tests/fuzz/corpus-build', 'tests/fuzz/corpus-load',
-           'tests/fuzz/regressions']
+           'tests/fuzz/regressions', 'tests/options', 'tests/data']
 BUILT = ['samples/panel-2x16.yaml']
 
 

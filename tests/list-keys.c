@@ -95,8 +95,10 @@ static void load_folder(const char *folder, struct observed *o)
 	}
 	struct dirent *entry;
 	while ((entry = readdir(dir))) {
+		/* fuzz inputs have no extension; skip only what is not ours */
 		const char *dot = strrchr(entry->d_name, '.');
-		if (!dot || strcmp(dot, ".yaml") != 0)
+		if (entry->d_name[0] == '.' ||
+		    (dot && strcmp(dot, ".yaml") != 0))
 			continue;
 		char *path = g_build_filename(folder, entry->d_name, NULL);
 		load(path, o);

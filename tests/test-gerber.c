@@ -916,7 +916,8 @@ static void test_random_digits(void **state)
 							   pick(&s, 0, 999),
 						   pick(&s, 0, 999) };
 			/* too tight a stroke and gap: refused, skip it */
-			if (!gp_figure_build(&spec, origin, parts, &diag)) {
+			if (!gp_figure_build(&spec, origin, "digits", NULL, parts,
+					     &diag)) {
 				skipped++;
 				break;
 			}

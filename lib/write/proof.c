@@ -261,6 +261,11 @@ static bool have_fonts(void)
 	return fonts.ok;
 }
 
+cairo_font_face_t *gp_proof_text_face(void)
+{
+	return have_fonts() ? fonts.faces[0] : NULL;
+}
+
 void proof_font(struct proof *p, double size, bool bold)
 {
 	cairo_set_font_face(p->cr, fonts.faces[bold]);

@@ -14,6 +14,7 @@
 #include "buffer.h"
 #include "diag.h"
 
+#include <cairo.h>
 #include <stdbool.h>
 
 /* Where things are on the sheets; computed before anything is drawn. */
@@ -47,5 +48,10 @@ void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan);
  * date; the same build gives the same bytes. */
 bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 		    struct gp_diag *diag);
+
+/* The proof's regular text face, for other drawings made with cairo
+ * (cairo's own fontconfig lookup for its toy fonts leaks); shared and
+ * never destroyed by the caller; NULL when no font is installed. */
+cairo_font_face_t *gp_proof_text_face(void);
 
 #endif
