@@ -4,6 +4,7 @@
 #include "gerber.h"
 #include "output.h"
 #include "proof.h"
+#include "staged-file.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -257,6 +258,11 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	free(build);
 }
 
+GP_EXPORT void gp_build_set_depfile(struct gp_build *build, const char *path)
+{
+	build->depfile = path;
+}
+
 GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch)
 {
 	build->has_epoch = true;
@@ -419,8 +425,15 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	stage(build, "writing");
+	/* the dependency file is staged first and put in place last, so
+	 * that when it cannot be written nothing is */
+	struct gp_staged_file depfile = { NULL, NULL };
 	bool ok = gp_build_outputs(build, &set, diag) &&
-		  gp_output_commit(&set, folder, diag);
+		  (!build->depfile ||
+		   gp_depfile_stage(build, &set, folder, &depfile, diag)) &&
+		  gp_output_commit(&set, folder, diag) &&
+		  (!build->depfile || gp_staged_file_commit(&depfile, diag));
+	gp_staged_file_discard(&depfile);
 	build->written.size = 0;
 	for (size_t i = 0; ok && i < set.count; i++) {
 		gp_buffer_printf(&build->written, "%s\n", set.files[i].name);

@@ -16,6 +16,13 @@
 #include "route.h"
 #include "stage.h"
 
+struct gp_staged_file;
+/* Writes the dependency file for set, to be committed into folder, under
+ * a temporary name beside build->depfile (depfile.c). */
+bool gp_depfile_stage(const struct gp_build *build,
+		      const struct gp_output_set *set, const char *folder,
+		      struct gp_staged_file *file, struct gp_diag *diag);
+
 /* Renders every output of the build into set, in memory, touching no
  * file: gp_build_write is this followed by gp_output_commit.  Every
  * writer is called from here, so that the outputs in memory and on disk
