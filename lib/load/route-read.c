@@ -2,7 +2,7 @@
  * pins and part_text. */
 #include "route-spec.h"
 
-#include "digits.h"
+#include "digits-spec.h"
 #include "model.h"
 #include "units.h"
 
