@@ -18,7 +18,8 @@
 #define MIN_CELSIUS -273.15
 #define MAX_CELSIUS 1000.0
 
-/* A plain decimal number filling text[0..length); false otherwise. */
+/* A plain decimal number filling text[0..length) (gp_parse_decimal);
+ * false otherwise. */
 static bool parse_number(const char *text, size_t length, double *out)
 {
 	char copy[64];
@@ -26,17 +27,7 @@ static bool parse_number(const char *text, size_t length, double *out)
 		return false;
 	memcpy(copy, text, length);
 	copy[length] = '\0';
-	char *end;
-	errno = 0;
-	double value = strtod(copy, &end);
-	if (*end != '\0' || errno == ERANGE || !isfinite(value))
-		return false;
-	/* no hex, no "inf"/"nan", no exponents: decimals as people write */
-	for (const char *p = copy; *p; p++)
-		if (!strchr("0123456789.+-", *p))
-			return false;
-	*out = value;
-	return true;
+	return gp_parse_decimal(copy, out);
 }
 
 static const struct gp_node *scalar(struct gp_reader *r, const char *key)
