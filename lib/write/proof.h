@@ -28,11 +28,15 @@ struct gp_proof_plan {
 	/* Glass to paper on the overview-like sheets:
 	 * paper x = ox + scale * x_mm, paper y = oy - scale * y_mm. */
 	double ox, oy;
-	/* Left end of the 100 mm ruler's baseline on the overview. */
+	/* Left end of the 100 mm ruler's baseline on the overview; the band
+	 * above the title block holding it and the legend. */
 	double ruler_x, ruler_y;
+	double foot_h, note_h;
+	double legend_x, legend_y, legend_column_w;
+	int legend_columns;
 	/* Sheet numbers (1-based) and the total. */
 	int sheet_overview, sheet_findings, sheet_pins, sheet_spec;
-	int sheet_lit, sheet_count;
+	int sheet_lit, lit_sheets, sheet_count;
 	int sheet_details, detail_sheets, pin_sheets, finding_sheets;
 	int spec_sheets;
 };
