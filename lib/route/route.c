@@ -1377,13 +1377,18 @@ static bool add_transfers(struct route *r, int net, const struct netstate *n)
 		}
 		struct gp_polygon dot;
 		gp_polygon_init(&dot);
-		bool ok = circle_polygon(p, t->size,
-					 r->design->rules.chord_tolerance, &dot) &&
-			  gp_artwork_add_shape(&r->build->art, GP_LAYER_TRANSFER,
-					       GP_ROLE_TRANSFER, net, &dot);
+		struct gp_shape *shape = NULL;
+		if (circle_polygon(p, t->size, r->design->rules.chord_tolerance,
+				   &dot))
+			shape = gp_artwork_add_shape(&r->build->art,
+						     GP_LAYER_TRANSFER,
+						     GP_ROLE_TRANSFER, net, &dot);
 		gp_polygon_finish(&dot);
-		if (!ok)
+		if (!shape)
 			return false;
+		/* flashed with a round aperture (Gerber spec 6.4) */
+		shape->flash_diameter = t->size;
+		shape->flash_centre = p;
 	}
 	/* ITO under the dots on both plates */
 	struct cand pad = *c;
