@@ -1167,8 +1167,9 @@ static void gerbv_reads_layers(const char *text)
 		gp_mm(fb.x0 < bb.x0 ? fb.x0 : bb.x0) - 1,
 		gp_mm(fb.y0 < bb.y0 ? fb.y0 : bb.y0) - 1,
 		gp_mm(fb.x1 > bb.x1 ? fb.x1 : bb.x1) + 1,
-		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 200, 2
+		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 400, 2
 	};
+	/* 400 dpi: gerbv 2.9 draws nothing for a flashed 0.2 mm dot at 200 */
 	int seen = 0;
 	for (size_t i = 0; i < sizeof(layers) / sizeof(layers[0]); i++) {
 		char gbr[1024], png[1024], err[256];

@@ -12,28 +12,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* --- lead ends --------------------------------------------------------------- */
-
-bool gp_build_add_lead_end(struct gp_build *build, int net,
-			   enum gp_side side, struct gp_point at,
-			   int64_t width)
-{
-	if (build->end_count == build->end_capacity) {
-		size_t wanted = build->end_capacity ? build->end_capacity * 2
-						    : 64;
-		struct gp_lead_end *grown =
-			realloc(build->ends, wanted * sizeof(*grown));
-		if (!grown)
-			return false;
-		build->ends = grown;
-		build->end_capacity = wanted;
-	}
-	build->ends[build->end_count++] = (struct gp_lead_end){
-		.net = net, .side = side, .at = at, .width = width,
-	};
-	return true;
-}
-
 /* --- ledge checks ---------------------------------------------------------- */
 
 /* How far plate a sticks out past plate b on side s (negative: less). */
@@ -1399,13 +1377,18 @@ static bool add_transfers(struct route *r, int net, const struct netstate *n)
 		}
 		struct gp_polygon dot;
 		gp_polygon_init(&dot);
-		bool ok = circle_polygon(p, t->size,
-					 r->design->rules.chord_tolerance, &dot) &&
-			  gp_artwork_add_shape(&r->build->art, GP_LAYER_TRANSFER,
-					       GP_ROLE_TRANSFER, net, &dot);
+		struct gp_shape *shape = NULL;
+		if (circle_polygon(p, t->size, r->design->rules.chord_tolerance,
+				   &dot))
+			shape = gp_artwork_add_shape(&r->build->art,
+						     GP_LAYER_TRANSFER,
+						     GP_ROLE_TRANSFER, net, &dot);
 		gp_polygon_finish(&dot);
-		if (!ok)
+		if (!shape)
 			return false;
+		/* flashed with a round aperture (Gerber spec 6.4) */
+		shape->flash_diameter = t->size;
+		shape->flash_centre = p;
 	}
 	/* ITO under the dots on both plates */
 	struct cand pad = *c;
