@@ -2,6 +2,8 @@
 
 #include "units.h"
 
+#include <glib.h>
+
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -18,6 +20,13 @@ struct reader {
 	struct gp_ring contour;       /* region contour being read */
 	int contour_line;
 	bool failed;
+	/* the attribute dictionary (5.1) */
+	char function[GR_VALUE_MAX];  /* .AperFunction, "" when unset */
+	bool has_net;
+	char net[GR_VALUE_MAX];
+	char pin[GR_VALUE_MAX];
+	const char *text;             /* the whole file, for .MD5 */
+	const char *word_start;       /* where the current command began */
 };
 
 static bool violation(struct reader *r, const char *format, ...)
@@ -52,6 +61,16 @@ static struct gr_object *add_object(struct reader *r, enum gr_kind kind,
 	o->kind = kind;
 	o->line = line;
 	o->aperture = kind == GR_REGION ? 0 : r->current;
+	const struct gr_aperture *a = gr_aperture_find(f, o->aperture);
+	snprintf(o->function, sizeof(o->function), "%s",
+		 kind == GR_REGION ? r->function : a ? a->function : "");
+	o->has_net = r->has_net;
+	snprintf(o->net, sizeof(o->net), "%s", r->net);
+	snprintf(o->pin, sizeof(o->pin), "%s", r->pin);
+	if (r->pin[0] && kind != GR_FLASH)
+		violation(r, ".P on a draw or region (spec 5.6.14: \"The .P "
+			     "attribute can be attached to any pad belonging "
+			     "to a component pin, and only to those\")");
 	return o;
 }
 
@@ -97,7 +116,8 @@ static bool aperture_definition(struct reader *r, const char *word)
 	if (gr_aperture_find(r->file, (int)code))
 		return violation(r, "aperture D%ld defined twice (spec 4.3)",
 				 code);
-	struct gr_aperture a = { (int)code, *end, 0, 0 };
+	struct gr_aperture a = { (int)code, *end, 0, 0, "" };
+	snprintf(a.function, sizeof(a.function), "%s", r->function);
 	char params[128];
 	if ((*end != 'C' && *end != 'R') || end[1] != ',' ||
 	    strlen(end + 2) >= sizeof(params))
@@ -128,6 +148,92 @@ static bool aperture_definition(struct reader *r, const char *word)
 	return true;
 }
 
+/* .AperFunction values the writer may use, from the tables of 5.6.10. */
+static bool known_function(const char *value)
+{
+	static const char *const plain[] = {
+		"Conductor", "NonConductor", "ConnectorPad", "Profile",
+		"Material", "NonMaterial", NULL,
+	};
+	for (int i = 0; plain[i]; i++)
+		if (strcmp(value, plain[i]) == 0)
+			return true;
+	/* "Other,<mandatory field>" */
+	return strncmp(value, "Other,", 6) == 0 && value[6] != '\0';
+}
+
+static bool set_value(struct reader *r, char *slot, const char *value)
+{
+	if (strlen(value) >= GR_VALUE_MAX)
+		return violation(r, "attribute value too long for the test "
+				    "reader");
+	strcpy(slot, value);
+	return true;
+}
+
+/* %TA, %TO, %TD (5.3-5.5). */
+static bool dictionary_word(struct reader *r, const char *word)
+{
+	if (strncmp(word, "TA.AperFunction,", 16) == 0) {
+		if (!known_function(word + 16))
+			return violation(r, "'%s': not an .AperFunction value "
+					    "of spec 5.6.10", word);
+		return set_value(r, r->function, word + 16);
+	}
+	if (strncmp(word, "TO.N,", 5) == 0 || strcmp(word, "TO.N") == 0) {
+		r->has_net = true;
+		return set_value(r, r->net, word[4] ? word + 5 : "");
+	}
+	if (strncmp(word, "TO.P,", 5) == 0) {
+		/* <refdes>,<number>[,<function>], number not empty */
+		const char *comma = strchr(word + 5, ',');
+		if (comma == word + 5 || !comma || comma[1] == '\0' ||
+		    comma[1] == ',')
+			return violation(r, "'%s': .P needs a reference and a "
+					    "pin number (spec 5.6.14)", word);
+		return set_value(r, r->pin, word + 5);
+	}
+	if (strcmp(word, "TD") == 0) {
+		r->function[0] = r->net[0] = r->pin[0] = '\0';
+		r->has_net = false;
+		return true;
+	}
+	if (strcmp(word, "TD.AperFunction") == 0) {
+		r->function[0] = '\0';
+		return true;
+	}
+	if (strcmp(word, "TD.N") == 0) {
+		r->net[0] = '\0';
+		r->has_net = false;
+		return true;
+	}
+	if (strcmp(word, "TD.P") == 0) {
+		r->pin[0] = '\0';
+		return true;
+	}
+	return violation(r, "'%%%s': an attribute the writer does not use",
+			 word);
+}
+
+/* 5.6.9: "The signature is calculated over the bits from the beginning
+ * of the file up to but excluding the .MD5 file attribute command
+ * itself ... Any CR and LF are excluded". */
+static bool check_md5(struct reader *r, const char *given)
+{
+	GChecksum *md5 = g_checksum_new(G_CHECKSUM_MD5);
+	if (!md5)
+		return violation(r, "out of memory");
+	for (const char *p = r->text; p < r->word_start; p++)
+		if (*p != '\r' && *p != '\n')
+			g_checksum_update(md5, (const guchar *)p, 1);
+	bool same = strcmp(g_checksum_get_string(md5), given) == 0;
+	g_checksum_free(md5);
+	r->file->has_md5 = true;
+	return same ? true
+		    : violation(r, ".MD5 %s does not match the file (spec "
+				   "5.6.9)", given);
+}
+
 static bool extended_word(struct reader *r, const char *word)
 {
 	if (strncmp(word, "FS", 2) == 0) {
@@ -148,6 +254,14 @@ static bool extended_word(struct reader *r, const char *word)
 		if (strcmp(word, "LPD") != 0)
 			return violation(r, "'%s': only dark polarity is "
 					    "written (spec 4.9.2)", word);
+	} else if (strncmp(word, "TA", 2) == 0 || strncmp(word, "TO", 2) == 0 ||
+		   strncmp(word, "TD", 2) == 0) {
+		if (r->in_region)
+			return violation(r, "attribute inside a region (spec "
+					    "5.4)");
+		return dictionary_word(r, word);
+	} else if (strncmp(word, "TF.MD5,", 7) == 0) {
+		return check_md5(r, word + 7);
 	} else if (strncmp(word, "TF.", 3) == 0) {
 		if (r->in_region)
 			return violation(r, "attribute inside a region");
@@ -222,6 +336,10 @@ static bool end_contour(struct reader *r)
 	c->count--; /* drop the closing repeat */
 	o->points = *c;
 	gp_ring_init(c);
+	char why[200];
+	if (!gr_contour_check(&o->points, why, sizeof(why)))
+		return violation(r, "region contour from line %d is not valid "
+				    "(spec 4.10.3): %s", r->contour_line, why);
 	return true;
 }
 
@@ -386,6 +504,7 @@ static bool read_all(struct reader *r, const char *text, size_t size)
 				return false;
 			continue;
 		}
+		r->word_start = p;
 		p++; /* an extended command: words up to the closing '%' */
 		do {
 			if (!next_word(r, &p, end, word, sizeof(word)) ||
@@ -406,11 +525,11 @@ static bool read_all(struct reader *r, const char *text, size_t size)
 bool gr_read(const char *text, size_t size, struct gr_file *file)
 {
 	memset(file, 0, sizeof(*file));
-	struct reader r = { .file = file, .line = 1 };
+	struct reader r = { .file = file, .line = 1, .text = text };
 	gp_ring_init(&r.contour);
 	bool ok = read_all(&r, text, size);
 	gp_ring_finish(&r.contour);
-	return ok;
+	return ok && !r.failed;
 }
 
 void gr_file_finish(struct gr_file *file)
@@ -423,4 +542,169 @@ void gr_file_finish(struct gr_file *file)
 	free(file->apertures);
 	free(file->attributes);
 	memset(file, 0, sizeof(*file));
+}
+
+/* --- spec 4.10.3, valid contours -------------------------------------- */
+
+__extension__ typedef __int128 gr_wide;
+
+static int gr_side(struct gp_point o, struct gp_point a, struct gp_point b)
+{
+	gr_wide v = (gr_wide)(a.x - o.x) * (b.y - o.y) -
+		    (gr_wide)(a.y - o.y) * (b.x - o.x);
+	return (v > 0) - (v < 0);
+}
+
+static bool gr_same(struct gp_point a, struct gp_point b)
+{
+	return a.x == b.x && a.y == b.y;
+}
+
+/* p on the closed segment [a, b] */
+static bool gr_on(struct gp_point a, struct gp_point b, struct gp_point p)
+{
+	return gr_side(a, b, p) == 0 &&
+	       p.x >= (a.x < b.x ? a.x : b.x) && p.x <= (a.x < b.x ? b.x : a.x) &&
+	       p.y >= (a.y < b.y ? a.y : b.y) && p.y <= (a.y < b.y ? b.y : a.y);
+}
+
+static bool gr_meet(struct gp_point a, struct gp_point b, struct gp_point c,
+		    struct gp_point d)
+{
+	int d1 = gr_side(c, d, a), d2 = gr_side(c, d, b);
+	int d3 = gr_side(a, b, c), d4 = gr_side(a, b, d);
+	if (d1 * d2 < 0 && d3 * d4 < 0)
+		return true;
+	return gr_on(c, d, a) || gr_on(c, d, b) || gr_on(a, b, c) ||
+	       gr_on(a, b, d);
+}
+
+static bool gr_complain(char *why, size_t size, const char *format, ...)
+	__attribute__((format(printf, 3, 4)));
+
+static bool gr_complain(char *why, size_t size, const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	vsnprintf(why, size, format, args);
+	va_end(args);
+	return false;
+}
+
+/* Is p an end of a cut-in of r, given the cut-in pairs found? */
+struct gr_cut {
+	struct gp_point a, b;
+};
+
+static bool gr_cut_end(const struct gr_cut *cuts, size_t n, struct gp_point p)
+{
+	for (size_t i = 0; i < n; i++)
+		if (gr_same(cuts[i].a, p) || gr_same(cuts[i].b, p))
+			return true;
+	return false;
+}
+
+/* The rules, in the words of the Gerber Layer Format Specification
+ * (Ucamco, 2024.05), 4.10.3 "Valid Contours":
+ * - "A contour is said to be simple if all its segments are disjointed,
+ *   except for consecutive segments having only their connection point
+ *   in common."  "zero-length draws ... are therefore not allowed";
+ * - a cut-in "must consist of two fully-coincident linear segments";
+ *   "cut-ins must be either horizontal or vertical"; "all cut-ins in a
+ *   contour must have the same direction"; "cut-ins can only touch or
+ *   overlap the contour in their start and end points";
+ * - "Any other form of self-touching, self-intersection or self-
+ *   overlapping is not allowed ... vertices on a segment at another
+ *   location than its endpoints, points where more than two segments
+ *   end" (read, as the spec's own cut-in example 4.10.4.7 has it, as
+ *   apart from the ends of a cut-in, where its two segments end too). */
+bool gr_contour_check(const struct gp_ring *r, char *why, size_t size)
+{
+	size_t n = r->count;
+	if (n < 3)
+		return gr_complain(why, size, "fewer than 3 segments");
+	struct gr_cut *cuts = calloc(n, sizeof(*cuts));
+	size_t cut_count = 0;
+	int direction = 0; /* 1 horizontal, 2 vertical */
+	bool ok = cuts != NULL;
+	if (!ok)
+		return gr_complain(why, size, "out of memory");
+	/* first the cut-in pairs */
+	for (size_t i = 0; i < n && ok; i++) {
+		struct gp_point a = r->points[i], b = r->points[(i + 1) % n];
+		if (gr_same(a, b))
+			ok = gr_complain(why, size, "segment %zu has zero length", i);
+		for (size_t j = i + 1; j < n && ok; j++) {
+			struct gp_point c = r->points[j];
+			struct gp_point d = r->points[(j + 1) % n];
+			if (!gr_same(a, d) || !gr_same(b, c))
+				continue;
+			int dir = a.y == b.y ? 1 : a.x == b.x ? 2 : 0;
+			if (dir == 0)
+				ok = gr_complain(why, size,
+						 "cut-in (%lld, %lld)-(%lld, %lld) "
+						 "is neither horizontal nor "
+						 "vertical",
+						 (long long)a.x, (long long)a.y,
+						 (long long)b.x, (long long)b.y);
+			else if (direction && dir != direction)
+				ok = gr_complain(why, size, "cut-ins run both "
+						 "horizontally and vertically");
+			direction = dir;
+			cuts[cut_count++] = (struct gr_cut){ a, b };
+		}
+	}
+	/* then every other meeting of two segments */
+	for (size_t i = 0; i < n && ok; i++) {
+		struct gp_point a = r->points[i], b = r->points[(i + 1) % n];
+		struct gp_box ab = gp_box_make(a.x, a.y, b.x, b.y);
+		for (size_t j = i + 1; j < n && ok; j++) {
+			struct gp_point c = r->points[j];
+			struct gp_point d = r->points[(j + 1) % n];
+			struct gp_box cd = gp_box_make(c.x, c.y, d.x, d.y);
+			if (cd.x0 > ab.x1 || cd.x1 < ab.x0 || cd.y0 > ab.y1 ||
+			    cd.y1 < ab.y0 || !gr_meet(a, b, c, d))
+				continue;
+			if (gr_same(a, d) && gr_same(b, c))
+				continue; /* a cut-in pair */
+			bool next = j == i + 1, wrap = i == 0 && j == n - 1;
+			struct gp_point shared;
+			bool at_end = false;
+			if (gr_same(a, c) || gr_same(a, d))
+				shared = a, at_end = true;
+			else if (gr_same(b, c) || gr_same(b, d))
+				shared = b, at_end = true;
+			/* only the shared end in common, nothing more */
+			struct gp_point far_ab = gr_same(a, shared) ? b : a;
+			struct gp_point far_cd = gr_same(c, shared) ? d : c;
+			if (!at_end || gr_on(a, b, far_cd) || gr_on(c, d, far_ab))
+				ok = gr_complain(why, size,
+						 "segments %zu and %zu cross, "
+						 "overlap or touch away from "
+						 "their ends", i, j);
+			else if (!next && !wrap &&
+				 !gr_cut_end(cuts, cut_count, shared))
+				ok = gr_complain(why, size,
+						 "segments %zu and %zu touch at "
+						 "(%lld, %lld), which is no "
+						 "cut-in's end", i, j,
+						 (long long)shared.x,
+						 (long long)shared.y);
+		}
+	}
+	/* a point passed more than twice has more than four segments
+	 * ending at it; one passed twice must be a cut-in's end */
+	for (size_t i = 0; i < n && ok; i++) {
+		size_t seen = 0;
+		for (size_t j = 0; j < n; j++)
+			seen += gr_same(r->points[i], r->points[j]);
+		if (seen > 2 || (seen == 2 && !gr_cut_end(cuts, cut_count,
+							   r->points[i])))
+			ok = gr_complain(why, size,
+					 "%zu segments end at (%lld, %lld)",
+					 2 * seen, (long long)r->points[i].x,
+					 (long long)r->points[i].y);
+	}
+	free(cuts);
+	return ok;
 }

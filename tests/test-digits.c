@@ -131,7 +131,7 @@ static void check_gaps(struct fixture *f, const struct gp_figure_spec *sp,
 	struct gp_polygon seg[GP_FIGURE_MAX_SEGMENTS];
 	struct gp_point origin = { 12345678, -3456789 };
 	assert_true(gp_figure_check(sp, "test", NULL, &f->diag));
-	if (!gp_figure_build(sp, origin, seg, &f->diag))
+	if (!gp_figure_build(sp, origin, "digits", NULL, seg, &f->diag))
 		fail_msg("seed %u: %s", seed, f->diag.entries[f->diag.count - 1].message);
 	size_t n = gp_figure_segment_count(sp->figure);
 	for (size_t i = 0; i < n; i++) {
@@ -223,6 +223,40 @@ static double width_across_longest(const struct gp_polygon *p, double *angle)
 
 /* Slant: heights exact, strokes their width across, side edges at the
  * slant angle. */
+/* A stroke of 1 nm (with gaps from 1 nm to a wide one): the build may
+ * succeed or refuse, but a refusal is placed and leaves nothing allocated
+ * (the sanitizer and valgrind runs see a leak). */
+static void test_hairline_stroke(void **state)
+{
+	struct fixture *f = *state;
+	static const int64_t gaps[] = { 1, 200 * UM, 2 * MM };
+	struct gp_where where = { "hairline.yaml", 3, 5 };
+	for (int fig = GP_FIGURE_7; fig <= GP_FIGURE_16; fig++)
+		for (int ends = GP_ENDS_BEVELLED; ends <= GP_ENDS_SQUARE; ends++)
+			for (size_t g = 0; g < 3; g++) {
+				struct gp_figure_spec sp = {
+					.figure = fig, .ends = ends,
+					.height = 10 * MM, .width = 5 * MM,
+					.stroke = 1, .gap = gaps[g],
+					.slant = 6,
+				};
+				struct gp_polygon seg[GP_FIGURE_MAX_SEGMENTS];
+				size_t before = f->diag.count;
+				if (!gp_figure_build(&sp, (struct gp_point){ 0, 0 },
+						     "digits 'x'", &where, seg,
+						     &f->diag)) {
+					assert_int_equal(f->diag.count, before + 1);
+					assert_non_null(strstr(
+						f->diag.entries[before].message,
+						"hairline.yaml:3:5: "));
+					continue;
+				}
+				for (size_t s = 0;
+				     s < gp_figure_segment_count(sp.figure); s++)
+					gp_polygon_finish(&seg[s]);
+			}
+}
+
 static void test_slant(void **state)
 {
 	struct fixture *f = *state;
@@ -236,7 +270,7 @@ static void test_slant(void **state)
 		assert_true(gp_figure_check(&sp, "test", NULL, &f->diag));
 		struct gp_polygon seg[GP_FIGURE_MAX_SEGMENTS];
 		struct gp_point o = { -5 * MM, 7 * MM };
-		assert_true(gp_figure_build(&sp, o, seg, &f->diag));
+		assert_true(gp_figure_build(&sp, o, "digits", NULL, seg, &f->diag));
 		size_t n = gp_figure_segment_count(fig);
 		struct gp_box all = gp_box_none();
 		for (size_t i = 0; i < n; i++) {
@@ -284,7 +318,7 @@ static void test_point_gap(void **state)
 		int64_t size = sp.stroke, gap = sp.gap, tol = 1000;
 		struct gp_point o = { 3 * MM, 2 * MM };
 		struct gp_polygon seg[7], dot;
-		assert_true(gp_figure_build(&sp, o, seg, &f->diag));
+		assert_true(gp_figure_build(&sp, o, "digits", NULL, seg, &f->diag));
 		struct gp_point c = gp_point_default_centre(&sp, o, shape, size,
 							    gap);
 		assert_true(gp_dot_build(shape, size, sp.slant, c, tol, &dot));
@@ -953,6 +987,8 @@ int main(void)
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test_setup_teardown(test_gaps, setup, teardown),
 		cmocka_unit_test_setup_teardown(test_slant, setup, teardown),
+		cmocka_unit_test_setup_teardown(test_hairline_stroke, setup,
+						teardown),
 		cmocka_unit_test_setup_teardown(test_point_gap, setup,
 						teardown),
 		cmocka_unit_test(test_pin_counts),

@@ -3,8 +3,10 @@
  * icon-layout.c. */
 #include "model.h"
 
+#include "digits-spec.h"
 #include "units.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -28,8 +30,11 @@ static const char *const all_keys[] = {
 
 void gp_icons_free(struct gp_design *design)
 {
-	for (size_t i = 0; i < design->icon_count; i++)
+	for (size_t i = 0; i < design->icon_count; i++) {
 		free(design->icons[i].points);
+		free(design->icons[i].made_name);
+		free(design->icons[i].made_segment);
+	}
 	free(design->icons);
 	design->icons = NULL;
 	design->icon_count = 0;
@@ -225,8 +230,74 @@ static int find_block(const struct gp_design *design, const char *name)
 	return -1;
 }
 
-/* common: NAME, or {block: NAME, line: N, row: N} to share the common of
- * a dot-matrix row (line and row count from 1; line defaults to 1). */
+static int find_digits(const struct gp_design *design, const char *name)
+{
+	for (size_t i = 0; i < design->digit_count; i++)
+		if (strcmp(design->digits[i].name, name) == 0)
+			return (int)i;
+	return -1;
+}
+
+static bool has_key(const struct gp_node *map, const char *key)
+{
+	for (size_t k = 0; map->kind == GP_NODE_MAP && k < map->count; k++)
+		if (strcmp(map->keys[k]->text, key) == 0)
+			return true;
+	return false;
+}
+
+/* {digits: NAME, ...}: the row, or an error naming the rows there are. */
+static bool digits_row(const struct gp_design *design, const char *name,
+		       const struct gp_where *where, const char *what,
+		       struct gp_diag *diag, int *row)
+{
+	*row = find_digits(design, name);
+	if (*row >= 0)
+		return true;
+	const char *names[GP_DIGITS_MAX_ROWS];
+	size_t n = 0;
+	for (size_t i = 0; i < design->digit_count && n < GP_DIGITS_MAX_ROWS;
+	     i++)
+		names[n++] = design->digits[i].name;
+	const char *near = n ? gp_nearest_word(name, names, n) : NULL;
+	return gp_diag_error(diag, where,
+			     "%s names digit row '%s', which is not described "
+			     "in 'digits'%s%s%s", what, name,
+			     near ? "; did you mean '" : "", near ? near : "",
+			     near ? "'?" : "");
+}
+
+/* common: {digits: NAME, common: N}: common N (from 1) of a digit row. */
+static bool read_digits_common(struct gp_icon *icon,
+			       const struct gp_design *design,
+			       const struct gp_node *node, const char *what,
+			       struct gp_diag *diag)
+{
+	struct gp_reader r;
+	const char *name = NULL;
+	long index = 1;
+	gp_reader_begin(&r, node, what, diag);
+	bool ok = gp_read_string(&r, "digits", true, &name);
+	ok &= gp_read_int(&r, "common", true, 1, 1000000, &index);
+	if (!gp_reader_end(&r) || !ok)
+		return false;
+	int row;
+	if (!digits_row(design, name, &node->where, what, diag, &row))
+		return false;
+	const struct gp_digits *d = &design->digits[row];
+	if (index > d->duty)
+		return gp_diag_error(diag, &node->where,
+				     "%s: digit row '%s' has %d common(s) (duty "
+				     "1/%d); common %ld is outside", what, name,
+				     d->duty, d->duty, index);
+	icon->common_digits = row;
+	icon->common_index = (int)index;
+	return true;
+}
+
+/* common: NAME, auto, {block: NAME, line: N, row: N} to share the common
+ * of a dot-matrix row (line and row count from 1; line defaults to 1), or
+ * {digits: NAME, common: N} to share a digit row's. */
 static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 			const struct gp_node *node, struct gp_diag *diag)
 {
@@ -236,12 +307,15 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 		if (!*node->text)
 			return gp_diag_error(diag, &node->where,
 					     "'common' is empty; expected a "
-					     "name or {block, line, row}");
+					     "name, {block, line, row} or "
+					     "{digits, common}");
 		icon->common = node->text;
 		return true;
 	}
 	char what[160];
 	snprintf(what, sizeof(what), "the common of icon '%s'", icon->name);
+	if (has_key(node, "digits"))
+		return read_digits_common(icon, design, node, what, diag);
 	struct gp_reader r;
 	const char *block = NULL;
 	long line = 1, row = 1;
@@ -268,9 +342,157 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 	return true;
 }
 
+/* segment: NAME, or {digits: NAME, digit: N, line: N} to share segment
+ * line N of digit N (0: the sign unit) of a digit row.  Whether the line
+ * exists is known once the row is planned (icon-layout.c). */
+static bool read_segment(struct gp_icon *icon, const struct gp_design *design,
+			 const struct gp_node *node, struct gp_diag *diag)
+{
+	icon->segment_where = node->where;
+	if (node->kind == GP_NODE_SCALAR) {
+		if (!*node->text)
+			return gp_diag_error(diag, &node->where,
+					     "'segment' is empty; expected a "
+					     "name or {digits, digit, line}");
+		icon->segment = node->text;
+		return true;
+	}
+	char what[160];
+	snprintf(what, sizeof(what), "the segment of icon '%s'", icon->name);
+	struct gp_reader r;
+	const char *name = NULL;
+	long digit = 1, line = 1;
+	gp_reader_begin(&r, node, what, diag);
+	bool ok = gp_read_string(&r, "digits", true, &name);
+	ok &= gp_read_int(&r, "digit", true, 0, 1000000, &digit);
+	ok &= gp_read_int(&r, "line", true, 1, 1000000, &line);
+	if (!gp_reader_end(&r) || !ok)
+		return false;
+	int row;
+	if (!digits_row(design, name, &node->where, what, diag, &row))
+		return false;
+	const struct gp_digits *d = &design->digits[row];
+	bool sign = d->minus || d->one;
+	if (digit > d->count || (digit == 0 && !sign))
+		return gp_diag_error(diag, &node->where,
+				     "%s: digit row '%s' has digits 1 to %ld%s; "
+				     "digit %ld is outside", what, name,
+				     d->count, sign ? " and the sign unit 0" : "",
+				     digit);
+	icon->segment_digits = row;
+	icon->segment_digit = (int)digit;
+	icon->segment_line = (int)line;
+	return true;
+}
+
+/* slot: auto (instead of common and segment). */
+static bool read_slot(struct gp_reader *r, struct gp_icon *icon)
+{
+	const struct gp_node *slot = gp_read_node(r, "slot", false);
+	if (!slot)
+		return true;
+	icon->slot_where = slot->where;
+	if (slot->kind != GP_NODE_SCALAR || strcmp(slot->text, "auto") != 0)
+		return r->ok = gp_diag_error(r->diag, &slot->where,
+					     "'slot' of %s must be 'auto' (let "
+					     "glassplot choose its common and "
+					     "segment)", r->what);
+	icon->auto_slot = true;
+	return true;
+}
+
+/* An array's cells may take their nets from lists, one per cell. */
+struct array_spec {
+	const struct gp_node *node;
+	long count;
+	int64_t pitch;            /* along a line */
+	long direction;           /* degrees, along a line */
+	bool arc;
+	struct gp_point centre;   /* of the arc */
+	double angle;             /* degrees between cells on the arc */
+	bool turn;                /* cells turn with the arc */
+	const struct gp_node *commons, *segments;
+};
+
+static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
+		      const struct gp_design *design, struct gp_diag *diag,
+		      struct array_spec *a)
+{
+	if (!read_slot(r, icon))
+		return false;
+	bool given = icon->auto_slot;
+	if (a->node) {
+		a->commons = gp_read_node(r, "commons", false);
+		a->segments = gp_read_node(r, "segments", false);
+	}
+	const struct gp_node *common =
+		gp_read_node(r, "common", !given && !a->commons);
+	const struct gp_node *segment =
+		gp_read_node(r, "segment", !given && !a->segments);
+	if ((common && a->commons) || (segment && a->segments))
+		return gp_diag_error(diag, common && a->commons
+						   ? &a->commons->where
+						   : &a->segments->where,
+				     "give either '%s' or '%s' in %s, not both",
+				     common && a->commons ? "common" : "segment",
+				     common && a->commons ? "commons"
+							  : "segments",
+				     r->what);
+	if (given && (a->commons || a->segments))
+		return gp_diag_error(diag, &icon->slot_where,
+				     "give either 'slot: auto' or the cells' "
+				     "nets in %s, not both", r->what);
+	if (!given && !common && !segment && a->commons && a->segments)
+		return true;
+	if (!given && !common && a->commons)
+		return segment && read_segment(icon, design, segment, diag);
+	if (!given && !segment && a->segments)
+		return common && read_common(icon, design, common, diag);
+	if (given && (common || segment))
+		return gp_diag_error(diag, common ? &common->where
+						  : &segment->where,
+				     "give either 'slot: auto' or 'common' and "
+				     "'segment' in %s, not both", r->what);
+	if (given)
+		return true;
+	bool ok = common && read_common(icon, design, common, diag);
+	ok = segment && read_segment(icon, design, segment, diag) && ok;
+	return ok;
+}
+
+/* array: {count, pitch, direction} along a line from position, or
+ * {count, centre, angle, turn} along an arc through position. */
+static bool read_array(struct gp_reader *parent, struct array_spec *a)
+{
+	char what[200];
+	snprintf(what, sizeof(what), "'array' of %s", parent->what);
+	struct gp_reader r;
+	gp_reader_begin(&r, a->node, what, parent->diag);
+	bool ok = gp_read_int(&r, "count", true, 2, GP_MAX_ICONS, &a->count);
+	a->arc = gp_read_node(&r, "centre", false) != NULL;
+	if (a->arc) {
+		int64_t c[2] = { 0, 0 };
+		ok &= gp_read_pair(&r, "centre", true, c);
+		a->centre = (struct gp_point){ c[0], c[1] };
+		ok &= gp_read_double(&r, "angle", true, -360, 360, &a->angle);
+		a->turn = true;
+		ok &= gp_read_bool(&r, "turn", false, &a->turn);
+	} else {
+		ok &= gp_read_length(&r, "pitch", true, &a->pitch);
+		ok &= gp_read_int(&r, "direction", false, 0, 270, &a->direction);
+		if (ok && a->direction % 90 != 0)
+			ok = gp_diag_error(parent->diag, &a->node->where,
+					   "%s: 'direction' must be 0, 90, 180 "
+					   "or 270 (degrees anticlockwise from "
+					   "+x); use 'centre' and 'angle' for an "
+					   "arc", what);
+	}
+	return gp_reader_end(&r) && ok;
+}
+
 static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 		      const char *name, const struct gp_node *node,
-		      struct gp_diag *diag)
+		      struct gp_diag *diag, struct array_spec *array)
 {
 	char what[160];
 	snprintf(what, sizeof(what), "icon '%s'", name);
@@ -280,6 +502,8 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	icon->name = name;
 	icon->where = node->where;
 	icon->common_block = -1;
+	icon->common_digits = -1;
+	icon->segment_digits = -1;
 	gp_text_style_init(&icon->style);
 	icon->style.chord_tolerance = design->rules.chord_tolerance;
 	gp_reader_begin(&r, node, what, diag);
@@ -289,13 +513,11 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	icon->position = (struct gp_point){ position[0], position[1] };
 	ok &= read_rotation(&r, icon);
 	ok &= gp_read_bool(&r, "mirror", false, &icon->mirror);
-	const struct gp_node *common = gp_read_node(&r, "common", true);
-	ok = common && read_common(icon, design, common, diag) && ok;
-	const struct gp_node *segment = gp_read_node(&r, "segment", true);
-	if (segment) {
-		icon->segment_where = segment->where;
-		ok &= gp_read_string(&r, "segment", true, &icon->segment);
-	}
+	memset(array, 0, sizeof(*array));
+	array->node = gp_read_node(&r, "array", false);
+	if (array->node)
+		ok = read_array(&r, array) && ok;
+	ok = read_nets(&r, icon, design, diag, array) && ok;
 	const struct gp_node *text = gp_read_node(&r, "text", false);
 	const struct gp_node *shape = gp_read_node(&r, "shape", false);
 	if (text && shape) {
@@ -319,8 +541,21 @@ static bool same_common(const struct gp_icon *a, const struct gp_icon *b)
 	if (a->common || b->common)
 		return a->common && b->common &&
 		       strcmp(a->common, b->common) == 0;
+	if (a->common_digits >= 0 || b->common_digits >= 0)
+		return a->common_digits == b->common_digits &&
+		       a->common_index == b->common_index;
 	return a->common_block == b->common_block &&
 	       a->common_row == b->common_row;
+}
+
+static bool same_segment(const struct gp_icon *a, const struct gp_icon *b)
+{
+	if (a->segment || b->segment)
+		return a->segment && b->segment &&
+		       strcmp(a->segment, b->segment) == 0;
+	return a->segment_digits == b->segment_digits &&
+	       a->segment_digit == b->segment_digit &&
+	       a->segment_line == b->segment_line;
 }
 
 static void describe_common(const struct gp_design *design,
@@ -330,10 +565,27 @@ static void describe_common(const struct gp_design *design,
 		snprintf(out, size, "common '%s'", icon->common);
 		return;
 	}
+	if (icon->common_digits >= 0) {
+		snprintf(out, size, "common %d of digit row '%s'",
+			 icon->common_index,
+			 design->digits[icon->common_digits].name);
+		return;
+	}
 	const struct gp_block *b = &design->blocks[icon->common_block];
 	snprintf(out, size, "the common of block '%s' line %ld row %ld",
 		 b->name, icon->common_row / b->dots_down + 1,
 		 icon->common_row % b->dots_down + 1);
+}
+
+static void describe_segment(const struct gp_design *design,
+			     const struct gp_icon *icon, char *out, size_t size)
+{
+	if (icon->segment)
+		snprintf(out, size, "segment '%s'", icon->segment);
+	else
+		snprintf(out, size, "line %d of digit %d of row '%s'",
+			 icon->segment_line, icon->segment_digit,
+			 design->digits[icon->segment_digits].name);
 }
 
 /* Each icon lights where its common and segment cross; two icons with the
@@ -345,17 +597,18 @@ static bool check_pairs(const struct gp_design *design, struct gp_diag *diag)
 		const struct gp_icon *b = &design->icons[i];
 		for (size_t j = 0; j < i; j++) {
 			const struct gp_icon *a = &design->icons[j];
-			if (strcmp(a->segment, b->segment) != 0 ||
-			    !same_common(a, b))
+			if (a->auto_slot || b->auto_slot ||
+			    !same_segment(a, b) || !same_common(a, b))
 				continue;
-			char common[160];
+			char common[160], segment[160];
 			describe_common(design, b, common, sizeof(common));
+			describe_segment(design, b, segment, sizeof(segment));
 			ok = gp_diag_error(diag, &b->common_where,
 					   "icons '%s' (line %d) and '%s' both "
-					   "use %s with segment '%s'; each icon "
-					   "needs its own (common, segment) "
-					   "pair", a->name, a->where.line,
-					   b->name, common, b->segment);
+					   "use %s with %s; each icon needs its "
+					   "own (common, segment) pair",
+					   a->name, a->where.line, b->name,
+					   common, segment);
 			break;
 		}
 	}
@@ -378,6 +631,136 @@ static bool check_text_total(const struct gp_design *design,
 			     "limit is %d", total, GP_MAX_ICON_TEXT);
 }
 
+static char *join_name(const char *base, long k)
+{
+	size_t n = strlen(base) + 24;
+	char *out = malloc(n);
+	if (out)
+		snprintf(out, n, "%s%ld", base, k);
+	return out;
+}
+
+/* Cell k (from 0) of an array: the span is the datum, so its place is
+ * computed from the first cell directly (position + k x pitch along a
+ * line; on an arc, the first cell's angle + k x angle). */
+static void place_cell(const struct gp_icon *first, const struct array_spec *a,
+		       long k, struct gp_icon *cell)
+{
+	if (!a->arc) {
+		int64_t d = (int64_t)k * a->pitch;
+		static const int dx[] = { 1, 0, -1, 0 }, dy[] = { 0, 1, 0, -1 };
+		int q = (int)(a->direction / 90);
+		cell->position = (struct gp_point){ first->position.x + dx[q] * d,
+						    first->position.y + dy[q] * d };
+		return;
+	}
+	double x = (double)(first->position.x - a->centre.x);
+	double y = (double)(first->position.y - a->centre.y);
+	double radius = sqrt(x * x + y * y);
+	double t = atan2(y, x) + (double)k * a->angle * 3.14159265358979323846 /
+					 180;
+	cell->position = (struct gp_point){ a->centre.x + llround(radius * cos(t)),
+					    a->centre.y + llround(radius * sin(t)) };
+	cell->turn = a->turn ? (double)k * a->angle : 0;
+}
+
+static bool list_item(const struct gp_node *list, long count, long k,
+		      const char *key, const char *what, struct gp_diag *diag,
+		      const char **out)
+{
+	if (list->kind != GP_NODE_SEQUENCE || (long)list->count != count)
+		return gp_diag_error(diag, &list->where,
+				     "'%s' of %s must list one name for each "
+				     "of its %ld cells", key, what, count);
+	const struct gp_node *item = list->items[k];
+	if (item->kind != GP_NODE_SCALAR || !*item->text)
+		return gp_diag_error(diag, &item->where,
+				     "each of the '%s' of %s must be a name",
+				     key, what);
+	*out = item->text;
+	return true;
+}
+
+/* Copies of icon as the cells of its array, appended at *count. */
+static bool expand(struct gp_design *design, size_t at,
+		   const struct array_spec *a, struct gp_diag *diag)
+{
+	struct gp_icon first = design->icons[at];
+	char what[160];
+	snprintf(what, sizeof(what), "icon '%s'", first.name);
+	if (a->arc && a->turn && first.kind == GP_ICON_TEXT)
+		return gp_diag_error(diag, &a->node->where,
+				     "%s: text does not turn along an arc; "
+				     "give the array 'turn: false'", what);
+	bool ok = true;
+	for (long k = 0; ok && k < a->count; k++) {
+		struct gp_icon *cell = &design->icons[at + (size_t)k];
+		*cell = first;
+		cell->points = NULL;
+		cell->made_name = cell->made_segment = NULL;
+		cell->cell = k + 1;
+		design->icon_count = at + (size_t)k + 1;
+		if (first.point_count) {
+			cell->points = malloc(first.point_count *
+					      sizeof(*cell->points));
+			if (!cell->points)
+				return gp_diag_error(diag, &a->node->where,
+						     "out of memory");
+			memcpy(cell->points, first.points,
+			       first.point_count * sizeof(*cell->points));
+		}
+		cell->made_name = join_name(first.name, k + 1);
+		if (!cell->made_name)
+			return gp_diag_error(diag, &a->node->where,
+					     "out of memory");
+		cell->name = cell->made_name;
+		place_cell(&first, a, k, cell);
+		if (a->commons) {
+			cell->common_block = cell->common_digits = -1;
+			ok = list_item(a->commons, a->count, k, "commons", what,
+				       diag, &cell->common);
+			cell->common_where = a->commons->where;
+		}
+		if (a->segments) {
+			cell->segment_digits = -1;
+			ok = ok && list_item(a->segments, a->count, k,
+					     "segments", what, diag,
+					     &cell->segment);
+			cell->segment_where = a->segments->where;
+		} else if (!first.auto_slot && first.segment && !a->commons) {
+			/* one common: each cell a segment line of its own */
+			cell->made_segment = join_name(first.segment, k + 1);
+			if (!cell->made_segment)
+				return gp_diag_error(diag, &a->node->where,
+						     "out of memory");
+			cell->segment = cell->made_segment;
+		} else if (!first.auto_slot && !a->commons &&
+			   first.segment_digits >= 0) {
+			ok = gp_diag_error(diag, &first.segment_where,
+					   "%s: the cells of an array need a "
+					   "segment each; give 'segments' or "
+					   "'commons' as lists, or 'slot: auto'",
+					   what);
+		}
+	}
+	free(first.points);
+	return ok;
+}
+
+static bool unique_names(const struct gp_design *design, struct gp_diag *diag)
+{
+	for (size_t i = 0; i < design->icon_count; i++)
+		for (size_t j = 0; j < i; j++)
+			if (strcmp(design->icons[i].name,
+				   design->icons[j].name) == 0)
+				return gp_diag_error(
+					diag, &design->icons[i].where,
+					"icon name '%s' is used twice (a cell "
+					"of an array is named after it and its "
+					"number)", design->icons[i].name);
+	return true;
+}
+
 bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag)
 {
@@ -387,18 +770,44 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		return gp_diag_error(diag, &node->where,
 				     "%zu icons; the limit is %d", node->count,
 				     GP_MAX_ICONS);
-	design->icons = calloc(node->count ? node->count : 1,
-			       sizeof(*design->icons));
+	size_t capacity = node->count ? node->count : 1;
+	design->icons = calloc(capacity, sizeof(*design->icons));
 	if (!design->icons)
 		return gp_diag_error(diag, &node->where, "out of memory");
-	bool ok = true;
+	bool ok = true, arrays = false;
 	for (size_t i = 0; i < node->count; i++) {
+		struct array_spec a;
+		size_t at = design->icon_count;
 		/* counted before reading, so that a failed icon's points
 		 * are freed too */
-		design->icon_count = i + 1;
-		ok &= read_icon(&design->icons[i], design, node->keys[i]->text,
-				node->items[i], diag);
+		design->icon_count = at + 1;
+		bool read = read_icon(&design->icons[at], design,
+				      node->keys[i]->text, node->items[i], diag,
+				      &a);
+		ok &= read;
+		if (!read || !a.node)
+			continue;
+		arrays = true;
+		size_t need = at + (size_t)a.count + (node->count - i - 1);
+		if (need > GP_MAX_ICONS)
+			return gp_diag_error(diag, &a.node->where,
+					     "%zu icons with the cells of the "
+					     "arrays; the limit is %d", need,
+					     GP_MAX_ICONS);
+		if (need > capacity) {
+			struct gp_icon *grown = realloc(design->icons,
+							need * sizeof(*grown));
+			if (!grown)
+				return gp_diag_error(diag, &node->where,
+						     "out of memory");
+			memset(grown + capacity, 0,
+			       (need - capacity) * sizeof(*grown));
+			design->icons = grown;
+			capacity = need;
+		}
+		ok &= expand(design, at, &a, diag);
 	}
-	return ok && check_text_total(design, node, diag) &&
+	return ok && (!arrays || unique_names(design, diag)) &&
+	       check_text_total(design, node, diag) &&
 	       check_pairs(design, diag);
 }

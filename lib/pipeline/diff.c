@@ -1,7 +1,9 @@
 /* Comparing two builds: per layer and per net, what was added, removed,
  * moved (and by how much) or reshaped, through GEOS differences. */
 #include "build.h"
+#include "staged-file.h"
 #include "geos.h"
+#include "proof.h"
 #include "units.h"
 
 #include <cairo-pdf.h>
@@ -302,16 +304,18 @@ static void draw_changes(const struct gp_diff *diff, cairo_t *cr)
 	double gh = gp_mm(gp_box_height(diff->frame));
 	double scale = fmin((width - 30 * mm) / gw, (height - 40 * mm) / gh);
 	cairo_set_source_rgb(cr, 0, 0, 0);
-	cairo_select_font_face(cr, "sans-serif", CAIRO_FONT_SLANT_NORMAL,
-			       CAIRO_FONT_WEIGHT_NORMAL);
-	cairo_set_font_size(cr, 10);
-	cairo_move_to(cr, 15 * mm, 12 * mm);
-	char title[160];
-	snprintf(title, sizeof(title),
-		 "Changes: %zu (red: only in the old build, blue: only in "
-		 "the new one). Scale %.3g:1",
-		 diff->changes, scale / mm);
-	cairo_show_text(cr, title);
+	cairo_font_face_t *face = gp_proof_text_face();
+	if (face) { /* without fonts the drawing has no title */
+		cairo_set_font_face(cr, face);
+		cairo_set_font_size(cr, 10);
+		cairo_move_to(cr, 15 * mm, 12 * mm);
+		char title[160];
+		snprintf(title, sizeof(title),
+			 "Changes: %zu (red: only in the old build, blue: "
+			 "only in the new one). Scale %.3g:1",
+			 diff->changes, scale / mm);
+		cairo_show_text(cr, title);
+	}
 	cairo_translate(cr, 15 * mm, 20 * mm);
 	cairo_scale(cr, scale, scale);
 	cairo_translate(cr, -gp_mm(diff->frame.x0), gp_mm(diff->frame.y1));
@@ -344,16 +348,14 @@ GP_EXPORT bool gp_diff_write_pdf(const struct gp_diff *diff,
 	bool ok = cairo_surface_status(surface) == CAIRO_STATUS_SUCCESS &&
 		  !pdf.failed;
 	cairo_surface_destroy(surface);
-	FILE *file = ok ? fopen(path, "wb") : NULL;
-	if (file) {
-		ok = fwrite(pdf.data, 1, pdf.size, file) == pdf.size;
-		ok = fclose(file) == 0 && ok;
-	} else {
-		ok = false;
-	}
-	gp_buffer_finish(&pdf);
+	/* written whole under a temporary name, then renamed over path */
+	struct gp_staged_file file = { NULL, NULL };
 	if (!ok)
-		return gp_diag_error(diag, NULL, "%s: cannot write the "
-				     "picture of the changes", path);
-	return true;
+		gp_diag_error(diag, NULL, "%s: cannot draw the picture of the "
+			      "changes", path);
+	ok = ok && gp_staged_file_write(&file, path, pdf.data, pdf.size, diag) &&
+	     gp_staged_file_commit(&file, diag);
+	gp_staged_file_discard(&file);
+	gp_buffer_finish(&pdf);
+	return ok;
 }

@@ -1,7 +1,9 @@
 /* The pin table (pins.csv) and the firmware map (a generated C header). */
+#include "digits.h"
+#include "pinmap.h"
 #include "route.h"
 
-#include "build.h"
+#include "stage.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -320,6 +322,14 @@ bool gp_firmware_header(const struct gp_build *build, struct gp_buffer *o)
 bool gp_route_write(const struct gp_build *build, struct gp_output_set *set,
 		    struct gp_diag *diag)
 {
+	bool wanted = gp_build_wants(build, GP_OUTPUT_PINS) ||
+		      gp_build_wants(build, GP_OUTPUT_FIRMWARE);
+	/* asked for by name, they must not vanish into an empty set */
+	if (build->pin_count == 0 && wanted && build->outputs_chosen)
+		return gp_diag_error(diag, NULL,
+				     "pins.csv and glass-map.h need pads, and "
+				     "this glass has no 'ledges'; leave pins "
+				     "and firmware out of --only");
 	if (build->pin_count == 0)
 		return true;
 	if (gp_build_wants(build, GP_OUTPUT_PINS)) {
