@@ -147,15 +147,20 @@ static struct gp_buffer *output(struct gp_output_set *set, const char *name)
 	return NULL;
 }
 
-/* Puts text just before a Gerber file's M02, or keeps only what comes
- * before the first region (cut). */
+/* Puts text just before a Gerber file's end (its checksum attribute,
+ * which is dropped, or M02), or keeps only what comes before its first
+ * coordinate (cut). */
 static void edit_gerber(struct gp_buffer *b, const char *text, bool cut)
 {
 	char *copy = malloc(b->size + 1);
 	assert_non_null(copy);
 	memcpy(copy, b->data, b->size);
 	copy[b->size] = '\0';
-	char *at = strstr(copy, cut ? "G36*" : "M02*");
+	char *at = cut ? strstr(copy, "\nX") : strstr(copy, "%TF.MD5");
+	if (cut && at)
+		at++;
+	if (!at)
+		at = strstr(copy, "M02*");
 	assert_non_null(at);
 	*at = '\0';
 	gp_buffer_finish(b);

@@ -994,12 +994,13 @@ static void test_spare_slots(void **state)
 	     "  set:\n"
 	     "    shape: rectangle\n    size: [1.2, 0.6]\n"
 	     "    position: [7, 19]\n"
-	     "    common: { digits: clock, common: 4 }\n"
+	     "    common: { digits: clock, common: 1 }\n"
 	     "    segment: { digits: clock, digit: 1, line: 2 }\n");
 	const struct gp_artwork *art = &b.build->art;
 	const struct gp_digit_row *row = &b.build->digit_rows[0];
 	assert_int_equal(row->unit_count, 4);
-	/* 'set' takes digit 1's spare slot by hand; the automatic icons
+	/* 'set' takes digit 1's spare slot (COM1 on line 2 of the band layout:
+	 * line 2 is b g c, from the second band down) by hand; the automatic icons
 	 * take those of the digits nearest them (digit 3 spans x 21..25.5) */
 	int seen[4] = { 0 };
 	for (size_t i = 0; i < 2; i++) {
