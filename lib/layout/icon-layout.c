@@ -150,12 +150,6 @@ static void where_mm(char *buf, size_t size, struct gp_point p)
 	snprintf(buf, size, "(%s, %s)", x, y);
 }
 
-static struct gp_point centre(struct gp_box b)
-{
-	return (struct gp_point){ b.x0 + (b.x1 - b.x0) / 2,
-				  b.y0 + (b.y1 - b.y0) / 2 };
-}
-
 static bool report_thin(struct layout *l, const struct gp_icon *icon,
 			const struct gp_polyset *thin)
 {
@@ -238,7 +232,7 @@ static bool check_space(struct layout *l, const struct gp_icon *icon,
 		for (size_t g = 0; ok && g < gaps.count; g++)
 			if ((*findings)++ < MAX_FINDINGS)
 				report_close(l, icon,
-					     centre(gp_polygon_bounds(
+					     gp_box_centre(gp_polygon_bounds(
 						     &gaps.items[g])),
 					     0, true);
 		gp_polyset_finish(&gaps);

@@ -68,7 +68,7 @@ static struct gp_geos_shape *shape_of(struct gp_geos *geos,
 	struct gp_box b = gp_polygon_bounds(&s->poly);
 	int64_t h = s->line_width / 2;
 	return gp_geos_shape_from_box(
-		geos, gp_box_make(b.x0 - h, b.y0 - h, b.x1 + h, b.y1 + h));
+		geos, gp_box_grow(b, h));
 }
 
 static bool add_to_group(struct gp_geos *geos, struct group_list *list,

@@ -99,7 +99,7 @@ static bool add_obstacle(struct bundle *b, struct gp_box box, int net,
 	struct gp_box q = box_map(box, b->l->side, true);
 	int64_t g = b->clear;
 	b->obs[b->obs_count++] = (struct bobst){
-		gp_box_make(q.x0 - g, q.y0 - g, q.x1 + g, q.y1 + g), q, net,
+		gp_box_grow(q, g), q, net,
 		patch };
 	return true;
 }
