@@ -150,7 +150,7 @@ static bool resolve_pattern(struct gp_font *font, const char *name,
 	ok = true;
 	goto out;
 nomem:
-	gp_diag_error(diag, where, "out of memory looking up font '%s'", name);
+	gp_diag_oom(diag, where);
 out:
 	free(wanted);
 	if (match)
@@ -225,8 +225,7 @@ static bool open_face(struct gp_font *font, const char *name,
 			     font->face->style_name : "");
 	font->hb = hb_ft_font_create_referenced(font->face);
 	if (!font->family || !font->style || !font->hb)
-		return gp_diag_error(diag, where, "out of memory opening "
-				     "font '%s'", name);
+		return gp_diag_oom(diag, where);
 	hb_ft_font_set_load_flags(font->hb, LOAD_FLAGS);
 	font->cap_units = measure_cap_height(font->face);
 	return true;
@@ -238,7 +237,7 @@ struct gp_font *gp_font_open(const char *name, const char *base_dir,
 {
 	struct gp_font *font = calloc(1, sizeof(*font));
 	if (!font) {
-		gp_diag_error(diag, where, "out of memory opening a font");
+		gp_diag_oom(diag, where);
 		return NULL;
 	}
 	if (!name || !*name) {
@@ -249,7 +248,7 @@ struct gp_font *gp_font_open(const char *name, const char *base_dir,
 	if (strchr(name, '/')) {
 		font->file = join_path(base_dir, name);
 		if (!font->file) {
-			gp_diag_error(diag, where, "out of memory");
+			gp_diag_oom(diag, where);
 			goto fail;
 		}
 	} else if (!resolve_pattern(font, name, where, diag)) {
@@ -648,7 +647,7 @@ static bool shape_text(struct gp_font *font, const char *utf8,
 	hb_shape(font->hb, buffer, style->kerning ? NULL : &no_kern,
 		 style->kerning ? 0 : 1);
 	if (!hb_buffer_allocation_successful(buffer)) {
-		gp_diag_error(diag, where, "out of memory shaping text");
+		gp_diag_oom(diag, where);
 		goto out;
 	}
 	unsigned count = 0;
@@ -663,7 +662,7 @@ static bool shape_text(struct gp_font *font, const char *utf8,
 		}
 		struct gp_glyph *glyph;
 		if (!add_glyph(out, &glyph)) {
-			gp_diag_error(diag, where, "out of memory");
+			gp_diag_oom(diag, where);
 			goto out;
 		}
 		glyph->glyph = info[i].codepoint;

@@ -155,7 +155,7 @@ struct checker {
 static bool oom(struct checker *c)
 {
 	c->failed = true;
-	return gp_diag_error(c->diag, NULL, "checks: out of memory");
+	return gp_diag_oom(c->diag, NULL);
 }
 
 static bool is_ito(enum gp_layer layer)
@@ -1566,7 +1566,7 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 			      sizeof(*report->nets));
 	report->net_count = art->net_count;
 	if (!report->nets)
-		return gp_diag_error(diag, NULL, "checks: out of memory");
+		return gp_diag_oom(diag, NULL);
 	bool ok = checker_init(&c, geos, art, limits, report, diag) &&
 		  run_checks(&c);
 	checker_finish(&c);

@@ -106,7 +106,7 @@ static bool read_points(struct gp_reader *r, struct gp_icon *icon)
 				     GP_MAX_ICON_POINTS);
 	icon->points = calloc(node->count, sizeof(*icon->points));
 	if (!icon->points)
-		return gp_diag_error(r->diag, &node->where, "out of memory");
+		return gp_diag_oom(r->diag, &node->where);
 	for (size_t i = 0; i < node->count; i++) {
 		const struct gp_node *p = node->items[i];
 		int64_t x, y;
@@ -566,7 +566,7 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 	design->icons = calloc(node->count ? node->count : 1,
 			       sizeof(*design->icons));
 	if (!design->icons)
-		return gp_diag_error(diag, &node->where, "out of memory");
+		return gp_diag_oom(diag, &node->where);
 	bool ok = true;
 	for (size_t i = 0; i < node->count; i++) {
 		/* counted before reading, so that a failed icon's points

@@ -58,7 +58,7 @@ static bool convert_children(struct convert *c, struct gp_node *node,
 	if (ynode->type == YAML_MAPPING_NODE)
 		node->keys = calloc(count ? count : 1, sizeof(*node->keys));
 	if (!node->items || (ynode->type == YAML_MAPPING_NODE && !node->keys))
-		return gp_diag_error(c->diag, &node->where, "out of memory");
+		return gp_diag_oom(c->diag, &node->where);
 	for (size_t i = 0; i < count; i++) {
 		yaml_node_t *value, *key = NULL;
 		if (ynode->type == YAML_SEQUENCE_NODE) {
@@ -127,7 +127,7 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 	}
 	struct gp_node *node = calloc(1, sizeof(*node));
 	if (!node) {
-		gp_diag_error(c->diag, &where, "out of memory");
+		gp_diag_oom(c->diag, &where);
 		return NULL;
 	}
 	node->where = where;
@@ -140,7 +140,7 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		node->text = strndup((const char *)ynode->data.scalar.value,
 				     ynode->data.scalar.length);
 		if (!node->text)
-			ok = gp_diag_error(c->diag, &where, "out of memory");
+			ok = gp_diag_oom(c->diag, &where);
 		else if (strlen(node->text) != ynode->data.scalar.length)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value contains a NUL character");
@@ -294,7 +294,7 @@ static bool prescan(const char *file, const char *data, size_t size,
 {
 	yaml_parser_t parser;
 	if (!yaml_parser_initialize(&parser)) {
-		gp_diag_error(diag, NULL, "%s: out of memory", file);
+		gp_diag_oom(diag, &(struct gp_where){ file, 0, 0 });
 		return false;
 	}
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
@@ -334,7 +334,7 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	if (!prescan(file, data, size, flat, diag))
 		return NULL;
 	if (!yaml_parser_initialize(&parser)) {
-		gp_diag_error(diag, NULL, "%s: out of memory", file);
+		gp_diag_oom(diag, &(struct gp_where){ file, 0, 0 });
 		return NULL;
 	}
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
@@ -375,7 +375,7 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 	struct gp_spec *spec = calloc(1, sizeof(*spec));
 	if (!spec || !(spec->file = strdup(name))) {
 		free(spec);
-		gp_diag_error(diag, NULL, "%s: out of memory", name);
+		gp_diag_oom(diag, &(struct gp_where){ name, 0, 0 });
 		return NULL;
 	}
 	spec->root = parse_tree(spec->file, data, size, false,
@@ -507,8 +507,7 @@ static bool graft(struct gp_spec *spec, char *path, struct gp_node *value,
 			if (node->kind != GP_NODE_MAP)
 				break;
 			if (!add_key(node, part, value, where))
-				return gp_diag_error(diag, &where,
-						     "out of memory");
+				return gp_diag_oom(diag, &where);
 			return true;
 		}
 		if (!found || found->kind == GP_NODE_SCALAR) {
@@ -570,7 +569,7 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 	struct gp_where where = { remember(&spec->labels, &spec->label_count,
 					   label), 0, 0 };
 	if (!where.file)
-		return gp_diag_error(diag, NULL, "%s: out of memory", label);
+		return gp_diag_oom(diag, &(struct gp_where){ label, 0, 0 });
 	if (!check_path(assignment, (size_t)(equals - assignment), &where,
 			diag))
 		return false;
@@ -585,13 +584,13 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 	char *path = strndup(assignment, (size_t)(equals - assignment));
 	if (!path) {
 		node_destroy(value);
-		return gp_diag_error(diag, &where, "out of memory");
+		return gp_diag_oom(diag, &where);
 	}
 	bool ok = graft(spec, path, value, where, diag);
 	free(path);
 	if (ok && !remember(&spec->overrides, &spec->override_count,
 			    assignment))
-		return gp_diag_error(diag, &where, "out of memory");
+		return gp_diag_oom(diag, &where);
 	return ok;
 }
 

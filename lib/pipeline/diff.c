@@ -220,7 +220,7 @@ GP_EXPORT struct gp_diff *gp_diff_create(const struct gp_build *old,
 	struct gp_diff *diff = calloc(1, sizeof(*diff));
 	if (!diff || !(diff->geos = gp_geos_create(diag))) {
 		free(diff);
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	gp_buffer_init(&diff->text);

@@ -204,7 +204,7 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 	struct gp_maze *m = gp_maze_create(window, cell);
 	*found = false;
 	if (!m)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	mark(j, m, window);
 	struct gp_maze_rules mr = {
 		.width = width,
@@ -221,7 +221,7 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 	bool ok = gp_maze_route(m, &mr, &path, found);
 	gp_maze_destroy(m);
 	if (!ok)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	if (!*found)
 		return true;
 	struct gp_polygon bus;
@@ -271,7 +271,7 @@ static bool nearest_box(struct join *j, struct gp_box *out)
 	gp_geos_shape_destroy(j->geos, a);
 	gp_geos_shape_destroy(j->geos, b);
 	gp_polyset_finish(&done);
-	return ok || gp_diag_error(j->r->diag, NULL, "out of memory");
+	return ok || gp_diag_oom(j->r->diag, NULL);
 }
 
 static bool join_pieces(struct join *j, size_t *left)
@@ -445,6 +445,6 @@ bool gp_route_join(struct route *r, struct gp_geos *geos)
 	free(first);
 	free(items);
 	if (!ok && r->diag->errors == 0)
-		gp_diag_error(r->diag, NULL, "out of memory");
+		gp_diag_oom(r->diag, NULL);
 	return ok;
 }

@@ -954,7 +954,7 @@ static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
 	free(pairs);
 	free(f);
 	free(boxes);
-	return ok || gp_diag_error(r->diag, NULL, "out of memory");
+	return ok || gp_diag_oom(r->diag, NULL);
 }
 
 /* Of two clashing nets, the one to take its next free end: the one now
@@ -1484,7 +1484,7 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 	struct gp_diag *diag = r->diag;
 	struct cand (*saved)[16] = malloc((r->net_count + 1) * sizeof(*saved));
 	if (!saved)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	for (size_t i = 0; i < r->net_count; i++)
 		memcpy(saved[i], r->nets[i].cands, sizeof(saved[i]));
 	bool ok = false;
@@ -1555,7 +1555,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	r.nets = calloc(r.net_count ? r.net_count : 1, sizeof(*r.nets));
 	bool ok = geos && r.nets;
 	if (!ok) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		goto out;
 	}
 	if (!(ok = check_seal_fits(&r)))
@@ -1606,7 +1606,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 			gp_polygon_finish(&copy);
 		}
 		if (!ok)
-			gp_diag_error(diag, NULL, "out of memory");
+			gp_diag_oom(diag, NULL);
 	}
 	ok = ok && check_paths(&r, geos);
 	for (size_t i = 0; ok && i < g->ledge_count; i++)

@@ -47,7 +47,7 @@ bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag)
 			 build->design->front.box) ||
 	    !add_outline(build, GP_LAYER_BACK_OUTLINE,
 			 build->design->back.box))
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	return true;
 }
 
@@ -262,7 +262,7 @@ static bool add_marks(struct gp_build *build, struct gp_box out,
 			return false;
 	for (size_t i = 0; i < count; i++)
 		if (!add_mark(build, at[i], m))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 	return true;
 }
 
