@@ -2,6 +2,7 @@
  * into rings.  See font.h. */
 #include "font.h"
 
+#include "array.h"
 #include "geos.h"
 
 #include <ft2build.h>
@@ -394,17 +395,10 @@ static void close_ring(struct builder *b)
 		return;
 	}
 	struct gp_glyph *g = b->glyph;
-	if (g->ring_count == g->ring_capacity) {
-		size_t capacity = g->ring_capacity ? g->ring_capacity * 2 : 4;
-		struct gp_ring *rings =
-			realloc(g->rings, capacity * sizeof(*rings));
-		if (!rings) {
-			b->failed = true;
-			gp_ring_finish(&b->ring);
-			return;
-		}
-		g->rings = rings;
-		g->ring_capacity = capacity;
+	if (!gp_array_reserve(g->rings, g->ring_capacity, g->ring_count + 1)) {
+		b->failed = true;
+		gp_ring_finish(&b->ring);
+		return;
 	}
 	g->rings[g->ring_count++] = b->ring;
 	gp_ring_init(&b->ring);

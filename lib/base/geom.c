@@ -1,5 +1,6 @@
 #include "geom.h"
 
+#include "array.h"
 #include "units.h"
 
 #include <stdlib.h>
@@ -18,15 +19,8 @@ void gp_ring_finish(struct gp_ring *ring)
 
 bool gp_ring_push(struct gp_ring *ring, int64_t x, int64_t y)
 {
-	if (ring->count == ring->capacity) {
-		size_t capacity = ring->capacity ? ring->capacity * 2 : 8;
-		struct gp_point *points =
-			realloc(ring->points, capacity * sizeof(*points));
-		if (!points)
-			return false;
-		ring->points = points;
-		ring->capacity = capacity;
-	}
+	if (!gp_array_reserve(ring->points, ring->capacity, ring->count + 1))
+		return false;
 	ring->points[ring->count++] = (struct gp_point){ x, y };
 	return true;
 }
@@ -203,15 +197,8 @@ void gp_polyset_finish(struct gp_polyset *set)
 
 bool gp_polyset_take(struct gp_polyset *set, struct gp_polygon *poly)
 {
-	if (set->count == set->capacity) {
-		size_t capacity = set->capacity ? set->capacity * 2 : 4;
-		struct gp_polygon *items =
-			realloc(set->items, capacity * sizeof(*items));
-		if (!items)
-			return false;
-		set->items = items;
-		set->capacity = capacity;
-	}
+	if (!gp_array_reserve(set->items, set->capacity, set->count + 1))
+		return false;
 	set->items[set->count++] = *poly;
 	gp_polygon_init(poly);
 	return true;

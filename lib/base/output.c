@@ -2,6 +2,8 @@
 #define _GNU_SOURCE
 #include "output.h"
 
+#include "array.h"
+
 #include <dirent.h>
 #include <errno.h>
 #include <fcntl.h>
@@ -76,15 +78,8 @@ struct gp_buffer *gp_output_add(struct gp_output_set *set, const char *name,
 				      name);
 			return NULL;
 		}
-	if (set->count == set->capacity) {
-		size_t capacity = set->capacity ? set->capacity * 2 : 8;
-		struct gp_output_file *files =
-			realloc(set->files, capacity * sizeof(*files));
-		if (!files)
-			goto oom;
-		set->files = files;
-		set->capacity = capacity;
-	}
+	if (!gp_array_reserve(set->files, set->capacity, set->count + 1))
+		goto oom;
 	struct gp_output_file *file = &set->files[set->count];
 	file->name = strdup(name);
 	if (!file->name)

@@ -1,5 +1,6 @@
 #include "check.h"
 
+#include "array.h"
 #include "patch.h"
 #include "units.h"
 
@@ -337,30 +338,15 @@ static bool bigger_is_worse(enum gp_check_rule rule)
 static bool grow_findings(struct checker *c)
 {
 	struct gp_check_report *r = c->rep;
-	if (r->count < r->capacity)
-		return true;
-	size_t capacity = r->capacity ? r->capacity * 2 : 16;
-	struct gp_finding *items =
-		realloc(r->findings, capacity * sizeof(*items));
-	if (!items)
-		return oom(c);
-	r->findings = items;
-	r->capacity = capacity;
-	return true;
+	return gp_array_reserve(r->findings, r->capacity, r->count + 1) ||
+	       oom(c);
 }
 
 bool gp_check_report_add(struct gp_check_report *r,
 			 const struct gp_finding *f)
 {
-	if (r->count == r->capacity) {
-		size_t capacity = r->capacity ? r->capacity * 2 : 16;
-		struct gp_finding *items =
-			realloc(r->findings, capacity * sizeof(*items));
-		if (!items)
-			return false;
-		r->findings = items;
-		r->capacity = capacity;
-	}
+	if (!gp_array_reserve(r->findings, r->capacity, r->count + 1))
+		return false;
 	r->findings[r->count++] = *f;
 	if (f->severity == GP_SEVERITY_ERROR)
 		r->errors++;
@@ -637,15 +623,9 @@ struct query {
 static void on_found(void *user, size_t item)
 {
 	struct query *q = user;
-	if (q->count == q->capacity) {
-		size_t capacity = q->capacity ? q->capacity * 2 : 64;
-		size_t *grown = realloc(q->found, capacity * sizeof(*grown));
-		if (!grown) {
-			q->failed = true;
-			return;
-		}
-		q->found = grown;
-		q->capacity = capacity;
+	if (!gp_array_reserve(q->found, q->capacity, q->count + 1)) {
+		q->failed = true;
+		return;
 	}
 	q->found[q->count++] = item;
 }

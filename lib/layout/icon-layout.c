@@ -11,6 +11,8 @@
 #include "patch.h"
 #include "units.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -465,14 +467,8 @@ struct slot {
 
 static bool add_slot(struct layout *l, struct slot s)
 {
-	if (l->slot_count == l->slot_capacity) {
-		size_t n = l->slot_capacity ? 2 * l->slot_capacity : 32;
-		struct slot *grown = realloc(l->slots, n * sizeof(*grown));
-		if (!grown)
-			return gp_diag_oom(l->diag, NULL);
-		l->slots = grown;
-		l->slot_capacity = n;
-	}
+	if (!gp_array_reserve(l->slots, l->slot_capacity, l->slot_count + 1))
+		return gp_diag_oom(l->diag, NULL);
 	l->slots[l->slot_count++] = s;
 	return true;
 }

@@ -23,6 +23,8 @@
 #include "route-private.h"
 #include "units.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -83,14 +85,8 @@ static void push_point(struct blead *l, int64_t x, int64_t y)
 static bool add_obstacle(struct bundle *b, struct gp_box box, int net,
 			 bool patch, size_t *cap)
 {
-	if (b->obs_count == *cap) {
-		size_t c = *cap ? 2 * *cap : 256;
-		struct bobst *o = realloc(b->obs, c * sizeof(*o));
-		if (!o)
-			return false;
-		b->obs = o;
-		*cap = c;
-	}
+	if (!gp_array_reserve(b->obs, (*cap), b->obs_count + 1))
+		return false;
 	struct gp_box q = box_map(box, b->l->side, true);
 	int64_t g = b->clear;
 	b->obs[b->obs_count++] = (struct bobst){
