@@ -96,7 +96,7 @@ int cmd_diff(int argc, char **argv)
 		new_build ? gp_diff_create(old_build, new_build, diag) : NULL;
 	if (diff && (!o.pdf || gp_diff_write_pdf(diff, o.pdf, diag))) {
 		if (!o.quiet)
-			fputs(gp_diff_text(diff), stdout);
+			tool_put(gp_diff_text(diff), stdout);
 		status = gp_diff_identical(diff) ? EXIT_OK : EXIT_FINDINGS;
 	}
 	tool_print_diag(diag, o.quiet ? -1 : 0);

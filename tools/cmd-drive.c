@@ -63,7 +63,10 @@ int cmd_drive(int argc, char **argv)
 	char *text = gp_drive_report_create(
 		design, json ? GP_DRIVE_JSON : GP_DRIVE_TEXT, &feasible, diag);
 	if (text) {
-		fputs(text, stdout);
+		if (json)
+			fputs(text, stdout);
+		else
+			tool_put(text, stdout);
 		fflush(stdout);
 		status = feasible ? EXIT_OK : EXIT_FINDINGS;
 	}

@@ -7,6 +7,13 @@
 #include <time.h>
 #include <unistd.h>
 
+void tool_put(const char *text, FILE *file)
+{
+	char *safe = gp_text_for_terminal(text, true);
+	fputs(safe ? safe : "(out of memory)\n", file);
+	free(safe);
+}
+
 void tool_print_diag(const struct gp_diag *diag, int verbosity)
 {
 	for (size_t i = 0; i < gp_diag_count(diag); i++) {
@@ -18,7 +25,10 @@ void tool_print_diag(const struct gp_diag *diag, int verbosity)
 		const char *kind = severity == GP_SEVERITY_ERROR   ? ""
 				   : severity == GP_SEVERITY_WARNING ? "warning: "
 								     : "note: ";
-		fprintf(stderr, "%s%s\n", kind, gp_diag_message(diag, i));
+		char *safe = gp_text_for_terminal(gp_diag_message(diag, i),
+						  false);
+		fprintf(stderr, "%s%s\n", kind, safe ? safe : "(out of memory)");
+		free(safe);
 	}
 }
 
@@ -26,10 +36,12 @@ int tool_usage_error(const char *format, ...)
 {
 	va_list args;
 	va_start(args, format);
-	fputs("glassplot: ", stderr);
-	vfprintf(stderr, format, args);
-	fputc('\n', stderr);
+	char text[2048];
+	vsnprintf(text, sizeof(text), format, args);
 	va_end(args);
+	char *safe = gp_text_for_terminal(text, false);
+	fprintf(stderr, "glassplot: %s\n", safe ? safe : text);
+	free(safe);
 	return EXIT_BAD_INPUT;
 }
 

@@ -26,6 +26,9 @@ struct tool_options {
 	const char *depfile;         /* --depfile FILE */
 };
 
+/* Writes text made from the user's names (a summary, a report) with its
+ * control and bidi characters made visible (gp_text_for_terminal). */
+void tool_put(const char *text, FILE *file);
 /* Prints each message of diag on stderr, one line each, prefixed by the
  * program name when it has no place of its own. */
 void tool_print_diag(const struct gp_diag *diag, int verbosity);

@@ -4,6 +4,8 @@
  * may be off by a subsection). */
 #include "gerber.h"
 
+#include "escape.h"
+
 #include "units.h"
 
 #include <inttypes.h>
@@ -695,17 +697,11 @@ static bool collect_apertures(struct writer *w, const struct gp_artwork *art,
 	return true;
 }
 
-/* Attribute and comment text: the reserved characters (section 3.4.3) and
- * controls become \uXXXX escapes. */
+/* Attribute and comment text, escaped as a Gerber string (section 3.4.3;
+ * escape.h). */
 static void put_text(struct gp_buffer *out, const char *text)
 {
-	for (const unsigned char *p = (const unsigned char *)text; *p; p++) {
-		if (*p == ',' || *p == '*' || *p == '%' || *p == '\\' ||
-		    *p < 0x20 || *p == 0x7f)
-			gp_buffer_printf(out, "\\u%04X", *p);
-		else
-			gp_buffer_append(out, p, 1);
-	}
+	gp_escape_gerber(out, text);
 }
 
 static void write_header(struct writer *w, enum gp_layer layer,
