@@ -87,9 +87,13 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch);
 /* Write only these kinds of output: a comma-separated list of gerber,
  * proof, pins, firmware, report (checksums.sha256 is always written).
- * False, with a message, for an unknown kind. */
+ * False, with a message, for a list gp_output_kinds_check refuses. */
 GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
 			       struct gp_diag *diag);
+/* The same check of a list of kinds without a build, so that a program
+ * can refuse a bad list before any work: an empty list, an empty item, an
+ * unknown kind and a kind listed twice are errors. */
+GP_EXPORT bool gp_output_kinds_check(const char *kinds, struct gp_diag *diag);
 /* Files read besides the description (fonts...), one per line. */
 GP_EXPORT const char *gp_build_inputs(const struct gp_build *build);
 GP_EXPORT void gp_build_destroy(struct gp_build *build);

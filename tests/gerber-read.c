@@ -222,6 +222,10 @@ static bool end_contour(struct reader *r)
 	c->count--; /* drop the closing repeat */
 	o->points = *c;
 	gp_ring_init(c);
+	char why[200];
+	if (!gr_contour_check(&o->points, why, sizeof(why)))
+		return violation(r, "region contour from line %d is not valid "
+				    "(spec 4.10.3): %s", r->contour_line, why);
 	return true;
 }
 
@@ -423,4 +427,169 @@ void gr_file_finish(struct gr_file *file)
 	free(file->apertures);
 	free(file->attributes);
 	memset(file, 0, sizeof(*file));
+}
+
+/* --- spec 4.10.3, valid contours -------------------------------------- */
+
+__extension__ typedef __int128 gr_wide;
+
+static int gr_side(struct gp_point o, struct gp_point a, struct gp_point b)
+{
+	gr_wide v = (gr_wide)(a.x - o.x) * (b.y - o.y) -
+		    (gr_wide)(a.y - o.y) * (b.x - o.x);
+	return (v > 0) - (v < 0);
+}
+
+static bool gr_same(struct gp_point a, struct gp_point b)
+{
+	return a.x == b.x && a.y == b.y;
+}
+
+/* p on the closed segment [a, b] */
+static bool gr_on(struct gp_point a, struct gp_point b, struct gp_point p)
+{
+	return gr_side(a, b, p) == 0 &&
+	       p.x >= (a.x < b.x ? a.x : b.x) && p.x <= (a.x < b.x ? b.x : a.x) &&
+	       p.y >= (a.y < b.y ? a.y : b.y) && p.y <= (a.y < b.y ? b.y : a.y);
+}
+
+static bool gr_meet(struct gp_point a, struct gp_point b, struct gp_point c,
+		    struct gp_point d)
+{
+	int d1 = gr_side(c, d, a), d2 = gr_side(c, d, b);
+	int d3 = gr_side(a, b, c), d4 = gr_side(a, b, d);
+	if (d1 * d2 < 0 && d3 * d4 < 0)
+		return true;
+	return gr_on(c, d, a) || gr_on(c, d, b) || gr_on(a, b, c) ||
+	       gr_on(a, b, d);
+}
+
+static bool gr_complain(char *why, size_t size, const char *format, ...)
+	__attribute__((format(printf, 3, 4)));
+
+static bool gr_complain(char *why, size_t size, const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	vsnprintf(why, size, format, args);
+	va_end(args);
+	return false;
+}
+
+/* Is p an end of a cut-in of r, given the cut-in pairs found? */
+struct gr_cut {
+	struct gp_point a, b;
+};
+
+static bool gr_cut_end(const struct gr_cut *cuts, size_t n, struct gp_point p)
+{
+	for (size_t i = 0; i < n; i++)
+		if (gr_same(cuts[i].a, p) || gr_same(cuts[i].b, p))
+			return true;
+	return false;
+}
+
+/* The rules, in the words of the Gerber Layer Format Specification
+ * (Ucamco, 2024.05), 4.10.3 "Valid Contours":
+ * - "A contour is said to be simple if all its segments are disjointed,
+ *   except for consecutive segments having only their connection point
+ *   in common."  "zero-length draws ... are therefore not allowed";
+ * - a cut-in "must consist of two fully-coincident linear segments";
+ *   "cut-ins must be either horizontal or vertical"; "all cut-ins in a
+ *   contour must have the same direction"; "cut-ins can only touch or
+ *   overlap the contour in their start and end points";
+ * - "Any other form of self-touching, self-intersection or self-
+ *   overlapping is not allowed ... vertices on a segment at another
+ *   location than its endpoints, points where more than two segments
+ *   end" (read, as the spec's own cut-in example 4.10.4.7 has it, as
+ *   apart from the ends of a cut-in, where its two segments end too). */
+bool gr_contour_check(const struct gp_ring *r, char *why, size_t size)
+{
+	size_t n = r->count;
+	if (n < 3)
+		return gr_complain(why, size, "fewer than 3 segments");
+	struct gr_cut *cuts = calloc(n, sizeof(*cuts));
+	size_t cut_count = 0;
+	int direction = 0; /* 1 horizontal, 2 vertical */
+	bool ok = cuts != NULL;
+	if (!ok)
+		return gr_complain(why, size, "out of memory");
+	/* first the cut-in pairs */
+	for (size_t i = 0; i < n && ok; i++) {
+		struct gp_point a = r->points[i], b = r->points[(i + 1) % n];
+		if (gr_same(a, b))
+			ok = gr_complain(why, size, "segment %zu has zero length", i);
+		for (size_t j = i + 1; j < n && ok; j++) {
+			struct gp_point c = r->points[j];
+			struct gp_point d = r->points[(j + 1) % n];
+			if (!gr_same(a, d) || !gr_same(b, c))
+				continue;
+			int dir = a.y == b.y ? 1 : a.x == b.x ? 2 : 0;
+			if (dir == 0)
+				ok = gr_complain(why, size,
+						 "cut-in (%lld, %lld)-(%lld, %lld) "
+						 "is neither horizontal nor "
+						 "vertical",
+						 (long long)a.x, (long long)a.y,
+						 (long long)b.x, (long long)b.y);
+			else if (direction && dir != direction)
+				ok = gr_complain(why, size, "cut-ins run both "
+						 "horizontally and vertically");
+			direction = dir;
+			cuts[cut_count++] = (struct gr_cut){ a, b };
+		}
+	}
+	/* then every other meeting of two segments */
+	for (size_t i = 0; i < n && ok; i++) {
+		struct gp_point a = r->points[i], b = r->points[(i + 1) % n];
+		struct gp_box ab = gp_box_make(a.x, a.y, b.x, b.y);
+		for (size_t j = i + 1; j < n && ok; j++) {
+			struct gp_point c = r->points[j];
+			struct gp_point d = r->points[(j + 1) % n];
+			struct gp_box cd = gp_box_make(c.x, c.y, d.x, d.y);
+			if (cd.x0 > ab.x1 || cd.x1 < ab.x0 || cd.y0 > ab.y1 ||
+			    cd.y1 < ab.y0 || !gr_meet(a, b, c, d))
+				continue;
+			if (gr_same(a, d) && gr_same(b, c))
+				continue; /* a cut-in pair */
+			bool next = j == i + 1, wrap = i == 0 && j == n - 1;
+			struct gp_point shared;
+			bool at_end = false;
+			if (gr_same(a, c) || gr_same(a, d))
+				shared = a, at_end = true;
+			else if (gr_same(b, c) || gr_same(b, d))
+				shared = b, at_end = true;
+			/* only the shared end in common, nothing more */
+			struct gp_point far_ab = gr_same(a, shared) ? b : a;
+			struct gp_point far_cd = gr_same(c, shared) ? d : c;
+			if (!at_end || gr_on(a, b, far_cd) || gr_on(c, d, far_ab))
+				ok = gr_complain(why, size,
+						 "segments %zu and %zu cross, "
+						 "overlap or touch away from "
+						 "their ends", i, j);
+			else if (!next && !wrap &&
+				 !gr_cut_end(cuts, cut_count, shared))
+				ok = gr_complain(why, size,
+						 "segments %zu and %zu touch at "
+						 "(%lld, %lld), which is no "
+						 "cut-in's end", i, j,
+						 (long long)shared.x,
+						 (long long)shared.y);
+		}
+	}
+	/* a point passed more than twice has more than four segments
+	 * ending at it; one passed twice must be a cut-in's end */
+	for (size_t i = 0; i < n && ok; i++) {
+		size_t seen = 0;
+		for (size_t j = 0; j < n; j++)
+			seen += gr_same(r->points[i], r->points[j]);
+		if (seen > 2 || (seen == 2 && !gr_cut_end(cuts, cut_count,
+							   r->points[i])))
+			ok = gr_complain(why, size,
+					 "%zu segments end at (%lld, %lld)",
+					 2 * seen, (long long)r->points[i].x,
+					 (long long)r->points[i].y);
+	}
+	free(cuts);
+	return ok;
 }

@@ -15,7 +15,8 @@
  *            data without one is deprecated, 8.3), at most 4+6 digits
  *   4.9      %LPD*% only (the writer never uses clear polarity)
  *   4.10     G36/G37 regions: contours start with D02, are closed exactly,
- *            have no zero-length segment and no D03 / Dnn inside
+ *            have no zero-length segment and no D03 / Dnn inside, and
+ *            are valid (4.10.3, gr_contour_check)
  *   4.13     M02 last
  *   5.6      %TF file attributes (kept as text)
  *   8        deprecated: G54/G55, G70/G71, G90/G91, G74, M00/M01, %IN, %IP,
@@ -64,6 +65,13 @@ struct gr_file {
  * the first violation; file must be finished either way. */
 bool gr_read(const char *text, size_t size, struct gr_file *file);
 void gr_file_finish(struct gr_file *file);
+/* Spec 4.10.3 on one contour (points without the closing repeat): no
+ * zero-length segment; segments meet only as consecutive segments at
+ * their joint, as the two fully coincident segments of a cut-in, or at a
+ * cut-in's end; cut-ins horizontal or vertical, all the same way; no
+ * point passed more than twice, and one passed twice is a cut-in's end.
+ * False with the first violation in why.  Quadratic: for tests. */
+bool gr_contour_check(const struct gp_ring *contour, char *why, size_t size);
 /* The value of file attribute name (".Part"): the text after "TF.Part,"
  * ("" for a bare attribute), or NULL when absent. */
 const char *gr_attribute(const struct gr_file *file, const char *name);

@@ -517,6 +517,25 @@ static void test_missing_font(void **state)
 	gp_diag_finish(&diag);
 }
 
+/* Pattern forms with no family (fontconfig's FcNameParse syntax,
+ * "families-sizes:name=value:..."): fontconfig would match any font, so
+ * each is refused with its place, never looked up. */
+static void test_pattern_without_family(void **state)
+{
+	static const char *forms[] = {
+		":", "::::", ":lang=zh", ":bold", ":style=Bold", "-12",
+		"-12:weight=200", ":family=", ",",
+	};
+	for (size_t i = 0; i < sizeof(forms) / sizeof(*forms); i++) {
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		assert_null(gp_font_open(forms[i], NULL, &where, &diag));
+		assert_int_equal(diag.errors, 1);
+		expect_message(&diag, "names no family");
+		gp_diag_finish(&diag);
+	}
+}
+
 static char *write_temp(const char *name, const char *content)
 {
 	char *path = malloc(256);
@@ -635,6 +654,7 @@ int main(void)
 		cmocka_unit_test(test_holes),
 		cmocka_unit_test(test_area_against_freetype_render),
 		cmocka_unit_test(test_missing_font),
+		cmocka_unit_test(test_pattern_without_family),
 		cmocka_unit_test(test_bitmap_font),
 		cmocka_unit_test(test_missing_glyph),
 		cmocka_unit_test(test_bad_sizes),

@@ -2,6 +2,7 @@
  * against elementary geometry, GEOS (areas, overlaps) and the independent
  * Gerber reader gerbv (holes read back). */
 #include "build.h"
+#include "digits.h"
 #include "geos.h"
 #include "icons.h"
 #include "patch.h"
@@ -910,6 +911,186 @@ static void test_duplicate_pairs(void **state)
 	finish(&b);
 }
 
+/* --- icons on the commons of digit rows --------------------------------- */
+
+/* Four 7-segment digits without points at 1/4 duty: 7 parts on 4 commons
+ * need ceil(7 / 4) = 2 segment lines a digit and leave 2 x 4 - 7 = 1
+ * spare (common, line) slot in each (from memory of the trade: designers
+ * fill them with annunciators). */
+static const char quarter_digits[] =
+	"digits:\n"
+	"  clock:\n"
+	"    origin: [5, 8]\n"
+	"    count: 4\n"
+	"    pitch: 8\n"
+	"    segments: 7\n"
+	"    height: 9\n"
+	"    width: 4.5\n"
+	"    stroke: 0.9\n"
+	"    gap: 0.2\n"
+	"    duty: 4\n";
+
+static const char static_digits[] =
+	"digits:\n"
+	"  clock:\n"
+	"    origin: [5, 8]\n"
+	"    count: 4\n"
+	"    pitch: 8\n"
+	"    segments: 7\n"
+	"    height: 9\n"
+	"    width: 4.5\n"
+	"    stroke: 0.9\n"
+	"    gap: 0.2\n"
+	"    duty: 1\n";
+
+static void test_digit_commons(void **state)
+{
+	struct built b;
+	make(&b, "0.05", static_digits,
+	     "  a:\n"
+	     "    shape: circle\n    diameter: 1\n    position: [6, 19]\n"
+	     "    common: COM1\n    segment: x\n"
+	     "  b:\n"
+	     "    shape: circle\n    diameter: 1\n    position: [10, 19]\n"
+	     "    common: { digits: clock, common: 1 }\n    segment: y\n"
+	     "  c:\n"
+	     "    shape: circle\n    diameter: 1\n    position: [14, 19]\n"
+	     "    slot: auto\n");
+	const struct gp_artwork *art = &b.build->art;
+	/* a static row has one common and no spare slot: every icon is on
+	 * COM1, the automatic one with a segment line of its own */
+	for (size_t i = 0; i < 3; i++)
+		assert_string_equal(art->nets[icon_pixel(art, i)->common].name,
+				    "COM1");
+	/* 4 digits x 7 segments = SEG1..SEG28, then the icons' */
+	assert_string_equal(art->nets[icon_pixel(art, 0)->segment].name,
+			    "SEG29");
+	assert_string_equal(art->nets[icon_pixel(art, 2)->segment].name,
+			    "SEG31");
+	/* and the icons add no common: the glass stays static */
+	assert_int_equal(b.build->art.common_count, 1);
+	finish(&b);
+}
+
+/* Does a part of the unit use (common, line)? */
+static bool part_uses(const struct gp_digit_unit *u, int common, int line)
+{
+	for (int p = 0; p < u->part_count; p++)
+		if (u->parts[p].common == common && u->parts[p].line == line)
+			return true;
+	return false;
+}
+
+static void test_spare_slots(void **state)
+{
+	struct built b;
+	make(&b, "0.05", quarter_digits,
+	     "  up:\n"
+	     "    shape: triangle\n    size: [1, 0.8]\n"
+	     "    position: [23, 19]\n    slot: auto\n"
+	     "  down:\n"
+	     "    shape: triangle\n    size: [1, 0.8]\n    rotate: 180\n"
+	     "    position: [23, 6.5]\n    slot: auto\n"
+	     "  set:\n"
+	     "    shape: rectangle\n    size: [1.2, 0.6]\n"
+	     "    position: [7, 19]\n"
+	     "    common: { digits: clock, common: 4 }\n"
+	     "    segment: { digits: clock, digit: 1, line: 2 }\n");
+	const struct gp_artwork *art = &b.build->art;
+	const struct gp_digit_row *row = &b.build->digit_rows[0];
+	assert_int_equal(row->unit_count, 4);
+	/* 'set' takes digit 1's spare slot by hand; the automatic icons
+	 * take those of the digits nearest them (digit 3 spans x 21..25.5) */
+	int seen[4] = { 0 };
+	for (size_t i = 0; i < 2; i++) {
+		const struct gp_pixel *px = icon_pixel(art, i);
+		int common = px->common - row->first_common + 1;
+		bool found = false;
+		for (size_t u = 0; u < row->unit_count; u++) {
+			const struct gp_digit_unit *unit = &row->units[u];
+			int line = px->segment - unit->first_line_net + 1;
+			if (line < 1 || line > unit->line_count)
+				continue;
+			assert_int_equal(unit->line_count, 2);
+			assert_false(part_uses(unit, common, line));
+			seen[u]++;
+			found = true;
+		}
+		assert_true(found);
+	}
+	/* both are near digit 3; it has one spare slot, so the second
+	 * takes a neighbour's */
+	assert_int_equal(seen[2], 1);
+	assert_int_equal(seen[1] + seen[3], 1);
+	assert_non_null(strstr(gp_build_summary(b.build),
+			       "spare slot of digit 3 of row 'clock'"));
+	finish(&b);
+	/* an explicit pair that a segment already uses is refused, with a
+	 * spare slot named */
+	struct built c;
+	assert_false(try_build(&c, "0.05", quarter_digits,
+			       "  bad:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    common: { digits: clock, common: 1 }\n"
+			       "    segment: { digits: clock, digit: 1, "
+			       "line: 1 }\n"));
+	expect_message(&c.diag, "icon 'bad' uses COM1 x SEG1, which already "
+				"lights digits clock digit 1");
+	expect_message(&c.diag, "a spare slot is COM");
+	finish(&c);
+}
+
+static void test_net_references(void **state)
+{
+	struct built b;
+	assert_false(try_build(&b, "0.05", static_digits,
+			       "  a:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    common: COM2\n    segment: x\n"));
+	expect_message(&b.diag, "icon 'a': common 'COM2' is not a net of the "
+				"glass (the blocks and digit rows make COM1 "
+				"to COM1)");
+	finish(&b);
+	assert_false(try_build(&b, "0.05", static_digits,
+			       "  a:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    common: { digits: clok, common: 1 }\n"
+			       "    segment: x\n"));
+	expect_message(&b.diag, "names digit row 'clok', which is not "
+				"described in 'digits'; did you mean 'clock'?");
+	finish(&b);
+	assert_false(try_build(&b, "0.05", static_digits,
+			       "  a:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    common: { digits: clock, common: 2 }\n"
+			       "    segment: x\n"));
+	expect_message(&b.diag, "digit row 'clock' has 1 common(s) (duty "
+				"1/1); common 2 is outside");
+	finish(&b);
+	assert_false(try_build(&b, "0.05", static_digits,
+			       "  a:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    slot: auto\n    common: COM1\n"));
+	expect_message(&b.diag, "give either 'slot: auto' or 'common' and "
+				"'segment'");
+	finish(&b);
+	assert_false(try_build(&b, "0.05", static_digits,
+			       "  a:\n"
+			       "    shape: circle\n    diameter: 1\n"
+			       "    position: [7, 19]\n"
+			       "    common: COM1\n"
+			       "    segment: { digits: clock, digit: 2, "
+			       "line: 8 }\n"));
+	expect_message(&b.diag, "digit 2 of row 'clock' has 7 segment line(s); "
+				"line 8 is outside");
+	finish(&b);
+}
+
 /* --- width and space -------------------------------------------------- */
 
 static void add_rect(struct gp_polyset *set, double x0, double y0, double x1,
@@ -1098,6 +1279,9 @@ int main(void)
 		cmocka_unit_test(test_registration_loss_detected),
 		cmocka_unit_test(test_nets),
 		cmocka_unit_test(test_duplicate_pairs),
+		cmocka_unit_test(test_digit_commons),
+		cmocka_unit_test(test_spare_slots),
+		cmocka_unit_test(test_net_references),
 		cmocka_unit_test(test_thin_parts),
 		cmocka_unit_test(test_width_and_space_errors),
 		cmocka_unit_test(test_font_table),

@@ -13,6 +13,8 @@
 #include "proof-internal.h"
 #include "route.h"
 
+#include <cairo-pdf.h>
+#include <cairo.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -275,6 +277,9 @@ static void test_routed_sample(void **state)
 	write_proof(&f, &out);
 	struct gp_proof_plan plan;
 	gp_proof_plan(f.build, &plan);
+	/* 96 pins x 16 commons on A4 landscape at 2.5 mm lettering: two
+	 * bands of 8 commons, each on the same number of sheets */
+	assert_int_equal(plan.pin_sheets % 2, 0);
 	char *text = run("pdftotext -layout -f %d -l %d '%s' -",
 			 plan.sheet_pins, plan.sheet_pins + plan.pin_sheets - 1,
 			 f.path);
@@ -286,17 +291,21 @@ static void test_routed_sample(void **state)
 	for (size_t r = 0; r < m.rows; r++) {
 		char words[2048];
 		const struct gp_pin *pin = m.pins[r];
-		size_t used = (size_t)snprintf(
-			words, sizeof(words), "%d %s", pin->number,
-			pin->net >= 0 ? f.build->art.nets[pin->net].name : "NC");
-		for (size_t k = 0; k < m.commons && used < sizeof(words); k++)
-			if (*gp_pin_matrix_cell(&m, r, k))
-				used += (size_t)snprintf(
-					words + used, sizeof(words) - used,
-					" %s", gp_pin_matrix_cell(&m, r, k));
-		if (!words_in_text(text, words))
-			fail_msg("pin matrix row not on the sheets: %.60s",
-				 words);
+		for (size_t band = 0; band < 16; band += 8) {
+			size_t used = (size_t)snprintf(
+				words, sizeof(words), "%d %s", pin->number,
+				pin->net >= 0 ? f.build->art.nets[pin->net].name
+					      : "NC");
+			for (size_t k = band; k < band + 8; k++)
+				if (*gp_pin_matrix_cell(&m, r, k))
+					used += (size_t)snprintf(
+						words + used,
+						sizeof(words) - used, " %s",
+						gp_pin_matrix_cell(&m, r, k));
+			if (!words_in_text(text, words))
+				fail_msg("pin matrix row not on the sheets: "
+					 "%.60s", words);
+		}
 	}
 	gp_pin_matrix_finish(&m);
 	free(text);
@@ -326,7 +335,7 @@ static void test_details(void **state)
 	gp_proof_plan(f.build, &plan);
 	char *text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
 			 plan.sheet_details + plan.detail_sheets - 1, f.path);
-	assert_non_null(strstr(text, "One icon"));
+	assert_non_null(strstr(text, "Icon '"));
 	assert_non_null(strstr(text, "One dot-matrix cell"));
 	assert_non_null(strstr(text, "scale 10:1"));
 	assert_non_null(strstr(text, "no digits in this design"));
@@ -341,7 +350,7 @@ static void test_details(void **state)
 	gp_proof_plan(f.build, &plan);
 	text = run("pdftotext -f %d -l %d '%s' -", plan.sheet_details,
 		   plan.sheet_details + plan.detail_sheets - 1, f.path);
-	assert_non_null(strstr(text, "One digit"));
+	assert_non_null(strstr(text, "Digit of row 'clock'"));
 	assert_non_null(strstr(text, "no icons in this design"));
 	free(text);
 	text = run("pdftotext -layout -f 1 -l 1 '%s' -", f.path);
@@ -738,6 +747,68 @@ static void test_legend_colours(void **state)
 	assert_true(colour_distance(&purple1, &purple2, protanopia) < 20);
 }
 
+/* --- the overprint checker can fail ------------------------------------------ */
+
+static void checker_sheet(const char *path, int defect)
+{
+	cairo_surface_t *surface = cairo_pdf_surface_create(path, 595, 842);
+	cairo_t *cr = cairo_create(surface);
+	cairo_font_face_t *face = cairo_toy_font_face_create(
+		"Liberation Sans", CAIRO_FONT_SLANT_NORMAL,
+		CAIRO_FONT_WEIGHT_NORMAL);
+	cairo_set_font_face(cr, face);
+	cairo_set_font_size(cr, 12);   /* cap height 0.688 x 12 pt = 2.9 mm */
+	cairo_move_to(cr, 100, 100);
+	cairo_show_text(cr, "first");
+	cairo_move_to(cr, defect == 0 ? 110 : 300, defect == 0 ? 104 : 300);
+	cairo_show_text(cr, "second");
+	if (defect == 1) {
+		cairo_move_to(cr, 90, 96);
+		cairo_line_to(cr, 160, 96);
+		cairo_stroke(cr);
+	}
+	if (defect == 2) {
+		cairo_set_font_size(cr, 6);
+		cairo_move_to(cr, 100, 400);
+		cairo_show_text(cr, "small");
+	}
+	cairo_destroy(cr);
+	cairo_surface_finish(surface);
+	cairo_surface_destroy(surface);
+	cairo_font_face_destroy(face);
+}
+
+/* check-proof-text.py finds words set over each other, a line through a
+ * word and lettering under 2.5 mm, and passes a clean sheet. */
+static void test_overprint_checker(void **state)
+{
+	static const char *const expected[] = { "overlaps", "crosses",
+						"lettering" };
+	char path[512];
+	for (int defect = -1; defect < 3; defect++) {
+		snprintf(path, sizeof(path), "%s/checker-%d.pdf", tmp_dir(),
+			 defect + 1);
+		checker_sheet(path, defect);
+		char command[1024];
+		snprintf(command, sizeof(command),
+			 "python3 check-proof-text.py '%s'", path);
+		FILE *pipe = popen(command, "r");
+		assert_non_null(pipe);
+		char out[4096] = "";
+		size_t n = fread(out, 1, sizeof(out) - 1, pipe);
+		out[n] = '\0';
+		int status = pclose(pipe);
+		if (defect < 0) {
+			assert_int_equal(status, 0);
+		} else {
+			assert_int_not_equal(status, 0);
+			if (!strstr(out, expected[defect]))
+				fail_msg("defect %d not found: %s", defect,
+					 out);
+		}
+	}
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -751,6 +822,7 @@ int main(void)
 		cmocka_unit_test(test_paper),
 		cmocka_unit_test(test_reduced_scale_stated),
 		cmocka_unit_test(test_legend_colours),
+		cmocka_unit_test(test_overprint_checker),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -2,27 +2,6 @@
 
 #include <string.h>
 
-static const char usage[] =
-	"usage: glassplot build DESCRIPTION -o OUTDIR [options]\n"
-	"\n"
-	"Lays out the glass described in DESCRIPTION and writes its artwork\n"
-	"into OUTDIR.  Nothing is written unless every output is complete.\n"
-	"Dates come from SOURCE_DATE_EPOCH when it is set; otherwise no\n"
-	"output carries a date.\n"
-	"\n"
-	"  -o, --output DIR     folder for the outputs (created if missing)\n"
-	"      --set KEY=VALUE  change one value of the description, e.g.\n"
-	"                       --set blocks.main.cell_pitch=3.6 (repeatable)\n"
-	"      --only KINDS     write only these outputs: a comma-separated\n"
-	"                       list of gerber, proof, pins, firmware, report\n"
-	"      --json           print the summary as JSON\n"
-	"      --depfile FILE   write a make/ninja dependency file\n"
-	"  -q, --quiet          print errors only\n"
-	"  -v, --verbose        print notes too\n"
-	"  -h, --help           this text\n"
-	"\n"
-	"Exit status: 0 ok, 1 findings that block manufacture, 2 bad input.\n";
-
 /* Make syntax: spaces and '#' escaped with a backslash, '$' doubled. */
 static void put_make_name(FILE *file, const char *name)
 {
@@ -67,13 +46,19 @@ static bool write_depfile(const struct tool_options *options,
 	return fclose(file) == 0;
 }
 
-static int run(const struct tool_options *options, struct gp_diag *diag)
+int cmd_build(const struct tool_options *options)
 {
 	long long epoch = 0;
 	int has_epoch = tool_source_date_epoch(&epoch);
 	if (has_epoch < 0)
 		return EXIT_BAD_INPUT;
-	struct gp_design *design = tool_load(options, diag);
+	struct gp_diag *diag = gp_diag_create();
+	if (!diag)
+		return tool_usage_error("out of memory");
+	tool_progress("loading", (void *)options);
+	struct gp_design *design =
+		tool_load(options, NULL, options->overrides,
+			  options->override_count, diag);
 	struct gp_build *build =
 		design ? gp_build_create_with_progress(
 				 design, tool_progress, (void *)options, diag)
@@ -93,6 +78,7 @@ static int run(const struct tool_options *options, struct gp_diag *diag)
 			status = tool_usage_error("%s: cannot write the "
 						  "dependency file",
 						  options->depfile);
+		tool_progress(NULL, (void *)options);
 		if (options->json)
 			fputs(gp_build_summary_json(build), stdout);
 		else if (options->verbosity >= 0)
@@ -102,10 +88,6 @@ static int run(const struct tool_options *options, struct gp_diag *diag)
 		tool_print_diag(diag, options->verbosity);
 	gp_build_destroy(build);
 	gp_design_destroy(design);
+	gp_diag_destroy(diag);
 	return status;
-}
-
-int cmd_build(int argc, char **argv)
-{
-	return tool_main(argc, argv, usage, true, run);
 }

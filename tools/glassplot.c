@@ -3,30 +3,19 @@
 
 #include <string.h>
 
-struct command {
-	const char *name;
-	int (*run)(int argc, char **argv);
-	const char *summary;
-};
-
-static const struct command commands[] = {
-	{ "build", cmd_build, "write the artwork set for a description" },
-	{ "check", cmd_check, "run the design-rule and electrical checks" },
-	{ "diff", cmd_diff, "compare two revisions of a glass" },
-	{ "drive", cmd_drive, "print the drive voltages and ordering spec" },
-};
-
-static void print_help(void)
+/* "glassplot help [COMMAND]" */
+static int help(int argc, char **argv)
 {
-	printf("usage: glassplot COMMAND [options] DESCRIPTION\n"
-	       "       glassplot --version | --help\n\n"
-	       "Electrode artwork for custom passive LCD glass.\n\n"
-	       "commands:\n");
-	for (size_t i = 0; i < sizeof(commands) / sizeof(commands[0]); i++)
-		printf("  %-8s %s\n", commands[i].name, commands[i].summary);
-	printf("\n'glassplot COMMAND --help' describes each command.\n"
-	       "Exit status: 0 ok, 1 findings that block manufacture, "
-	       "2 bad input or usage.\n");
+	if (argc > 3)
+		return tool_usage_error("help: expected at most one COMMAND; "
+					"see 'glassplot --help'");
+	const struct tool_command *command =
+		argc == 3 ? tool_find_command(argv[2]) : NULL;
+	if (argc == 3 && !command)
+		return tool_usage_error("help: unknown command '%s'; see "
+					"'glassplot --help'", argv[2]);
+	tool_print_help(command, stdout);
+	return EXIT_OK;
 }
 
 int main(int argc, char **argv)
@@ -34,18 +23,27 @@ int main(int argc, char **argv)
 	if (argc < 2)
 		return tool_usage_error("expected a command; see 'glassplot "
 					"--help'");
-	if (strcmp(argv[1], "--help") == 0 || strcmp(argv[1], "-h") == 0 ||
-	    strcmp(argv[1], "help") == 0) {
-		print_help();
+	const char *first = argv[1];
+	if (strcmp(first, "help") == 0)
+		return help(argc, argv);
+	if (strcmp(first, "--help") == 0 || strcmp(first, "-h") == 0 ||
+	    strcmp(first, "--version") == 0) {
+		if (argc > 2)
+			return tool_usage_error("unexpected argument '%s' after "
+						"'%s'", argv[2], first);
+		if (first[2] == 'v')
+			printf("glassplot %s\n", gp_version());
+		else
+			tool_print_help(NULL, stdout);
 		return EXIT_OK;
 	}
-	if (strcmp(argv[1], "--version") == 0) {
-		printf("glassplot %s\n", gp_version());
-		return EXIT_OK;
-	}
-	for (size_t i = 0; i < sizeof(commands) / sizeof(commands[0]); i++)
-		if (strcmp(argv[1], commands[i].name) == 0)
-			return commands[i].run(argc - 1, argv + 1);
-	return tool_usage_error("unknown command '%s'; see 'glassplot --help'",
-				argv[1]);
+	const struct tool_command *command = tool_find_command(first);
+	if (!command)
+		return tool_usage_error(first[0] == '-'
+						? "unknown option '%s'; see "
+						  "'glassplot --help'"
+						: "unknown command '%s'; see "
+						  "'glassplot --help'",
+					first);
+	return tool_run(command, argc - 1, argv + 1);
 }

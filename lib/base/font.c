@@ -88,12 +88,18 @@ static bool resolve_pattern(struct gp_font *font, const char *name,
 		goto out;
 	}
 	FcChar8 *family = NULL;
-	if (FcPatternGetString(pattern, FC_FAMILY, 0, &family) ==
-	    FcResultMatch) {
-		wanted = strdup((const char *)family);
-		if (!wanted)
-			goto nomem;
+	if (FcPatternGetString(pattern, FC_FAMILY, 0, &family) !=
+		    FcResultMatch || !family[0]) {
+		/* without a family fontconfig picks any font */
+		gp_diag_error(diag, where,
+			      "font '%s' names no family; expected a family "
+			      "and style such as \"Liberation Sans:bold\" or "
+			      "a file path containing '/'", name);
+		goto out;
 	}
+	wanted = strdup((const char *)family);
+	if (!wanted)
+		goto nomem;
 	if (!FcConfigSubstitute(config, pattern, FcMatchPattern))
 		goto nomem;
 	FcDefaultSubstitute(pattern);
@@ -106,7 +112,7 @@ static bool resolve_pattern(struct gp_font *font, const char *name,
 			      "Debian package fonts-liberation2", name);
 		goto out;
 	}
-	bool found = !wanted;
+	bool found = false;
 	FcChar8 *got = NULL;
 	FcChar8 *first = NULL;
 	for (int i = 0; FcPatternGetString(match, FC_FAMILY, i, &got) ==
@@ -613,6 +619,20 @@ static bool missing_glyph(const struct gp_font *font, const char *utf8,
 			     (unsigned)c);
 }
 
+static bool no_advance(const struct gp_font *font, const char *utf8,
+		       unsigned cluster, const struct gp_where *where,
+		       struct gp_diag *diag)
+{
+	uint32_t c = 0;
+	size_t n = gp_utf8_decode(utf8 + cluster, &c);
+	return gp_diag_error(diag, where,
+			     "font '%s %s' gives '%.*s' (U+%04X) no advance "
+			     "width, so the next letter would overlap it (a "
+			     "broken hmtx table?); choose another font",
+			     font->family, font->style, (int)n, utf8 + cluster,
+			     (unsigned)c);
+}
+
 /* Shapes utf8 and builds each glyph's rings in the text frame. */
 static bool shape_text(struct gp_font *font, const char *utf8,
 		       const struct gp_text_style *style, double scale,
@@ -659,6 +679,15 @@ static bool shape_text(struct gp_font *font, const char *utf8,
 		glyph->advance = llround((double)pos[i].x_advance * scale);
 		if (!outline_glyph(font, glyph, &b, where, diag))
 			goto out;
+		/* a letter (not a mark joined to one) with ink but no width
+		 * would overlap the next: a broken hmtx table */
+		bool starts_cluster = i == 0 ||
+				      info[i].cluster != info[i - 1].cluster;
+		if (starts_cluster && glyph->ring_count &&
+		    pos[i].x_advance <= 0 && i + 1 < count) {
+			no_advance(font, utf8, info[i].cluster, where, diag);
+			goto out;
+		}
 		pen += pos[i].x_advance;
 	}
 	out->advance = llround((double)pen * scale +

@@ -124,7 +124,9 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 	u->number = (int)i + 1;
 	u->origin = (struct gp_point){ row->origin.x + i * row->pitch,
 				       row->origin.y };
-	if (!gp_figure_build(fs, u->origin, seg, diag))
+	char what[96];
+	snprintf(what, sizeof(what), "digits '%s'", row->name);
+	if (!gp_figure_build(fs, u->origin, what, &row->where, seg, diag))
 		goto fail;
 	size_t n = gp_figure_segment_count(fs->figure);
 	for (size_t s = 0; s < n; s++) {
@@ -186,7 +188,9 @@ static bool sign_unit(const struct gp_digits *row, struct gp_digit_unit *u,
 	u->number = 0;
 	u->origin = (struct gp_point){ row->origin.x - row->pitch,
 				       row->origin.y };
-	if (!gp_figure_build(&fs, u->origin, seg, diag))
+	char what[96];
+	snprintf(what, sizeof(what), "digits '%s'", row->name);
+	if (!gp_figure_build(&fs, u->origin, what, &row->where, seg, diag))
 		return false;
 	if (row->minus) {
 		struct gp_digit_part *part = add_part(u, "minus");

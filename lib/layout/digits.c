@@ -515,7 +515,14 @@ bool gp_figure_check(const struct gp_figure_spec *s, const char *what,
 	return true;
 }
 
+static void finish_segments(struct gp_polygon *out, size_t count)
+{
+	for (size_t s = 0; s < count; s++)
+		gp_polygon_finish(&out[s]);
+}
+
 bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
+		     const char *what, const struct gp_where *where,
 		     struct gp_polygon *out, struct gp_diag *diag)
 {
 	struct fig f;
@@ -527,20 +534,24 @@ bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
 	for (size_t s = 0; s < count; s++)
 		gp_polygon_init(&out[s]);
 	if (f.overflow)
-		return gp_diag_error(diag, NULL, "digits: internal limit of "
-				     "cut lines per segment exceeded");
+		return gp_diag_error(diag, where, "%s: internal limit of "
+				     "cut lines per segment exceeded", what);
 	double least = f.S * f.S / 2 / 1e12; /* mm^2 */
 	for (size_t s = 0; s < count; s++) {
-		if (!polygon_of(&f, (int)s, origin, &out[s]))
-			return gp_diag_error(diag, NULL, "out of memory");
+		if (!polygon_of(&f, (int)s, origin, &out[s])) {
+			finish_segments(out, count);
+			return gp_diag_error(diag, where, "out of memory");
+		}
 		if (out[s].outer.count < 3 ||
-		    gp_polygon_area_mm2(&out[s]) < least)
-			return gp_diag_error(diag, NULL,
-					     "digits: segment '%s' has no room "
+		    gp_polygon_area_mm2(&out[s]) < least) {
+			finish_segments(out, count);
+			return gp_diag_error(diag, where,
+					     "%s: segment '%s' has no room "
 					     "at this stroke and gap; widen or "
-					     "heighten the digit",
+					     "heighten the digit", what,
 					     gp_figure_segment_name(
 						     spec->figure, s));
+		}
 	}
 	return true;
 }

@@ -80,8 +80,10 @@ bool gp_figure_check(const struct gp_figure_spec *spec, const char *what,
 /* Builds the segments of one figure: out[i] (initialised here) receives
  * segment i in the figure's order, a convex counter-clockwise polygon.
  * False on failure (out of memory, or parameters so tight that a segment
- * vanishes; diag says which). */
+ * vanishes; diag says which, naming `what` at `where`); out is then
+ * finished. */
 bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
+		     const char *what, const struct gp_where *where,
 		     struct gp_polygon *out, struct gp_diag *diag);
 
 /* The construction lines of a figure, in nm relative to its origin, in

@@ -5,6 +5,7 @@
  * that keep clear of the front; one intended pixel per icon; summary
  * lines. */
 #include "build.h"
+#include "digits.h"
 #include "font.h"
 #include "icons.h"
 #include "patch.h"
@@ -24,8 +25,12 @@ struct icon_work {
 	struct gp_polyset bridges;  /* front bridges */
 	struct gp_polyset back_bridges;
 	int common, segment;        /* net indices */
+	bool own_common, own_segment;  /* nets the icons made */
+	int slot_row, slot_digit;   /* spare slot taken (slot: auto), row -1 */
 	size_t group;               /* patch group (one per common) */
 };
+
+struct slot;
 
 struct font_entry {
 	const char *name;
@@ -46,6 +51,13 @@ struct layout {
 	size_t group_count;
 	struct gp_polyset *patches;
 	enum gp_plate front_plate, back_plate;
+	int first_icon_net;         /* nets before it are the blocks' and
+				     * digits' */
+	uint64_t *pairs;            /* (common, segment) of their pixels,
+				     * sorted */
+	size_t pair_count;
+	struct slot *slots;         /* spare slots of the digit rows */
+	size_t slot_count, slot_capacity;
 };
 
 static bool oom(struct layout *l)
@@ -264,39 +276,380 @@ static bool make_front(struct layout *l, const struct gp_icon *icon,
 
 /* --- nets ----------------------------------------------------------------- */
 
-/* Icon commons and segments are numbered in order of first use. */
+/* Icon commons and segments are numbered in order of first use.  A name
+ * COMn or SEGn that a block or digit row made is that net; a digit row's
+ * common or a digit's segment line is that row's net; an icon with
+ * 'slot: auto' takes a spare slot (assign_slots). */
+
+/* A net the blocks and digit rows made, by name, or -1. */
+static int earlier_net(const struct layout *l, const char *name,
+		       enum gp_net_kind kind)
+{
+	const struct gp_artwork *art = &l->build->art;
+	for (int i = 0; i < l->first_icon_net; i++)
+		if (art->nets[i].kind == kind &&
+		    strcmp(art->nets[i].name, name) == 0)
+			return i;
+	return -1;
+}
+
+/* Names of the form COMn / SEGn name the glass's own nets. */
+static bool net_like(const char *name, const char *prefix)
+{
+	size_t n = strlen(prefix);
+	if (strncmp(name, prefix, n) != 0 || name[n] < '1' || name[n] > '9')
+		return false;
+	for (const char *c = name + n; *c; c++)
+		if (*c < '0' || *c > '9')
+			return false;
+	return true;
+}
+
+static bool no_such_net(struct layout *l, const struct gp_icon *icon,
+			const struct gp_where *where, const char *name,
+			enum gp_net_kind kind)
+{
+	int count = 0;
+	for (int i = 0; i < l->first_icon_net; i++)
+		count += l->build->art.nets[i].kind == kind;
+	bool common = kind == GP_NET_COMMON;
+	char have[64];
+	if (count)
+		snprintf(have, sizeof(have), "the blocks and digit rows make "
+			 "%s1 to %s%d", common ? "COM" : "SEG",
+			 common ? "COM" : "SEG", count);
+	else
+		snprintf(have, sizeof(have), "the blocks and digit rows make "
+			 "no %s", common ? "commons" : "segments");
+	return gp_diag_error(l->diag, where,
+			     "icon '%s': %s '%s' is not a net of the glass "
+			     "(%s); give an icon %s another name%s",
+			     icon->name, common ? "common" : "segment", name,
+			     have, common ? "common" : "segment",
+			     common ? ", or use {block, line, row} or "
+				      "{digits, common}"
+				    : ", or use {digits, digit, line}");
+}
+
+static const struct gp_digit_unit *find_unit(const struct gp_digit_row *row,
+					     int number)
+{
+	for (size_t u = 0; u < row->unit_count; u++)
+		if (row->units[u].number == number)
+			return &row->units[u];
+	return NULL;
+}
+
+static int icon_common(struct layout *l, size_t i)
+{
+	const struct gp_design *d = l->design;
+	const struct gp_icon *icon = &d->icons[i];
+	if (icon->common_digits >= 0) {
+		if ((size_t)icon->common_digits >= l->build->digit_row_count)
+			return -1;
+		return l->build->digit_rows[icon->common_digits].first_common +
+		       icon->common_index - 1;
+	}
+	if (!icon->common)
+		return gp_block_common_net(l->build, (size_t)icon->common_block,
+					   icon->common_row);
+	if (net_like(icon->common, "COM")) {
+		int net = earlier_net(l, icon->common, GP_NET_COMMON);
+		if (net < 0)
+			no_such_net(l, icon, &icon->common_where, icon->common,
+				    GP_NET_COMMON);
+		return net;
+	}
+	for (size_t j = 0; j < i; j++)
+		if (d->icons[j].common &&
+		    strcmp(icon->common, d->icons[j].common) == 0)
+			return l->icons[j].common;
+	l->icons[i].own_common = true;
+	return gp_artwork_add_net(&l->build->art, GP_NET_COMMON, l->back_plate);
+}
+
+static int icon_segment(struct layout *l, size_t i)
+{
+	const struct gp_design *d = l->design;
+	const struct gp_icon *icon = &d->icons[i];
+	if (icon->segment_digits >= 0) {
+		const struct gp_digit_row *row =
+			(size_t)icon->segment_digits < l->build->digit_row_count
+				? &l->build->digit_rows[icon->segment_digits]
+				: NULL;
+		const struct gp_digit_unit *u =
+			row ? find_unit(row, icon->segment_digit) : NULL;
+		if (!u)
+			return -1;
+		if (icon->segment_line > u->line_count) {
+			gp_diag_error(l->diag, &icon->segment_where,
+				      "icon '%s': digit %d of row '%s' has %d "
+				      "segment line(s); line %d is outside",
+				      icon->name, icon->segment_digit,
+				      d->digits[icon->segment_digits].name,
+				      u->line_count, icon->segment_line);
+			return -1;
+		}
+		return u->first_line_net + icon->segment_line - 1;
+	}
+	if (net_like(icon->segment, "SEG")) {
+		int net = earlier_net(l, icon->segment, GP_NET_SEGMENT);
+		if (net < 0)
+			no_such_net(l, icon, &icon->segment_where,
+				    icon->segment, GP_NET_SEGMENT);
+		return net;
+	}
+	for (size_t j = 0; j < i; j++)
+		if (d->icons[j].segment &&
+		    strcmp(icon->segment, d->icons[j].segment) == 0)
+			return l->icons[j].segment;
+	l->icons[i].own_segment = true;
+	return gp_artwork_add_net(&l->build->art, GP_NET_SEGMENT,
+				  l->front_plate);
+}
+
+/* --- slots --------------------------------------------------------------- */
+
+/* What already lights at (common, segment): a digit part, a dot or an
+ * icon placed before icon `upto`; its name into what.  Pixels of the
+ * blocks and digits are searched in a sorted table of their pairs. */
+static uint64_t pair_key(int common, int segment)
+{
+	return (uint64_t)(uint32_t)common << 32 | (uint32_t)segment;
+}
+
+static int compare_keys(const void *a, const void *b)
+{
+	uint64_t x = *(const uint64_t *)a, y = *(const uint64_t *)b;
+	return (x > y) - (x < y);
+}
+
+static bool make_pair_table(struct layout *l)
+{
+	const struct gp_artwork *art = &l->build->art;
+	l->pairs = malloc((art->pixel_count ? art->pixel_count : 1) *
+			  sizeof(*l->pairs));
+	if (!l->pairs)
+		return oom(l);
+	for (size_t k = 0; k < art->pixel_count; k++)
+		l->pairs[k] = pair_key(art->pixels[k].common,
+				       art->pixels[k].segment);
+	l->pair_count = art->pixel_count;
+	qsort(l->pairs, l->pair_count, sizeof(*l->pairs), compare_keys);
+	return true;
+}
+
+static bool taken(const struct layout *l, size_t upto, int common, int segment,
+		  char *what, size_t size)
+{
+	uint64_t key = pair_key(common, segment);
+	if (bsearch(&key, l->pairs, l->pair_count, sizeof(*l->pairs),
+		    compare_keys)) {
+		const struct gp_artwork *art = &l->build->art;
+		for (size_t k = 0; k < art->pixel_count; k++) {
+			const struct gp_pixel *px = &art->pixels[k];
+			if (px->common != common || px->segment != segment)
+				continue;
+			if (px->owner_kind == GP_OWNER_DIGITS)
+				gp_digits_pixel_label(l->build, px, what, size);
+			else
+				snprintf(what, size, "a dot of a block");
+			return true;
+		}
+	}
+	for (size_t j = 0; j < upto; j++)
+		if (l->icons[j].common == common &&
+		    l->icons[j].segment == segment) {
+			snprintf(what, size, "icon '%s'",
+				 l->design->icons[j].name);
+			return true;
+		}
+	return false;
+}
+
+/* A spare (common, segment line) slot of a digit unit. */
+struct slot {
+	int common, segment;
+	int row, digit;           /* row index, unit number */
+	struct gp_point centre;   /* of the unit */
+	bool used;
+};
+
+static bool add_slot(struct layout *l, struct slot s)
+{
+	if (l->slot_count == l->slot_capacity) {
+		size_t n = l->slot_capacity ? 2 * l->slot_capacity : 32;
+		struct slot *grown = realloc(l->slots, n * sizeof(*grown));
+		if (!grown)
+			return oom(l);
+		l->slots = grown;
+		l->slot_capacity = n;
+	}
+	l->slots[l->slot_count++] = s;
+	return true;
+}
+
+/* Every spare slot of every digit row, row by row, digit by digit, common
+ * by common: slots no part of the unit uses (duty x lines > parts). */
+static bool find_slots(struct layout *l)
+{
+	const struct gp_design *d = l->design;
+	for (size_t r = 0; r < l->build->digit_row_count; r++) {
+		const struct gp_digit_row *row = &l->build->digit_rows[r];
+		const struct gp_figure_spec *f = &d->digits[r].figure;
+		for (size_t u = 0; u < row->unit_count; u++) {
+			const struct gp_digit_unit *unit = &row->units[u];
+			struct gp_point c = { unit->origin.x + f->width / 2,
+					      unit->origin.y + f->height / 2 };
+			for (int com = 1; com <= row->common_count; com++)
+				for (int line = 1; line <= unit->line_count;
+				     line++) {
+					bool used = false;
+					for (int p = 0; p < unit->part_count; p++)
+						used |= unit->parts[p].common == com &&
+							unit->parts[p].line == line;
+					if (!used && !add_slot(l, (struct slot){
+						    row->first_common + com - 1,
+						    unit->first_line_net + line - 1,
+						    (int)r, unit->number, c, false }))
+						return false;
+				}
+		}
+	}
+	return true;
+}
+
+static double distance2(struct gp_point a, struct gp_point b)
+{
+	double dx = (double)(a.x - b.x), dy = (double)(a.y - b.y);
+	return dx * dx + dy * dy;
+}
+
+/* An icon with 'slot: auto' takes the free spare slot of the digit unit
+ * nearest to it; when every spare slot is taken, the common of the
+ * nearest digit row's band nearest to it (or the first named icon
+ * common) with a segment line of its own. */
+static bool assign_slot(struct layout *l, size_t i)
+{
+	const struct gp_icon *icon = &l->design->icons[i];
+	struct icon_work *w = &l->icons[i];
+	char what[160];
+	int best = -1;
+	double best_d = 0;
+	for (size_t k = 0; k < l->slot_count; k++) {
+		struct slot *s = &l->slots[k];
+		if (s->used || taken(l, l->design->icon_count, s->common,
+				     s->segment, what, sizeof(what)))
+			continue;
+		double dd = distance2(icon->position, s->centre);
+		if (best < 0 || dd < best_d)
+			best = (int)k, best_d = dd;
+	}
+	if (best >= 0) {
+		struct slot *s = &l->slots[best];
+		s->used = true;
+		w->common = s->common;
+		w->segment = s->segment;
+		w->slot_row = s->row;
+		w->slot_digit = s->digit;
+		return true;
+	}
+	w->common = -1;
+	const struct gp_design *d = l->design;
+	double near = 0;
+	for (size_t r = 0; r < l->build->digit_row_count; r++) {
+		const struct gp_digit_row *row = &l->build->digit_rows[r];
+		const struct gp_digits *dr = &d->digits[r];
+		for (int com = 0; com < row->common_count; com++) {
+			/* bands top down: common 1 at the top */
+			struct gp_point c = {
+				dr->origin.x + (dr->count * dr->pitch) / 2,
+				dr->origin.y + dr->figure.height -
+					(2 * com + 1) * dr->figure.height /
+						(2 * row->common_count) };
+			double dd = distance2(icon->position, c);
+			if (w->common < 0 || dd < near)
+				w->common = row->first_common + com,
+				near = dd;
+		}
+	}
+	for (size_t j = 0; w->common < 0 && j < d->icon_count; j++)
+		if (!d->icons[j].auto_slot && l->icons[j].own_common)
+			w->common = l->icons[j].common;
+	if (w->common < 0)
+		return gp_diag_error(l->diag, &icon->slot_where,
+				     "icon '%s' has 'slot: auto' but the glass "
+				     "has no digit row with a spare slot and "
+				     "no icon common to share; give it "
+				     "'common' and 'segment'", icon->name);
+	w->segment = gp_artwork_add_net(&l->build->art, GP_NET_SEGMENT,
+					l->front_plate);
+	w->own_segment = true;
+	return w->segment >= 0 || oom(l);
+}
+
+/* Every icon's (common, segment) pair must light nothing else. */
+static bool check_pair(struct layout *l, size_t i)
+{
+	const struct gp_icon *icon = &l->design->icons[i];
+	struct icon_work *w = &l->icons[i];
+	if (w->common >= l->first_icon_net || w->segment >= l->first_icon_net)
+		return true;
+	char what[160];
+	if (!taken(l, i, w->common, w->segment, what, sizeof(what)))
+		return true;
+	const struct gp_net *nets = l->build->art.nets;
+	char spare[200] = "";
+	for (size_t k = 0; k < l->slot_count; k++) {
+		const struct slot *s = &l->slots[k];
+		char other[160];
+		if (s->used || taken(l, l->design->icon_count, s->common,
+				     s->segment, other, sizeof(other)))
+			continue;
+		snprintf(spare, sizeof(spare), "; a spare slot is %s x %s "
+			 "(digit %d of row '%s'), or use 'slot: auto'",
+			 nets[s->common].name, nets[s->segment].name, s->digit,
+			 l->design->digits[s->row].name);
+		break;
+	}
+	return gp_diag_error(l->diag, &icon->common_where,
+			     "icon '%s' uses %s x %s, which already lights %s; "
+			     "each icon needs a (common, segment) pair of its "
+			     "own%s", icon->name, nets[w->common].name,
+			     nets[w->segment].name, what, spare);
+}
+
 static bool assign_nets(struct layout *l)
 {
 	const struct gp_design *d = l->design;
-	for (size_t i = 0; i < d->icon_count; i++) {
+	l->first_icon_net = (int)l->build->art.net_count;
+	bool ok = make_pair_table(l) && find_slots(l);
+	for (size_t i = 0; ok && i < d->icon_count; i++) {
 		const struct gp_icon *icon = &d->icons[i];
 		struct icon_work *w = &l->icons[i];
 		w->common = w->segment = -1;
-		for (size_t j = 0; j < i; j++) {
-			if (icon->common && d->icons[j].common &&
-			    strcmp(icon->common, d->icons[j].common) == 0)
-				w->common = l->icons[j].common;
-			if (strcmp(icon->segment, d->icons[j].segment) == 0)
-				w->segment = l->icons[j].segment;
+		w->slot_row = -1;
+		if (icon->auto_slot)
+			continue;
+		size_t errors = l->diag->errors;
+		w->common = icon_common(l, i);
+		w->segment = icon_segment(l, i);
+		if (l->diag->errors != errors) {
+			ok = false;
+			continue;
 		}
-		if (!icon->common)
-			w->common = gp_block_common_net(l->build,
-							(size_t)icon->common_block,
-							icon->common_row);
-		else if (w->common < 0)
-			w->common = gp_artwork_add_net(&l->build->art,
-						       GP_NET_COMMON,
-						       l->back_plate);
-		if (w->segment < 0)
-			w->segment = gp_artwork_add_net(&l->build->art,
-							GP_NET_SEGMENT,
-							l->front_plate);
 		if (w->common < 0 || w->segment < 0)
 			return gp_diag_error(l->diag, &icon->common_where,
 					     "icon '%s': no net for its common "
 					     "or segment", icon->name);
+		ok = check_pair(l, i);
 	}
-	return true;
+	/* explicit pairs first, so that an automatic one takes none of
+	 * them */
+	for (size_t i = 0; ok && i < d->icon_count; i++)
+		if (d->icons[i].auto_slot)
+			ok = assign_slot(l, i);
+	return ok;
 }
 
 /* --- front bridges ------------------------------------------------------- */
@@ -791,12 +1144,19 @@ static bool note_icon(struct layout *l, size_t i)
 	char m[32];
 	fmt(m, sizeof(m), r->registration);
 	const struct gp_net *nets = l->build->art.nets;
+	char slot[160] = "";
+	if (w->slot_row >= 0)
+		snprintf(slot, sizeof(slot), ", spare slot of digit %d of row "
+			 "'%s'", w->slot_digit,
+			 l->design->digits[w->slot_row].name);
+	else if (l->design->icons[i].auto_slot)
+		snprintf(slot, sizeof(slot), ", chosen (no spare slot left)");
 	gp_buffer_printf(&l->build->notes,
-			 "icon %s: %s x %s, %zu part(s), %zu front and %zu "
+			 "icon %s: %s x %s%s, %zu part(s), %zu front and %zu "
 			 "back bridge(s), area %.6f mm^2, least lit under "
 			 "+-%s mm shift %.6f mm^2\n",
 			 l->design->icons[i].name, nets[w->common].name,
-			 nets[w->segment].name, w->front.count,
+			 nets[w->segment].name, slot, w->front.count,
 			 w->bridges.count, w->back_bridges.count,
 			 reg.front_mm2, m, reg.worst_mm2);
 	return true;
@@ -869,9 +1229,11 @@ static bool offer_all_ends(struct layout *l)
 {
 	for (size_t i = 0; i < l->design->icon_count; i++) {
 		struct icon_work *w = &l->icons[i];
-		if (!offer_ends(l, w->segment, &w->front))
+		/* nets of the blocks and digits are led out their way */
+		if (w->segment >= l->first_icon_net &&
+		    !offer_ends(l, w->segment, &w->front))
 			return false;
-		if (l->design->icons[i].common &&
+		if (w->common >= l->first_icon_net &&
 		    !offer_ends(l, w->common, &l->patches[w->group]))
 			return false;
 	}
@@ -895,6 +1257,8 @@ static void layout_finish(struct layout *l)
 	free(l->icons);
 	free(l->group_net);
 	free(l->patches);
+	free(l->pairs);
+	free(l->slots);
 	free(l->base_dir);
 	gp_geos_destroy(l->geos);
 }

@@ -3,6 +3,7 @@
  * icon-layout.c. */
 #include "model.h"
 
+#include "digits.h"
 #include "units.h"
 
 #include <stdio.h>
@@ -225,8 +226,74 @@ static int find_block(const struct gp_design *design, const char *name)
 	return -1;
 }
 
-/* common: NAME, or {block: NAME, line: N, row: N} to share the common of
- * a dot-matrix row (line and row count from 1; line defaults to 1). */
+static int find_digits(const struct gp_design *design, const char *name)
+{
+	for (size_t i = 0; i < design->digit_count; i++)
+		if (strcmp(design->digits[i].name, name) == 0)
+			return (int)i;
+	return -1;
+}
+
+static bool has_key(const struct gp_node *map, const char *key)
+{
+	for (size_t k = 0; map->kind == GP_NODE_MAP && k < map->count; k++)
+		if (strcmp(map->keys[k]->text, key) == 0)
+			return true;
+	return false;
+}
+
+/* {digits: NAME, ...}: the row, or an error naming the rows there are. */
+static bool digits_row(const struct gp_design *design, const char *name,
+		       const struct gp_where *where, const char *what,
+		       struct gp_diag *diag, int *row)
+{
+	*row = find_digits(design, name);
+	if (*row >= 0)
+		return true;
+	const char *names[GP_DIGITS_MAX_ROWS];
+	size_t n = 0;
+	for (size_t i = 0; i < design->digit_count && n < GP_DIGITS_MAX_ROWS;
+	     i++)
+		names[n++] = design->digits[i].name;
+	const char *near = n ? gp_nearest_word(name, names, n) : NULL;
+	return gp_diag_error(diag, where,
+			     "%s names digit row '%s', which is not described "
+			     "in 'digits'%s%s%s", what, name,
+			     near ? "; did you mean '" : "", near ? near : "",
+			     near ? "'?" : "");
+}
+
+/* common: {digits: NAME, common: N}: common N (from 1) of a digit row. */
+static bool read_digits_common(struct gp_icon *icon,
+			       const struct gp_design *design,
+			       const struct gp_node *node, const char *what,
+			       struct gp_diag *diag)
+{
+	struct gp_reader r;
+	const char *name = NULL;
+	long index = 1;
+	gp_reader_begin(&r, node, what, diag);
+	bool ok = gp_read_string(&r, "digits", true, &name);
+	ok &= gp_read_int(&r, "common", true, 1, 1000000, &index);
+	if (!gp_reader_end(&r) || !ok)
+		return false;
+	int row;
+	if (!digits_row(design, name, &node->where, what, diag, &row))
+		return false;
+	const struct gp_digits *d = &design->digits[row];
+	if (index > d->duty)
+		return gp_diag_error(diag, &node->where,
+				     "%s: digit row '%s' has %d common(s) (duty "
+				     "1/%d); common %ld is outside", what, name,
+				     d->duty, d->duty, index);
+	icon->common_digits = row;
+	icon->common_index = (int)index;
+	return true;
+}
+
+/* common: NAME, auto, {block: NAME, line: N, row: N} to share the common
+ * of a dot-matrix row (line and row count from 1; line defaults to 1), or
+ * {digits: NAME, common: N} to share a digit row's. */
 static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 			const struct gp_node *node, struct gp_diag *diag)
 {
@@ -236,12 +303,15 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 		if (!*node->text)
 			return gp_diag_error(diag, &node->where,
 					     "'common' is empty; expected a "
-					     "name or {block, line, row}");
+					     "name, {block, line, row} or "
+					     "{digits, common}");
 		icon->common = node->text;
 		return true;
 	}
 	char what[160];
 	snprintf(what, sizeof(what), "the common of icon '%s'", icon->name);
+	if (has_key(node, "digits"))
+		return read_digits_common(icon, design, node, what, diag);
 	struct gp_reader r;
 	const char *block = NULL;
 	long line = 1, row = 1;
@@ -268,6 +338,85 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 	return true;
 }
 
+/* segment: NAME, or {digits: NAME, digit: N, line: N} to share segment
+ * line N of digit N (0: the sign unit) of a digit row.  Whether the line
+ * exists is known once the row is planned (icon-layout.c). */
+static bool read_segment(struct gp_icon *icon, const struct gp_design *design,
+			 const struct gp_node *node, struct gp_diag *diag)
+{
+	icon->segment_where = node->where;
+	if (node->kind == GP_NODE_SCALAR) {
+		if (!*node->text)
+			return gp_diag_error(diag, &node->where,
+					     "'segment' is empty; expected a "
+					     "name or {digits, digit, line}");
+		icon->segment = node->text;
+		return true;
+	}
+	char what[160];
+	snprintf(what, sizeof(what), "the segment of icon '%s'", icon->name);
+	struct gp_reader r;
+	const char *name = NULL;
+	long digit = 1, line = 1;
+	gp_reader_begin(&r, node, what, diag);
+	bool ok = gp_read_string(&r, "digits", true, &name);
+	ok &= gp_read_int(&r, "digit", true, 0, 1000000, &digit);
+	ok &= gp_read_int(&r, "line", true, 1, 1000000, &line);
+	if (!gp_reader_end(&r) || !ok)
+		return false;
+	int row;
+	if (!digits_row(design, name, &node->where, what, diag, &row))
+		return false;
+	const struct gp_digits *d = &design->digits[row];
+	bool sign = d->minus || d->one;
+	if (digit > d->count || (digit == 0 && !sign))
+		return gp_diag_error(diag, &node->where,
+				     "%s: digit row '%s' has digits 1 to %ld%s; "
+				     "digit %ld is outside", what, name,
+				     d->count, sign ? " and the sign unit 0" : "",
+				     digit);
+	icon->segment_digits = row;
+	icon->segment_digit = (int)digit;
+	icon->segment_line = (int)line;
+	return true;
+}
+
+/* slot: auto (instead of common and segment). */
+static bool read_slot(struct gp_reader *r, struct gp_icon *icon)
+{
+	const struct gp_node *slot = gp_read_node(r, "slot", false);
+	if (!slot)
+		return true;
+	icon->slot_where = slot->where;
+	if (slot->kind != GP_NODE_SCALAR || strcmp(slot->text, "auto") != 0)
+		return r->ok = gp_diag_error(r->diag, &slot->where,
+					     "'slot' of %s must be 'auto' (let "
+					     "glassplot choose its common and "
+					     "segment)", r->what);
+	icon->auto_slot = true;
+	return true;
+}
+
+static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
+		      const struct gp_design *design, struct gp_diag *diag)
+{
+	if (!read_slot(r, icon))
+		return false;
+	bool given = icon->auto_slot;
+	const struct gp_node *common = gp_read_node(r, "common", !given);
+	const struct gp_node *segment = gp_read_node(r, "segment", !given);
+	if (given && (common || segment))
+		return gp_diag_error(diag, common ? &common->where
+						  : &segment->where,
+				     "give either 'slot: auto' or 'common' and "
+				     "'segment' in %s, not both", r->what);
+	if (given)
+		return true;
+	bool ok = common && read_common(icon, design, common, diag);
+	ok = segment && read_segment(icon, design, segment, diag) && ok;
+	return ok;
+}
+
 static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 		      const char *name, const struct gp_node *node,
 		      struct gp_diag *diag)
@@ -280,6 +429,8 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	icon->name = name;
 	icon->where = node->where;
 	icon->common_block = -1;
+	icon->common_digits = -1;
+	icon->segment_digits = -1;
 	gp_text_style_init(&icon->style);
 	icon->style.chord_tolerance = design->rules.chord_tolerance;
 	gp_reader_begin(&r, node, what, diag);
@@ -289,13 +440,7 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	icon->position = (struct gp_point){ position[0], position[1] };
 	ok &= read_rotation(&r, icon);
 	ok &= gp_read_bool(&r, "mirror", false, &icon->mirror);
-	const struct gp_node *common = gp_read_node(&r, "common", true);
-	ok = common && read_common(icon, design, common, diag) && ok;
-	const struct gp_node *segment = gp_read_node(&r, "segment", true);
-	if (segment) {
-		icon->segment_where = segment->where;
-		ok &= gp_read_string(&r, "segment", true, &icon->segment);
-	}
+	ok = read_nets(&r, icon, design, diag) && ok;
 	const struct gp_node *text = gp_read_node(&r, "text", false);
 	const struct gp_node *shape = gp_read_node(&r, "shape", false);
 	if (text && shape) {
@@ -319,8 +464,21 @@ static bool same_common(const struct gp_icon *a, const struct gp_icon *b)
 	if (a->common || b->common)
 		return a->common && b->common &&
 		       strcmp(a->common, b->common) == 0;
+	if (a->common_digits >= 0 || b->common_digits >= 0)
+		return a->common_digits == b->common_digits &&
+		       a->common_index == b->common_index;
 	return a->common_block == b->common_block &&
 	       a->common_row == b->common_row;
+}
+
+static bool same_segment(const struct gp_icon *a, const struct gp_icon *b)
+{
+	if (a->segment || b->segment)
+		return a->segment && b->segment &&
+		       strcmp(a->segment, b->segment) == 0;
+	return a->segment_digits == b->segment_digits &&
+	       a->segment_digit == b->segment_digit &&
+	       a->segment_line == b->segment_line;
 }
 
 static void describe_common(const struct gp_design *design,
@@ -330,10 +488,27 @@ static void describe_common(const struct gp_design *design,
 		snprintf(out, size, "common '%s'", icon->common);
 		return;
 	}
+	if (icon->common_digits >= 0) {
+		snprintf(out, size, "common %d of digit row '%s'",
+			 icon->common_index,
+			 design->digits[icon->common_digits].name);
+		return;
+	}
 	const struct gp_block *b = &design->blocks[icon->common_block];
 	snprintf(out, size, "the common of block '%s' line %ld row %ld",
 		 b->name, icon->common_row / b->dots_down + 1,
 		 icon->common_row % b->dots_down + 1);
+}
+
+static void describe_segment(const struct gp_design *design,
+			     const struct gp_icon *icon, char *out, size_t size)
+{
+	if (icon->segment)
+		snprintf(out, size, "segment '%s'", icon->segment);
+	else
+		snprintf(out, size, "line %d of digit %d of row '%s'",
+			 icon->segment_line, icon->segment_digit,
+			 design->digits[icon->segment_digits].name);
 }
 
 /* Each icon lights where its common and segment cross; two icons with the
@@ -345,17 +520,18 @@ static bool check_pairs(const struct gp_design *design, struct gp_diag *diag)
 		const struct gp_icon *b = &design->icons[i];
 		for (size_t j = 0; j < i; j++) {
 			const struct gp_icon *a = &design->icons[j];
-			if (strcmp(a->segment, b->segment) != 0 ||
-			    !same_common(a, b))
+			if (a->auto_slot || b->auto_slot ||
+			    !same_segment(a, b) || !same_common(a, b))
 				continue;
-			char common[160];
+			char common[160], segment[160];
 			describe_common(design, b, common, sizeof(common));
+			describe_segment(design, b, segment, sizeof(segment));
 			ok = gp_diag_error(diag, &b->common_where,
 					   "icons '%s' (line %d) and '%s' both "
-					   "use %s with segment '%s'; each icon "
-					   "needs its own (common, segment) "
-					   "pair", a->name, a->where.line,
-					   b->name, common, b->segment);
+					   "use %s with %s; each icon needs its "
+					   "own (common, segment) pair",
+					   a->name, a->where.line, b->name,
+					   common, segment);
 			break;
 		}
 	}

@@ -131,11 +131,23 @@ struct gp_icon {
 	int64_t head;             /* arrow head length */
 	struct gp_point *points;  /* polygon corners, from position */
 	size_t point_count;
-	/* multiplex: a named icon common, or a dot-matrix row's common */
-	const char *common;       /* NULL when shared with a block row */
+	/* multiplex: a named icon common (or an existing COMn), a dot-matrix
+	 * row's common, a digit row's common, or chosen by glassplot */
+	const char *common;       /* NULL unless named */
 	int common_block;         /* block index, or -1 */
 	long common_row;          /* dot row over the whole block, 0-based */
-	const char *segment;
+	int common_digits;        /* digit row index, or -1 */
+	int common_index;         /* that row's common, 1-based */
+	/* a named icon segment (or an existing SEGn), or a digit's segment
+	 * line */
+	const char *segment;      /* NULL unless named */
+	int segment_digits;       /* digit row index, or -1 */
+	int segment_digit;        /* digit number in the row (0: sign unit) */
+	int segment_line;         /* segment line of that digit, 1-based */
+	/* slot: auto: glassplot chooses the (common, segment) pair, a spare
+	 * slot of a digit row first (icon-layout.c) */
+	bool auto_slot;
+	struct gp_where slot_where;
 	struct gp_where common_where, segment_where;
 };
 

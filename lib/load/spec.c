@@ -266,6 +266,93 @@ static bool single_document(yaml_parser_t *parser, const char *file,
 	return true;
 }
 
+static struct gp_where where_of_mark(const char *file, bool flat,
+				     yaml_mark_t mark)
+{
+	if (flat)
+		return (struct gp_where){ file, 0, 0 };
+	return (struct gp_where){ file, (int)mark.line + 1,
+				  (int)mark.column + 1 };
+}
+
+/* Events that end the pre-scan: too deep a node or a tag.  Returns false
+ * after recording the error. */
+static bool check_event(const yaml_event_t *event, int level,
+			const char *file, bool flat, struct gp_diag *diag)
+{
+	const yaml_char_t *tag = NULL;
+	switch (event->type) {
+	case YAML_SCALAR_EVENT:
+		tag = event->data.scalar.tag;
+		break;
+	case YAML_SEQUENCE_START_EVENT:
+		tag = event->data.sequence_start.tag;
+		break;
+	case YAML_MAPPING_START_EVENT:
+		tag = event->data.mapping_start.tag;
+		break;
+	case YAML_ALIAS_EVENT:
+		break;
+	default:
+		return true;
+	}
+	struct gp_where where = where_of_mark(file, flat, event->start_mark);
+	if (level > GP_SPEC_MAX_DEPTH)
+		return gp_diag_error(diag, &where,
+				     "nesting deeper than %d levels; the "
+				     "description format never needs that "
+				     "much", GP_SPEC_MAX_DEPTH);
+	static const char core[] = "tag:yaml.org,2002:";
+	if (tag && strncmp((const char *)tag, core, strlen(core)) == 0)
+		return gp_diag_error(diag, &where,
+				     "YAML tag '!!%.64s' given; the description "
+				     "format has no tags: remove it",
+				     (const char *)tag + strlen(core));
+	if (tag)
+		return gp_diag_error(diag, &where,
+				     "YAML tag '%.64s' given; the description "
+				     "format has no tags: remove it",
+				     (const char *)tag);
+	return true;
+}
+
+/* libyaml's document loader takes time quadratic in the nesting depth
+ * and reads the whole document first, so the depth (and tags, which the
+ * loader would drop silently) are checked on the event stream, which
+ * stops at the first offending node. */
+static bool prescan(const char *file, const char *data, size_t size,
+		    bool flat, struct gp_diag *diag)
+{
+	yaml_parser_t parser;
+	if (!yaml_parser_initialize(&parser)) {
+		gp_diag_error(diag, NULL, "%s: out of memory", file);
+		return false;
+	}
+	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
+				     size);
+	bool ok = true;
+	int level = 0;
+	for (bool done = false; ok && !done;) {
+		yaml_event_t event;
+		if (!yaml_parser_parse(&parser, &event)) {
+			yaml_error(&parser, file, data, size, flat, diag);
+			ok = false;
+			break;
+		}
+		ok = check_event(&event, level, file, flat, diag);
+		if (event.type == YAML_SEQUENCE_START_EVENT ||
+		    event.type == YAML_MAPPING_START_EVENT)
+			level++;
+		else if (event.type == YAML_SEQUENCE_END_EVENT ||
+			 event.type == YAML_MAPPING_END_EVENT)
+			level--;
+		done = event.type == YAML_STREAM_END_EVENT;
+		yaml_event_delete(&event);
+	}
+	yaml_parser_delete(&parser);
+	return ok;
+}
+
 /* Parse one YAML document into a tree; flat drops line/col (overrides).
  * *nodes counts the nodes made, across calls, against the limit. */
 static struct gp_node *parse_tree(const char *file, const char *data,
@@ -275,6 +362,8 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	yaml_parser_t parser;
 	yaml_document_t document;
 	struct gp_node *root = NULL;
+	if (!prescan(file, data, size, flat, diag))
+		return NULL;
 	if (!yaml_parser_initialize(&parser)) {
 		gp_diag_error(diag, NULL, "%s: out of memory", file);
 		return NULL;
@@ -622,10 +711,23 @@ static void list_known(const struct gp_reader *reader, char *out,
 	}
 }
 
+static void (*reader_observer)(const struct gp_reader *reader, void *data);
+static void *reader_observer_data;
+
+void gp_reader_observe(void (*observer)(const struct gp_reader *reader,
+					void *data),
+		       void *data)
+{
+	reader_observer = observer;
+	reader_observer_data = data;
+}
+
 bool gp_reader_end(struct gp_reader *reader)
 {
 	if (!reader->map)
 		return reader->ok;
+	if (reader_observer)
+		reader_observer(reader, reader_observer_data);
 	for (size_t i = 0; i < reader->map->count; i++) {
 		const struct gp_node *key = reader->map->keys[i];
 		bool known = false;

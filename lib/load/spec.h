@@ -79,6 +79,13 @@ void gp_reader_begin(struct gp_reader *reader, const struct gp_node *node,
 		     const char *what, struct gp_diag *diag);
 /* Reports every key that was never asked for.  Returns reader->ok. */
 bool gp_reader_end(struct gp_reader *reader);
+/* For the test that keeps glassplot(5) in step with the readers
+ * (tests/list-keys.c): when set, gp_reader_end calls observer with every
+ * map it ends, whose known keys are all the keys that map may hold.
+ * Process-wide and not thread-safe; the library never sets it. */
+void gp_reader_observe(void (*observer)(const struct gp_reader *reader,
+					void *data),
+		       void *data);
 
 /* Each getter declares key as known, and returns the node (or NULL when
  * absent).  If required and absent, records "missing required key". */

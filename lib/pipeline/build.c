@@ -267,31 +267,58 @@ static const char *const output_kinds[] = {
 	"gerber", "proof", "pins", "firmware", "report", NULL,
 };
 
-GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
-			       struct gp_diag *diag)
+/* The kinds listed, as enum gp_output_kind bits; 0 with a message when
+ * the list is empty, or names a kind twice or one that is not known. */
+static unsigned parse_kinds(const char *kinds, struct gp_diag *diag)
 {
 	unsigned selected = 0;
 	const char *p = kinds;
-	while (*p) {
-		size_t length = strcspn(p, ",");
-		bool known = false;
-		for (int i = 0; output_kinds[i] && !known; i++) {
-			if (strlen(output_kinds[i]) == length &&
-			    strncmp(output_kinds[i], p, length) == 0) {
-				selected |= 1u << i;
-				known = true;
-			}
-		}
-		if (!known)
-			return gp_diag_error(diag, NULL,
-					     "unknown kind of output '%.*s'; "
-					     "expected a list of gerber, "
-					     "proof, pins, firmware, report",
-					     (int)length, p);
-		p += length + (p[length] == ',');
+	if (!*p) {
+		gp_diag_error(diag, NULL, "no kind of output given; expected a "
+			      "list of gerber, proof, pins, firmware, report");
+		return 0;
 	}
-	build->outputs = selected;
-	return true;
+	for (;;) {
+		size_t length = strcspn(p, ",");
+		int found = -1;
+		for (int i = 0; output_kinds[i] && found < 0; i++)
+			if (strlen(output_kinds[i]) == length &&
+			    strncmp(output_kinds[i], p, length) == 0)
+				found = i;
+		if (found < 0) {
+			gp_diag_error(diag, NULL,
+				      "unknown kind of output '%.*s'; "
+				      "expected a list of gerber, proof, "
+				      "pins, firmware, report",
+				      (int)length, p);
+			return 0;
+		}
+		if (selected & (1u << found)) {
+			gp_diag_error(diag, NULL, "'%s' is listed twice",
+				      output_kinds[found]);
+			return 0;
+		}
+		selected |= 1u << found;
+		if (!p[length])
+			return selected;
+		p += length + 1;
+	}
+}
+
+GP_EXPORT bool gp_output_kinds_check(const char *kinds, struct gp_diag *diag)
+{
+	return parse_kinds(kinds, diag) != 0;
+}
+
+GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
+			       struct gp_diag *diag)
+{
+	unsigned selected = parse_kinds(kinds, diag);
+	if (selected) {
+		build->outputs = selected;
+		build->outputs_chosen = true;
+	}
+	return selected != 0;
 }
 
 bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind)
@@ -363,11 +390,12 @@ static bool add_gerbers(const struct gp_build *build,
 		snprintf(name, sizeof(name), "%s.gbr",
 			 gp_layer_name((enum gp_layer)layer));
 		struct gp_buffer *out = gp_output_add(set, name, diag);
-		const char *why = "out of memory";
+		char why[320];
 		if (!out)
 			return false;
 		if (!gp_gerber_write_why(out, &build->art,
-					 (enum gp_layer)layer, &info, &why))
+					 (enum gp_layer)layer, &info, why,
+					 sizeof(why)))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
 					     "Gerber file: %s", name, why);
 	}

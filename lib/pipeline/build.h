@@ -55,6 +55,7 @@ struct gp_build {
 	struct gp_buffer written;
 	struct gp_buffer json;
 	unsigned outputs;               /* enum gp_output_kind bits */
+	bool outputs_chosen;            /* by gp_build_select (--only) */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
 	/* The drive resolved against the commons the layout made (N is

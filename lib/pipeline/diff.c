@@ -2,6 +2,7 @@
  * moved (and by how much) or reshaped, through GEOS differences. */
 #include "build.h"
 #include "geos.h"
+#include "proof.h"
 #include "units.h"
 
 #include <cairo-pdf.h>
@@ -302,16 +303,18 @@ static void draw_changes(const struct gp_diff *diff, cairo_t *cr)
 	double gh = gp_mm(gp_box_height(diff->frame));
 	double scale = fmin((width - 30 * mm) / gw, (height - 40 * mm) / gh);
 	cairo_set_source_rgb(cr, 0, 0, 0);
-	cairo_select_font_face(cr, "sans-serif", CAIRO_FONT_SLANT_NORMAL,
-			       CAIRO_FONT_WEIGHT_NORMAL);
-	cairo_set_font_size(cr, 10);
-	cairo_move_to(cr, 15 * mm, 12 * mm);
-	char title[160];
-	snprintf(title, sizeof(title),
-		 "Changes: %zu (red: only in the old build, blue: only in "
-		 "the new one). Scale %.3g:1",
-		 diff->changes, scale / mm);
-	cairo_show_text(cr, title);
+	cairo_font_face_t *face = gp_proof_text_face();
+	if (face) { /* without fonts the drawing has no title */
+		cairo_set_font_face(cr, face);
+		cairo_set_font_size(cr, 10);
+		cairo_move_to(cr, 15 * mm, 12 * mm);
+		char title[160];
+		snprintf(title, sizeof(title),
+			 "Changes: %zu (red: only in the old build, blue: "
+			 "only in the new one). Scale %.3g:1",
+			 diff->changes, scale / mm);
+		cairo_show_text(cr, title);
+	}
 	cairo_translate(cr, 15 * mm, 20 * mm);
 	cairo_scale(cr, scale, scale);
 	cairo_translate(cr, -gp_mm(diff->frame.x0), gp_mm(diff->frame.y1));

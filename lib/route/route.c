@@ -1439,7 +1439,7 @@ static bool check_seal_fits(struct route *r)
 		    bb.x1 > r->s_in.x1 || bb.y1 > r->s_in.y1)
 			return gp_diag_error(
 				r->diag, &r->g->seal.where,
-				"the %s electrode of %s (x %s..%s, y %s..%s mm) "
+				"the %s of %s (x %s..%s, y %s..%s mm) "
 				"reaches into the seal; the seal must keep "
 				"'distance' from the viewing area and every "
 				"electrode inside it",

@@ -5,7 +5,7 @@
 #include "gerber.h"
 
 #include "escape.h"
-
+#include "geos.h"
 #include "units.h"
 
 #include <inttypes.h>
@@ -181,82 +181,124 @@ static int compare_holes(const void *pa, const void *pb)
 }
 
 /* Where a hole's cut-in lands on the merged ring: at vertex occurrence
- * `at`, or (insert) at point p inside the edge from `at` to at + 1. */
+ * `at`, or (insert) at point p put into the edge from `at` to at + 1.
+ * When the ray from the hole meets that edge at whole nanometres p lies
+ * on it; otherwise p is the last whole nanometre before the edge, on the
+ * hole's side, and the edge bends through p: the region loses a sliver
+ * less than 1 nm wide, and the cut-in stays exactly horizontal. */
 struct bridge {
 	size_t at;
 	bool insert;
+	bool bent;
 	struct gp_point p;
 };
 
 struct join {
 	struct gp_ring *merged;
 	struct gp_ring *holes;      /* prepared, clockwise */
+	struct gp_box *bounds;      /* of each hole */
 	const struct hole_order *order;
 	size_t hole_count;
 	size_t done;                /* holes of order[] merged so far */
 };
 
-/* Does [m, p] stay clear of the current hole (except at m) and of every
- * hole not merged yet? */
-static bool clear_of_holes(const struct join *join, size_t current,
-			   struct gp_point m, struct gp_point p)
+static struct gp_box segment_bounds(struct gp_point a, struct gp_point b)
 {
+	return gp_box_make(a.x, a.y, b.x, b.y);
+}
+
+static bool boxes_touch(struct gp_box a, struct gp_box b)
+{
+	return a.x0 <= b.x1 && b.x0 <= a.x1 && a.y0 <= b.y1 && b.y0 <= a.y1;
+}
+
+/* Does [m, p] stay clear of every hole not merged yet, touching the
+ * current one (the first of them) only at allow, or nowhere when NULL? */
+static bool clear_of_holes(const struct join *join, struct gp_point m,
+			   struct gp_point p, const struct gp_point *allow)
+{
+	struct gp_box sb = segment_bounds(m, p);
 	for (size_t k = join->done; k < join->hole_count; k++) {
-		const struct gp_ring *hole = &join->holes[join->order[k].index];
-		if (!clear_of_ring(hole, m, p, k == current ? &m : NULL,
-				   SIZE_MAX))
+		size_t index = join->order[k].index;
+		if (!boxes_touch(sb, join->bounds[index]))
+			continue;
+		if (!clear_of_ring(&join->holes[index], m, p,
+				   k == join->done ? allow : NULL, SIZE_MAX))
 			return false;
 	}
 	return true;
 }
 
-/* A cut-in from hole vertex m (occurrence mi of hole) to b is valid when
- * it leaves both rings into material and crosses nothing.  The crossing
- * test is skipped (clear = false) for the horizontal cut-in to the nearest
- * point the ray meets: nothing lies between by construction (holes not
- * yet joined lie at x <= m.x), and contour_valid checks the end result. */
-static bool bridge_ok(const struct join *join, const struct gp_ring *hole,
-		      size_t mi, const struct bridge *b, bool clear)
+static size_t occurrences(const struct gp_ring *ring, struct gp_point p)
 {
-	const struct gp_ring *merged = join->merged;
-	struct gp_point m = hole->points[mi];
-	if (!in_wedge(m, ring_prev(hole, mi), ring_at(hole, mi + 1), b->p))
-		return false;
-	if (b->insert) {
-		/* material lies left of the edge: m must be on that side */
-		if (orient(merged->points[b->at], ring_at(merged, b->at + 1),
-			   m) <= 0)
-			return false;
-	} else if (!in_wedge(b->p, ring_prev(merged, b->at),
-			     ring_at(merged, b->at + 1), m)) {
-		return false;
-	}
-	if (!clear)
-		return true;
-	if (!clear_of_ring(merged, m, b->p, &b->p,
-			   b->insert ? b->at : SIZE_MAX))
-		return false;
-	return clear_of_holes(join, join->done, m, b->p);
+	size_t n = 0;
+	for (size_t i = 0; i < ring->count; i++)
+		n += same_point(ring->points[i], p);
+	return n;
 }
 
-/* Nearest point where the ray from m towards +x meets the merged ring, if
- * it has integer coordinates: a horizontal cut-in there is exact. */
-static bool horizontal_bridge(const struct join *join,
-			      const struct gp_ring *hole, size_t mi,
-			      struct bridge *out)
+/* q in the closed triangle a, b, c */
+static bool in_triangle(struct gp_point a, struct gp_point b,
+			struct gp_point c, struct gp_point q)
+{
+	int o1 = sign(orient(a, b, q)), o2 = sign(orient(b, c, q));
+	int o3 = sign(orient(c, a, q));
+	return (o1 >= 0 && o2 >= 0 && o3 >= 0) ||
+	       (o1 <= 0 && o2 <= 0 && o3 <= 0);
+}
+
+/* The edge a-b of the merged ring (occurrence `edge`) bent through p:
+ * the two new edges touch nothing but their neighbours at a and b, and
+ * the sliver between them and the old edge holds no vertex. */
+static bool bend_clear(const struct join *join, struct gp_point a,
+		       struct gp_point p, struct gp_point b, size_t edge)
 {
 	const struct gp_ring *merged = join->merged;
-	struct gp_point m = hole->points[mi];
-	bool found = false;
-	int64_t best_q = 0;
-	wide best_r = 0, best_den = 1;
-	size_t best_edge = 0;
+	if (!clear_of_ring(merged, a, p, &a, edge) ||
+	    !clear_of_ring(merged, p, b, &b, edge))
+		return false;
 	for (size_t i = 0; i < merged->count; i++) {
-		struct gp_point a = merged->points[i], b = ring_at(merged, i + 1);
+		struct gp_point v = merged->points[i];
+		if (!same_point(v, a) && !same_point(v, b) &&
+		    in_triangle(a, p, b, v))
+			return false;
+	}
+	struct gp_box tb = gp_box_union(segment_bounds(a, p),
+					segment_bounds(p, b));
+	for (size_t k = join->done; k < join->hole_count; k++) {
+		size_t index = join->order[k].index;
+		const struct gp_ring *hole = &join->holes[index];
+		if (!boxes_touch(tb, join->bounds[index]))
+			continue;
+		if (!clear_of_ring(hole, a, p, NULL, SIZE_MAX) ||
+		    !clear_of_ring(hole, p, b, NULL, SIZE_MAX) ||
+		    in_triangle(a, p, b, hole->points[0]))
+			return false;
+	}
+	return true;
+}
+
+/* The nearest point where the ray from m along dir (+1 towards +x, -1
+ * towards -x) meets the ring from the material side: at distance
+ * q + r / den from m (0 <= r < den), on edge `edge`. */
+struct hit {
+	bool found;
+	int64_t q;
+	wide r, den;
+	size_t edge;
+};
+
+static struct hit ray_hit(const struct gp_ring *ring, struct gp_point m,
+			  int dir)
+{
+	struct hit best = { false, 0, 0, 1, 0 };
+	for (size_t i = 0; i < ring->count; i++) {
+		struct gp_point a = ring->points[i], b = ring_at(ring, i + 1);
 		if ((a.y < m.y && b.y < m.y) || (a.y > m.y && b.y > m.y) ||
 		    a.y == b.y)
 			continue; /* horizontal edges: their ends are hit too */
-		wide num = (wide)(m.y - a.y) * (b.x - a.x);
+		wide num = (wide)dir * ((wide)(a.x - m.x) * (b.y - a.y) +
+					(wide)(m.y - a.y) * (b.x - a.x));
 		wide den = (wide)b.y - a.y;
 		if (den < 0) {
 			num = -num;
@@ -267,123 +309,104 @@ static bool horizontal_bridge(const struct join *join,
 			q -= 1;
 			r += den;
 		}
-		int64_t x = a.x + (int64_t)q;
-		if (x < m.x || (x == m.x && r == 0))
+		if (q < 0 || (q == 0 && r == 0))
 			continue;
-		/* a hit inside an edge counts from the edge's material side
-		 * only: of a cut-in's two copies, the one facing m */
+		int64_t x = m.x + dir * (int64_t)q;
+		/* a hit inside an edge counts from its material side only */
 		bool at_end = r == 0 && ((x == a.x && m.y == a.y) ||
 					 (x == b.x && m.y == b.y));
 		if (!at_end && orient(a, b, m) <= 0)
 			continue;
-		if (!found || x < best_q ||
-		    (x == best_q && r * best_den < best_r * den)) {
-			found = true;
-			best_q = x;
-			best_r = r;
-			best_den = den;
-			best_edge = i;
-		}
+		if (!best.found || q < best.q ||
+		    (q == best.q && r * best.den < best.r * den))
+			best = (struct hit){ true, (int64_t)q, r, den, i };
 	}
-	if (!found || best_r != 0)
-		return false;
-	struct gp_point p = { best_q, m.y };
-	for (size_t j = 0; j < merged->count; j++) {
-		if (!same_point(merged->points[j], p))
-			continue;
-		*out = (struct bridge){ j, false, p };
-		if (bridge_ok(join, hole, mi, out, false))
-			return true;
-	}
-	struct gp_point a = merged->points[best_edge];
-	struct gp_point b = ring_at(merged, best_edge + 1);
-	if (same_point(a, p) || same_point(b, p))
-		return false;
-	*out = (struct bridge){ best_edge, true, p };
-	return bridge_ok(join, hole, mi, out, false);
+	return best;
 }
 
-struct candidate {
-	wide distance2;
-	size_t at;
-};
-
-static int compare_candidates(const void *pa, const void *pb)
-{
-	const struct candidate *a = pa, *b = pb;
-	if (a->distance2 != b->distance2)
-		return a->distance2 < b->distance2 ? -1 : 1;
-	return a->at < b->at ? -1 : a->at > b->at;
-}
-
-/* Any vertex of the merged ring that m sees, nearest first.  Some vertex
- * always qualifies for a valid polygon (Eberly, "Triangulation by Ear
- * Clipping", 2002, section 3), so this only fails on invalid input. */
-static bool vertex_bridge(const struct join *join, const struct gp_ring *hole,
-			  size_t mi, struct bridge *out, const char **why)
+/* A horizontal cut-in from hole vertex mi along dir.  It must leave the
+ * hole and land into material, end at a point no other cut-in ends at
+ * (spec 4.10.3: "points where more than two segments end" are not
+ * allowed), and touch nothing on the way: "cut-ins can only touch or
+ * overlap the contour in their start and end points".  The holes not
+ * merged yet are not looked at for the first try (the rightmost vertex,
+ * towards +x), which nothing of them lies beyond. */
+static bool try_bridge(const struct join *join, const struct gp_ring *hole,
+		       size_t mi, int dir, bool first, struct bridge *out)
 {
 	const struct gp_ring *merged = join->merged;
 	struct gp_point m = hole->points[mi];
-	struct candidate *list = malloc(merged->count * sizeof(*list));
-	if (!list)
-		return fail(why, "out of memory");
-	for (size_t j = 0; j < merged->count; j++) {
-		struct gp_point d = minus(merged->points[j], m);
-		list[j] = (struct candidate){
-			(wide)d.x * d.x + (wide)d.y * d.y, j };
+	struct hit h = ray_hit(merged, m, dir);
+	if (!h.found || h.q == 0)
+		return false; /* nothing there, or closer than 1 nm */
+	struct gp_point p = { m.x + dir * h.q, m.y };
+	struct gp_point a = merged->points[h.edge];
+	struct gp_point b = ring_at(merged, h.edge + 1);
+	if (h.r == 0 && (same_point(p, a) || same_point(p, b))) {
+		size_t at = same_point(p, a) ? h.edge
+					     : (h.edge + 1) % merged->count;
+		*out = (struct bridge){ at, false, false, p };
+		if (occurrences(merged, p) != 1 ||
+		    !in_wedge(p, ring_prev(merged, at), ring_at(merged, at + 1),
+			      m))
+			return false;
+	} else {
+		*out = (struct bridge){ h.edge, true, h.r != 0, p };
+		if (!in_wedge(p, a, b, m) ||
+		    (out->bent && !bend_clear(join, a, p, b, h.edge)))
+			return false;
 	}
-	qsort(list, merged->count, sizeof(*list), compare_candidates);
-	bool found = false;
-	for (size_t k = 0; k < merged->count && !found; k++) {
-		struct gp_point p = merged->points[list[k].at];
-		*out = (struct bridge){ list[k].at, false, p };
-		/* a hole touching the ring at a vertex joins there directly */
-		found = list[k].distance2 == 0 ||
-			bridge_ok(join, hole, mi, out, true);
-	}
-	free(list);
-	return found ? true
-		     : fail(why, "a hole cannot be joined to its outer ring "
-				 "(holes overlap or cross the outer ring)");
+	if (!in_wedge(m, ring_prev(hole, mi), ring_at(hole, mi + 1), p))
+		return false;
+	if (!clear_of_ring(merged, m, p, out->insert ? NULL : &p,
+			   out->insert ? h.edge : SIZE_MAX))
+		return false;
+	return first || clear_of_holes(join, m, p, &m);
 }
 
-/* The other copy of edge `at` when that edge is one side of a cut-in
- * (the same segment run the other way), or SIZE_MAX. */
-static size_t twin_edge(const struct gp_ring *ring, size_t at)
+static size_t max_x_vertex(const struct gp_ring *ring)
 {
-	struct gp_point a = ring->points[at], b = ring_at(ring, at + 1);
-	for (size_t i = 0; i < ring->count; i++)
-		if (same_point(ring->points[i], b) &&
-		    same_point(ring_at(ring, i + 1), a))
-			return i;
-	return SIZE_MAX;
+	size_t best = 0;
+	for (size_t i = 1; i < ring->count; i++) {
+		struct gp_point p = ring->points[i], q = ring->points[best];
+		if (p.x > q.x || (p.x == q.x && p.y < q.y))
+			best = i;
+	}
+	return best;
 }
 
-/* merged := merged with the hole spliced in through the bridge.  A point
- * inserted into a cut-in goes into both its copies, so that they stay
- * fully coincident. */
+/* The rightmost vertex towards +x first; then every vertex both ways. */
+static bool find_bridge(const struct join *join, const struct gp_ring *hole,
+			size_t *mi, struct bridge *b)
+{
+	size_t start = max_x_vertex(hole);
+	*mi = start;
+	if (try_bridge(join, hole, start, 1, true, b))
+		return true;
+	for (int dir = 1; dir >= -1; dir -= 2)
+		for (size_t k = 0; k < hole->count; k++) {
+			*mi = (start + k) % hole->count;
+			if (try_bridge(join, hole, *mi, dir, false, b))
+				return true;
+		}
+	return false;
+}
+
+/* merged := merged with the hole spliced in through the bridge. */
 static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 		   size_t mi, const struct bridge *b)
 {
 	struct gp_ring next;
 	gp_ring_init(&next);
 	bool ok = true;
-	struct gp_point m = hole->points[mi];
-	bool touching = same_point(m, b->p);
-	size_t twin = b->insert ? twin_edge(merged, b->at) : SIZE_MAX;
 	for (size_t i = 0; i < merged->count; i++) {
 		struct gp_point v = merged->points[i];
 		ok = ok && gp_ring_push(&next, v.x, v.y);
-		if (i == twin)
-			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
 		if (i != b->at)
 			continue;
 		if (b->insert)
 			ok = ok && gp_ring_push(&next, b->p.x, b->p.y);
-		/* the hole from m round to m; when it touches, m is the
-		 * bridge point itself and is not repeated */
-		for (size_t k = touching ? 1 : 0;
-		     k < (touching ? hole->count : hole->count + 1); k++) {
+		for (size_t k = 0; k <= hole->count; k++) {
 			struct gp_point h = ring_at(hole, mi + k);
 			ok = ok && gp_ring_push(&next, h.x, h.y);
 		}
@@ -398,65 +421,17 @@ static bool splice(struct gp_ring *merged, const struct gp_ring *hole,
 	return true;
 }
 
-/* A hole that touches the merged ring at one of its vertices (valid for
- * OGC and GEOS) joins there with no cut-in at all: the contour then
- * passes that point twice, as a vertex both times, instead of having a
- * vertex of the hole lie inside an edge of the ring. */
-static bool touching_bridge(const struct join *join,
-			    const struct gp_ring *hole, size_t *mi,
-			    struct bridge *out)
-{
-	const struct gp_ring *merged = join->merged;
-	struct gp_box hb = gp_box_none();
-	for (size_t k = 0; k < hole->count; k++)
-		hb = gp_box_union(hb, gp_box_make(hole->points[k].x,
-						  hole->points[k].y,
-						  hole->points[k].x,
-						  hole->points[k].y));
-	for (size_t i = 0; i < merged->count; i++) {
-		struct gp_point a = merged->points[i], b = ring_at(merged, i + 1);
-		/* most edges are nowhere near the hole */
-		if ((a.x < hb.x0 && b.x < hb.x0) || (a.x > hb.x1 && b.x > hb.x1) ||
-		    (a.y < hb.y0 && b.y < hb.y0) || (a.y > hb.y1 && b.y > hb.y1))
-			continue;
-		for (size_t k = 0; k < hole->count; k++) {
-			struct gp_point h = hole->points[k];
-			if (same_point(a, h))
-				*out = (struct bridge){ i, false, h };
-			else if (!same_point(b, h) && orient(a, b, h) == 0 &&
-				 on_segment(a, b, h))
-				*out = (struct bridge){ i, true, h };
-			else
-				continue;
-			*mi = k;
-			return true;
-		}
-	}
-	return false;
-}
-
-static size_t max_x_vertex(const struct gp_ring *ring)
-{
-	size_t best = 0;
-	for (size_t i = 1; i < ring->count; i++) {
-		struct gp_point p = ring->points[i], q = ring->points[best];
-		if (p.x > q.x || (p.x == q.x && p.y < q.y))
-			best = i;
-	}
-	return best;
-}
-
 static bool join_all(struct join *join, const char **why)
 {
 	for (; join->done < join->hole_count; join->done++) {
 		const struct gp_ring *hole =
 			&join->holes[join->order[join->done].index];
-		size_t mi = max_x_vertex(hole);
+		size_t mi;
 		struct bridge b;
-		if (!touching_bridge(join, hole, &mi, &b) &&
-		    !horizontal_bridge(join, hole, mi, &b) &&
-		    !vertex_bridge(join, hole, mi, &b, why))
-			return false;
+		if (!find_bridge(join, hole, &mi, &b))
+			return fail(why, "no horizontal cut-in joins a hole to "
+					 "its outer ring (a hole touches the "
+					 "ring or another hole)");
 		if (!splice(join->merged, hole, mi, &b))
 			return fail(why, "out of memory");
 	}
@@ -476,34 +451,97 @@ static int compare_spans(const void *pa, const void *pb)
 	return a->index < b->index ? -1 : a->index > b->index;
 }
 
+enum meeting {
+	MEET_ALLOWED,
+	MEET_TOUCH, /* one's end on the other, at one point: self-touching */
+	MEET_CROSS, /* crossing or overlapping */
+};
+
 /* May segments i < j of a contour meet as they do?  Spec 4.10.3: no
- * crossing or overlap, except fully coincident segments (cut-ins);
- * segments may share a vertex (neighbours always do) but no more. */
-static bool segments_allowed(const struct gp_ring *r, size_t i, size_t j)
+ * crossing or overlap, except a cut-in: "two fully-coincident linear
+ * segments", and "cut-ins must be either horizontal or vertical"; "all
+ * cut-ins in a contour must have the same direction" (ours are all
+ * horizontal).  Segments may share a vertex but no more; where they do
+ * is checked by points_allowed. */
+static enum meeting segments_allowed(const struct gp_ring *r, size_t i,
+				     size_t j)
 {
 	struct gp_point a = r->points[i], b = ring_at(r, i + 1);
 	struct gp_point c = r->points[j], d = ring_at(r, j + 1);
 	if (!segments_touch(a, b, c, d))
-		return true;
+		return MEET_ALLOWED;
 	if (same_point(a, d) && same_point(b, c))
-		return true; /* a cut-in pair */
+		return a.y == b.y ? MEET_ALLOWED : MEET_CROSS; /* a cut-in */
 	bool shared = same_point(a, c) || same_point(a, d) ||
 		      same_point(b, c) || same_point(b, d);
-	if (!shared || same_point(a, b) || same_point(c, d))
-		return false;
+	if (same_point(a, b) || same_point(c, d))
+		return MEET_CROSS;
+	if (!shared) {
+		int d1 = sign(orient(c, d, a)), d2 = sign(orient(c, d, b));
+		int d3 = sign(orient(a, b, c)), d4 = sign(orient(a, b, d));
+		bool collinear = d1 == 0 && d2 == 0;
+		bool proper = d1 * d2 < 0 && d3 * d4 < 0;
+		return collinear || proper ? MEET_CROSS : MEET_TOUCH;
+	}
 	/* sharing a vertex: the far end of either may not lie on the other */
 	struct gp_point c_far = same_point(c, a) || same_point(c, b) ? d : c;
 	struct gp_point a_far = same_point(a, c) || same_point(a, d) ? b : a;
-	return !(orient(a, b, c_far) == 0 && on_segment(a, b, c_far)) &&
-	       !(orient(c, d, a_far) == 0 && on_segment(c, d, a_far));
+	return (orient(a, b, c_far) == 0 && on_segment(a, b, c_far)) ||
+			       (orient(c, d, a_far) == 0 &&
+				on_segment(c, d, a_far))
+		       ? MEET_CROSS
+		       : MEET_ALLOWED;
+}
+
+static int compare_occurrences(const void *pa, const void *pb)
+{
+	const struct span *a = pa, *b = pb; /* x0, x1 hold x, y */
+	if (a->x0 != b->x0)
+		return a->x0 < b->x0 ? -1 : 1;
+	if (a->x1 != b->x1)
+		return a->x1 < b->x1 ? -1 : 1;
+	return a->index < b->index ? -1 : a->index > b->index;
+}
+
+/* Spec 4.10.3: "points where more than two segments end" are not
+ * allowed, nor "any other form of self-touching".  A point the contour
+ * passes twice must be one end of exactly one cut-in: at one pass the
+ * contour leaves it for the cut-in's other end q, at the other it comes
+ * back from q. */
+static bool points_allowed(const struct gp_ring *r, const char **why)
+{
+	size_t n = r->count;
+	struct span *list = malloc(n * sizeof(*list));
+	if (!list)
+		return fail(why, "out of memory");
+	for (size_t i = 0; i < n; i++)
+		list[i] = (struct span){ r->points[i].x, r->points[i].y, i };
+	qsort(list, n, sizeof(*list), compare_occurrences);
+	bool ok = true;
+	for (size_t k = 0; k + 1 < n && ok; k++) {
+		if (list[k].x0 != list[k + 1].x0 || list[k].x1 != list[k + 1].x1)
+			continue;
+		size_t i = list[k].index, j = list[k + 1].index;
+		struct gp_point ni = ring_at(r, i + 1), pj = ring_prev(r, j);
+		struct gp_point pi = ring_prev(r, i), nj = ring_at(r, j + 1);
+		ok = (k + 2 >= n || list[k + 2].x0 != list[k].x0 ||
+		      list[k + 2].x1 != list[k].x1) &&
+		     ((same_point(ni, pj) && ni.y == r->points[i].y) ||
+		      (same_point(pi, nj) && pi.y == r->points[i].y));
+	}
+	free(list);
+	return ok ? true
+		  : fail(why, "a filled shape's contour touches itself other "
+			      "than at the ends of a cut-in");
 }
 
 /* Checks the joined contour (a sweep over x, so nearly linear for the
- * shapes we draw): what the holes' cut-ins promise, and what a bad input
- * (holes that overlap or leave the outer ring) breaks. */
+ * shapes we draw) against spec 4.10.3, whatever built it. */
 static bool contour_valid(const struct gp_ring *r, const char **why)
 {
 	size_t n = r->count;
+	if (!points_allowed(r, why))
+		return false;
 	struct span *spans = malloc(n * sizeof(*spans));
 	if (!spans)
 		return fail(why, "out of memory");
@@ -513,17 +551,27 @@ static bool contour_valid(const struct gp_ring *r, const char **why)
 					  i };
 	}
 	qsort(spans, n, sizeof(*spans), compare_spans);
-	bool ok = true;
-	for (size_t k = 0; k < n && ok; k++)
-		for (size_t l = k + 1; l < n && ok && spans[l].x0 <= spans[k].x1;
+	enum meeting worst = MEET_ALLOWED;
+	for (size_t k = 0; k < n && worst != MEET_CROSS; k++)
+		for (size_t l = k + 1; l < n && worst != MEET_CROSS &&
+				       spans[l].x0 <= spans[k].x1;
 		     l++) {
 			size_t i = spans[k].index, j = spans[l].index;
-			ok = segments_allowed(r, i < j ? i : j, i < j ? j : i);
+			enum meeting m = segments_allowed(r, i < j ? i : j,
+							  i < j ? j : i);
+			if (m > worst)
+				worst = m;
 		}
 	free(spans);
-	return ok ? true
-		  : fail(why, "a filled shape crosses itself, or its holes "
-			      "overlap or leave the outer ring");
+	if (worst == MEET_TOUCH)
+		return fail(why, "a filled shape's contour touches itself "
+				 "(a hole touches the outer ring or another "
+				 "hole)");
+	return worst == MEET_ALLOWED
+		       ? true
+		       : fail(why, "a filled shape crosses itself, its holes "
+				   "overlap or leave the outer ring, or a "
+				   "cut-in is not horizontal");
 }
 
 /* Where p lies against ring: 1 inside, 0 on it, -1 outside (exact
@@ -561,8 +609,9 @@ bool gp_gerber_join_holes(struct gp_ring *contour,
 	size_t n = poly->hole_count;
 	struct gp_ring *holes = calloc(n ? n : 1, sizeof(*holes));
 	struct hole_order *order = calloc(n ? n : 1, sizeof(*order));
+	struct gp_box *bounds = calloc(n ? n : 1, sizeof(*bounds));
 	bool ok = false;
-	if (!holes || !order) {
+	if (!holes || !order || !bounds) {
 		fail(why, "out of memory");
 		goto out;
 	}
@@ -577,17 +626,160 @@ bool gp_gerber_join_holes(struct gp_ring *contour,
 		}
 		order[i] = (struct hole_order){
 			holes[i].points[max_x_vertex(&holes[i])].x, i };
+		bounds[i] = gp_box_none();
+		for (size_t k = 0; k < holes[i].count; k++)
+			bounds[i] = gp_box_union(
+				bounds[i], segment_bounds(holes[i].points[k],
+							  holes[i].points[k]));
 	}
 	qsort(order, n, sizeof(*order), compare_holes);
-	struct join join = { contour, holes, order, n, 0 };
+	struct join join = { contour, holes, bounds, order, n, 0 };
 	ok = join_all(&join, why) && contour_valid(contour, why);
 out:
 	for (size_t i = 0; holes && i < n; i++)
 		gp_ring_finish(&holes[i]);
 	free(holes);
 	free(order);
+	free(bounds);
 	if (!ok)
 		gp_ring_finish(contour);
+	return ok;
+}
+
+/* --- regions that need more than one contour ----------------------------- */
+
+/* Texts join_all and points_allowed give when a hole touches the ring
+ * or another hole: no single valid contour exists, the region is split. */
+static bool needs_split(const char *why)
+{
+	return why && (strncmp(why, "no horizontal cut-in", 20) == 0 ||
+		       strncmp(why, "a filled shape's contour touches", 32) == 0);
+}
+
+void gp_gerber_contours_init(struct gp_gerber_contours *list)
+{
+	memset(list, 0, sizeof(*list));
+}
+
+void gp_gerber_contours_finish(struct gp_gerber_contours *list)
+{
+	for (size_t i = 0; i < list->count; i++)
+		gp_ring_finish(&list->rings[i]);
+	free(list->rings);
+	gp_gerber_contours_init(list);
+}
+
+static bool contours_push(struct gp_gerber_contours *list,
+			  struct gp_ring *ring)
+{
+	if (list->count == list->capacity) {
+		size_t capacity = list->capacity ? list->capacity * 2 : 4;
+		struct gp_ring *grown =
+			realloc(list->rings, capacity * sizeof(*grown));
+		if (!grown)
+			return false;
+		list->rings = grown;
+		list->capacity = capacity;
+	}
+	list->rings[list->count++] = *ring;
+	return true;
+}
+
+#define SPLIT_DEPTH_MAX 24
+
+static bool add_contours(struct gp_gerber_contours *list,
+			 const struct gp_polygon *poly, struct gp_geos *geos,
+			 int depth, const char **why);
+
+/* Cuts poly in two along a whole-nanometre line through the middle of its
+ * first hole (horizontal, or vertical when the hole is under 2 nm tall or
+ * every other time), with GEOS, and adds the pieces' contours.  Spec
+ * 4.10.4.4: contours of one region may touch ("As these are two
+ * different contours in the same region touching is allowed"). */
+static bool split_contours(struct gp_gerber_contours *list,
+			   const struct gp_polygon *poly, struct gp_geos *geos,
+			   int depth, const char **why)
+{
+	struct gp_box hb = gp_polygon_bounds(&(struct gp_polygon){
+		.outer = poly->holes[0] });
+	struct gp_box all = gp_polygon_bounds(poly);
+	bool tall = hb.y1 - hb.y0 >= 2, wide_enough = hb.x1 - hb.x0 >= 2;
+	bool across = tall && (!wide_enough || depth % 2 == 0);
+	if (!tall && !wide_enough)
+		return fail(why, "a hole is smaller than 2 nm each way");
+	int64_t cut = across ? hb.y0 + (hb.y1 - hb.y0) / 2
+			     : hb.x0 + (hb.x1 - hb.x0) / 2;
+	struct gp_box halves[2] = {
+		across ? gp_box_make(all.x0 - 1, all.y0 - 1, all.x1 + 1, cut)
+		       : gp_box_make(all.x0 - 1, all.y0 - 1, cut, all.y1 + 1),
+		across ? gp_box_make(all.x0 - 1, cut, all.x1 + 1, all.y1 + 1)
+		       : gp_box_make(cut, all.y0 - 1, all.x1 + 1, all.y1 + 1),
+	};
+	struct gp_polyset whole, half, pieces;
+	gp_polyset_init(&whole);
+	gp_polyset_init(&half);
+	gp_polyset_init(&pieces);
+	struct gp_polygon copy, box;
+	gp_polygon_init(&box);
+	bool ok = gp_polygon_copy(&copy, poly) && gp_polyset_take(&whole, &copy);
+	for (int h = 0; ok && h < 2; h++) {
+		ok = gp_polygon_set_box(&box, halves[h]) &&
+		     gp_polyset_take(&half, &box) &&
+		     gp_geos_intersection(geos, &whole, &half, &pieces);
+		gp_polyset_finish(&half);
+		gp_polyset_init(&half);
+	}
+	if (!ok)
+		fail(why, "GEOS cannot split a region (is it valid?)");
+	for (size_t i = 0; ok && i < pieces.count; i++)
+		ok = add_contours(list, &pieces.items[i], geos, depth + 1, why);
+	gp_polygon_finish(&box);
+	gp_polyset_finish(&whole);
+	gp_polyset_finish(&pieces);
+	return ok;
+}
+
+static bool add_contours(struct gp_gerber_contours *list,
+			 const struct gp_polygon *poly, struct gp_geos *geos,
+			 int depth, const char **why)
+{
+	struct gp_ring contour;
+	const char *reason = NULL;
+	if (gp_gerber_join_holes(&contour, poly, &reason)) {
+		if (contours_push(list, &contour))
+			return true;
+		gp_ring_finish(&contour);
+		return fail(why, "out of memory");
+	}
+	if (!needs_split(reason) || depth >= SPLIT_DEPTH_MAX)
+		return fail(why, reason);
+	return split_contours(list, poly, geos, depth, why);
+}
+
+bool gp_gerber_region_contours(struct gp_gerber_contours *list,
+			       const struct gp_polygon *poly,
+			       const char **why)
+{
+	gp_gerber_contours_init(list);
+	struct gp_ring contour;
+	const char *reason = NULL;
+	if (gp_gerber_join_holes(&contour, poly, &reason)) {
+		if (contours_push(list, &contour))
+			return true;
+		gp_ring_finish(&contour);
+		return fail(why, "out of memory");
+	}
+	if (!needs_split(reason))
+		return fail(why, reason);
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_geos *geos = gp_geos_create(&diag);
+	bool ok = geos ? split_contours(list, poly, geos, 0, why)
+		       : fail(why, "out of memory");
+	gp_geos_destroy(geos);
+	gp_diag_finish(&diag);
+	if (!ok)
+		gp_gerber_contours_finish(list);
 	return ok;
 }
 
@@ -605,7 +797,10 @@ struct aperture {
 
 struct writer {
 	struct gp_buffer *out;
-	const char **why;
+	const char **why;           /* &reason */
+	const char *reason;         /* static text of the first failure */
+	char *message;              /* what the caller sees */
+	size_t message_size;
 	struct aperture *apertures;
 	size_t count, capacity;
 	long current; /* D code selected, 0 for none */
@@ -799,19 +994,23 @@ static bool write_stroke(struct writer *w, const struct gp_shape *s)
 
 static bool write_region(struct writer *w, const struct gp_shape *s)
 {
-	struct gp_ring contour;
-	if (!gp_gerber_join_holes(&contour, &s->poly, w->why))
+	struct gp_gerber_contours list;
+	if (!gp_gerber_region_contours(&list, &s->poly, w->why))
 		return false;
-	bool ok = ring_in_range(&contour, GP_GERBER_COORD_MAX);
-	/* one contour, closed exactly on its first point (section 4.10) */
+	bool ok = true;
+	for (size_t c = 0; ok && c < list.count; c++)
+		ok = ring_in_range(&list.rings[c], GP_GERBER_COORD_MAX);
+	/* each contour closed exactly on its first point (section 4.10) */
 	gp_buffer_puts(w->out, "G36*\n");
-	for (size_t i = 0; ok && i <= contour.count; i++)
-		ok = put_point(w, ring_at(&contour, i), i == 0 ? 2 : 1);
+	for (size_t c = 0; ok && c < list.count; c++)
+		for (size_t i = 0; ok && i <= list.rings[c].count; i++)
+			ok = put_point(w, ring_at(&list.rings[c], i),
+				       i == 0 ? 2 : 1);
 	gp_buffer_puts(w->out, "G37*\n");
 	if (!ok)
 		fail(w->why, "a coordinate is beyond 9999.999999 mm, the "
 			     "range of Gerber format 4.6");
-	gp_ring_finish(&contour);
+	gp_gerber_contours_finish(&list);
 	return ok;
 }
 
@@ -823,6 +1022,22 @@ static bool write_flash(struct writer *w, struct gp_box box)
 	struct gp_point centre = { (box.x0 + box.x1) / 2,
 				   (box.y0 + box.y1) / 2 };
 	return put_point(w, centre, 3);
+}
+
+/* The error names the shape: its role, net and lower left corner. */
+static bool shape_error(struct writer *w, const struct gp_artwork *art,
+			const struct gp_shape *s)
+{
+	char x[32], y[32];
+	struct gp_box box = gp_polygon_bounds(&s->poly);
+	gp_format_mm_short(x, sizeof(x), box.x0);
+	gp_format_mm_short(y, sizeof(y), box.y0);
+	bool named = s->net >= 0 && (size_t)s->net < art->net_count;
+	snprintf(w->message, w->message_size, "the %s%s%s from (%s, %s) mm: %s",
+		 gp_role_name(s->role), named ? " of " : "",
+		 named ? art->nets[s->net].name : "", x, y,
+		 w->reason ? w->reason : "out of memory");
+	return false;
 }
 
 static bool write_shapes(struct writer *w, const struct gp_artwork *art,
@@ -841,16 +1056,21 @@ static bool write_shapes(struct writer *w, const struct gp_artwork *art,
 		else
 			ok = write_region(w, s);
 		if (!ok)
-			return false;
+			return shape_error(w, art, s);
 	}
 	return true;
 }
 
 bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 			 enum gp_layer layer,
-			 const struct gp_gerber_info *info, const char **why)
+			 const struct gp_gerber_info *info, char *why,
+			 size_t why_size)
 {
-	struct writer w = { .out = out, .why = why };
+	char scratch[8];
+	struct writer w = { .out = out, .message = why ? why : scratch,
+			    .message_size = why ? why_size : sizeof(scratch) };
+	w.why = &w.reason;
+	w.message[0] = '\0';
 	bool ok = collect_apertures(&w, art, layer);
 	if (ok) {
 		write_header(&w, layer, info);
@@ -859,8 +1079,11 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 	if (ok) {
 		gp_buffer_puts(out, "M02*\n"); /* section 4.13 */
 		if (out->failed)
-			ok = fail(why, "out of memory");
+			ok = fail(w.why, "out of memory");
 	}
+	if (!ok && !w.message[0])
+		snprintf(w.message, w.message_size, "%s",
+			 w.reason ? w.reason : "out of memory");
 	free(w.apertures);
 	return ok;
 }
@@ -868,7 +1091,7 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 bool gp_gerber_write(struct gp_buffer *out, const struct gp_artwork *art,
 		     enum gp_layer layer, const struct gp_gerber_info *info)
 {
-	return gp_gerber_write_why(out, art, layer, info, NULL);
+	return gp_gerber_write_why(out, art, layer, info, NULL, 0);
 }
 
 bool gp_gerber_format_date(char *buffer, size_t size, int64_t epoch)

@@ -40,35 +40,63 @@ struct gp_gerber_info {
  * artwork's order: a shape with line_width > 0 as a stroke of its outer
  * ring (open or closed path) with a circular aperture; a GP_ROLE_PAD shape
  * that is an axis-aligned rectangle (with an exact centre) as a flash of a
- * rectangular aperture; every other shape as a region.  Returns false,
- * leaving out in an unspecified state, on a coordinate outside
- * +-GP_GERBER_COORD_MAX, a filled ring with less than three distinct
- * points, holes that cannot be joined to the outer ring, or out of memory;
- * the _why form then sets *why to a static text saying which. */
+ * rectangular aperture; every other shape as a region
+ * (gp_gerber_region_contours).  Returns false, leaving out in an
+ * unspecified state, on a coordinate outside +-GP_GERBER_COORD_MAX, a
+ * filled ring with less than three distinct points, a region that cannot
+ * be written as valid contours, or out of memory; the _why form then
+ * writes into why (why_size bytes, 256 is enough) which shape failed
+ * (role, net, lower left corner in mm) and why. */
 bool gp_gerber_write(struct gp_buffer *out, const struct gp_artwork *art,
 		     enum gp_layer layer, const struct gp_gerber_info *info);
 bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 			 enum gp_layer layer,
-			 const struct gp_gerber_info *info, const char **why);
+			 const struct gp_gerber_info *info, char *why,
+			 size_t why_size);
 
 /* Formats seconds since the epoch (SOURCE_DATE_EPOCH) as the ISO 8601
  * UTC time .CreationDate wants, "YYYY-MM-DDThh:mm:ss+00:00".  False when
  * the time cannot be represented or size is too small (26 is enough). */
 bool gp_gerber_format_date(char *buffer, size_t size, int64_t epoch);
 
-/* Joins the holes of poly to its outer ring with cut-ins (pairs of fully
- * coincident segments run both ways), giving one contour whose interior is
- * the polygon: outer ring counter-clockwise, each hole clockwise.  A
- * cut-in is horizontal wherever the ray from the hole's rightmost vertex
- * meets the ring at a point with integer coordinates, otherwise it goes to
- * a vertex the hole sees; a hole touching the ring at a point joins there
- * with no cut-in.  The result has no zero-length segment, is not
- * explicitly closed, and is checked: no two segments cross or overlap
- * except cut-in pairs, segments share at most a vertex (Gerber Layer
- * Format Specification 2024.05, 4.10.3).  poly must be a valid polygon
- * (holes inside the outer ring, neither crossing); false otherwise.  Cost
- * grows with holes x points: 900 holes take ~35 ms, 10000 ~3 s. */
+/* Joins the holes of poly to its outer ring with cut-ins, giving one
+ * contour whose interior is the polygon: outer ring counter-clockwise,
+ * each hole clockwise.  Every cut-in is a pair of fully coincident
+ * horizontal segments on the nanometre grid (Gerber Layer Format
+ * Specification 2024.05, 4.10.3: "cut-ins must be either horizontal or
+ * vertical"; "all cut-ins in a contour must have the same direction"):
+ * from a vertex of the hole along +x or -x to the first edge met from the
+ * material side.  Where that edge is not met at whole nanometres, the cut-
+ * in ends at the last whole nanometre before it and the edge bends
+ * through that point (the region loses a sliver under 1 nm wide).  The
+ * result has no zero-length segment, is not explicitly closed, and is
+ * checked against 4.10.3: no two segments cross or overlap except cut-in
+ * pairs; a point is passed twice only as the end of one cut-in ("points
+ * where more than two segments end" are not allowed otherwise).  False,
+ * with *why, on an invalid polygon and on one that has no such contour (a
+ * hole touching the outer ring or another hole: see
+ * gp_gerber_region_contours).  Cost grows with holes x points: 900 holes
+ * take ~35 ms, 10000 ~3 s. */
 bool gp_gerber_join_holes(struct gp_ring *contour,
 			  const struct gp_polygon *poly, const char **why);
+
+/* The contours of one region. */
+struct gp_gerber_contours {
+	struct gp_ring *rings;
+	size_t count, capacity;
+};
+
+void gp_gerber_contours_init(struct gp_gerber_contours *list);
+void gp_gerber_contours_finish(struct gp_gerber_contours *list);
+
+/* The contours a region statement (G36/G37) draws poly with: one
+ * (gp_gerber_join_holes) when it can, else the pieces of poly cut in two
+ * along a whole-nanometre line through a hole that cannot be joined (with
+ * GEOS, again until each piece has a valid contour; contours of one region
+ * may touch, 4.10.4.4).  list is initialised here; on false (*why set)
+ * it is left empty. */
+bool gp_gerber_region_contours(struct gp_gerber_contours *list,
+			       const struct gp_polygon *poly,
+			       const char **why);
 
 #endif

@@ -268,6 +268,14 @@ bool gp_firmware_header(const struct gp_build *build, struct gp_buffer *o)
 bool gp_route_write(const struct gp_build *build, struct gp_output_set *set,
 		    struct gp_diag *diag)
 {
+	bool wanted = gp_build_wants(build, GP_OUTPUT_PINS) ||
+		      gp_build_wants(build, GP_OUTPUT_FIRMWARE);
+	/* asked for by name, they must not vanish into an empty set */
+	if (build->pin_count == 0 && wanted && build->outputs_chosen)
+		return gp_diag_error(diag, NULL,
+				     "pins.csv and glass-map.h need pads, and "
+				     "this glass has no 'ledges'; leave pins "
+				     "and firmware out of --only");
 	if (build->pin_count == 0)
 		return true;
 	if (gp_build_wants(build, GP_OUTPUT_PINS)) {

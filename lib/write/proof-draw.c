@@ -244,45 +244,6 @@ void proof_viewing_area(struct proof *p, const struct proof_view *v)
 
 /* --- pads and pin 1 -------------------------------------------------------- */
 
-static const struct gp_shape *pad_of_pin(const struct proof *p, int pin)
-{
-	for (size_t i = 0; i < p->art->shape_count; i++) {
-		const struct gp_shape *s = &p->art->shapes[i];
-		if (s->role == GP_ROLE_PAD && s->net >= 0 &&
-		    p->art->nets[s->net].pin == pin)
-			return s;
-	}
-	return NULL;
-}
-
-static int last_pin(const struct proof *p)
-{
-	int last = 0;
-	for (size_t i = 0; i < p->art->net_count; i++)
-		if (p->art->nets[i].pin > last)
-			last = p->art->nets[i].pin;
-	return last;
-}
-
-static void mark_pad(struct proof *p, const struct proof_view *v,
-		     const struct gp_shape *pad, const char *label, bool arrow)
-{
-	struct gp_box b = gp_polygon_bounds(&pad->poly);
-	double cx = (proof_x(v, b.x0) + proof_x(v, b.x1)) / 2;
-	double top = proof_y(v, b.y1) < proof_y(v, b.y0) ? proof_y(v, b.y1)
-							   : proof_y(v, b.y0);
-	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	if (arrow) {
-		cairo_move_to(p->cr, cx, top - 0.5);
-		cairo_line_to(p->cr, cx - 1.0, top - 2.3);
-		cairo_line_to(p->cr, cx + 1.0, top - 2.3);
-		cairo_close_path(p->cr);
-		cairo_fill(p->cr);
-	}
-	proof_font(p, 2.0, true);
-	proof_text(p, cx, top - 3.0, ALIGN_CENTRE, label);
-}
-
 void proof_pin1(struct proof *p, const struct proof_view *v)
 {
 	/* pad outlines so that pads read as pads over the electrodes */
@@ -295,16 +256,6 @@ void proof_pin1(struct proof *p, const struct proof_view *v)
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
 	cairo_set_line_width(p->cr, 0.1);
 	cairo_stroke(p->cr);
-	const struct gp_shape *first = pad_of_pin(p, 1);
-	int last = last_pin(p);
-	const struct gp_shape *final = last > 1 ? pad_of_pin(p, last) : NULL;
-	if (first)
-		mark_pad(p, v, first, "pin 1", true);
-	if (final) {
-		char text[16];
-		snprintf(text, sizeof(text), "%d", last);
-		mark_pad(p, v, final, text, false);
-	}
 }
 
 /* --- dot-matrix cells ------------------------------------------------------ */
@@ -446,8 +397,10 @@ static void note(struct proof *p, const char *text)
 	double x0, y0, x1, y1;
 	proof_area(p, &x0, &y0, &x1, &y1);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	proof_font(p, 3.0, false);
-	proof_text(p, x0, y0 + 10, ALIGN_LEFT, text);
+	proof_letter(p, PROOF_LETTER, false);
+	proof_paragraph(p, x0, PROOF_TOP + PROOF_ASCENT *
+					     proof_em(PROOF_LETTER, false),
+			x1 - x0, PROOF_LETTER, text);
 }
 
 static void layer_sheet(struct proof *p, enum gp_plate plate)
@@ -459,8 +412,10 @@ static void layer_sheet(struct proof *p, enum gp_plate plate)
 		      : "As seen from the viewer, through the front plate.");
 	proof_paint_layer(p, layer, 1.0);
 	proof_plate_outlines(p, &p->view, front, !front);
-	if (proof_has_layer(p, layer, ROLE_BIT(GP_ROLE_PAD)))
+	if (proof_has_layer(p, layer, ROLE_BIT(GP_ROLE_PAD))) {
 		proof_pin1(p, &p->view);
+		proof_pin_labels(p);
+	}
 	proof_end_sheet(p);
 }
 

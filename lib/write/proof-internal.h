@@ -80,20 +80,49 @@ struct proof {
 	/* pin-matrix.csv's rows, when routed */
 	struct gp_pin_matrix matrix;
 	bool has_matrix;
+	/* The title block's scale for the current sheet ("as shown", "10:1")
+	 * when not the overview's; reset by proof_begin_sheet. */
+	const char *sheet_scale;
 };
 
 /* --- paper, text and primitives (proof.c) ------------------------------ */
 #define PROOF_MARGIN 10.0        /* paper edge to the frame */
-#define PROOF_TITLE_W 120.0      /* title block */
-#define PROOF_TITLE_H 34.0
-#define PROOF_RULER_BAND 16.0    /* above the title band, overview only */
+/* Title block: ISO 7200's width, 180 mm (from memory); four rows. */
+#define PROOF_TITLE_W 180.0
+#define PROOF_TITLE_H 44.0
 #define PROOF_TEXT 2.5           /* ordinary text height, mm */
+/* Lettering by capital height h, ISO 3098-0's series 2.5, 3.5, 5, 7 mm
+ * (from memory); 2.5 mm is the least on any sheet. */
+#define PROOF_LETTER 2.5
+#define PROOF_LETTER_TITLE 3.5
+#define PROOF_LETTER_SHEET 5.0
+/* A word's box as PDF readers take it (Liberation Sans: ascent 0.905 em,
+ * descent 0.212 em, its hhea table). */
+#define PROOF_ASCENT 0.905
+#define PROOF_DESCENT 0.212
+#define PROOF_BOX (PROOF_ASCENT + PROOF_DESCENT)
+/* Baseline of the sheet title; things below it start at PROOF_TOP. */
+#define PROOF_SHEET_TITLE_Y (PROOF_MARGIN + 3 + 7.0)
+#define PROOF_TOP (PROOF_MARGIN + 14.0)
 
 enum proof_align { ALIGN_LEFT, ALIGN_CENTRE, ALIGN_RIGHT };
 
 void proof_set_colour(struct proof *p, struct rgb c, double alpha);
 void proof_font(struct proof *p, double size, bool bold);
 void proof_font_mono(struct proof *p, double size);
+/* Lettering by capital height (mm), through the face's own cap height. */
+void proof_letter(struct proof *p, double cap, bool bold);
+void proof_letter_mono(struct proof *p, double cap);
+double proof_em(double cap, bool bold);
+/* Baseline to baseline for lines of lettering cap high. */
+double proof_line_pitch(double cap);
+bool proof_fonts_ready(void);
+/* Wraps text into width from baseline y; returns the next baseline. */
+double proof_paragraph(struct proof *p, double x, double y, double width,
+		       double cap, const char *text);
+/* The height proof_paragraph would take, from the first line's box top. */
+double proof_paragraph_height(struct proof *p, double width, double cap,
+			      const char *text);
 /* Text with its baseline at y; returns its width in mm. */
 double proof_text(struct proof *p, double x, double y, enum proof_align align,
 		  const char *text);
@@ -106,6 +135,14 @@ void proof_line(struct proof *p, double x0, double y0, double x1, double y1,
 /* Starts a sheet: frame, title block; ends with proof_end_sheet. */
 void proof_begin_sheet(struct proof *p, const char *title);
 void proof_end_sheet(struct proof *p);
+/* Where notes go (cautions, what a design lacks): x, first baseline,
+ * width. */
+void proof_note_area(const struct proof *p, double *x, double *y,
+		     double *w);
+double proof_area_bottom(const struct gp_proof_plan *plan);
+/* Text cut with an ellipsis to width. */
+void proof_text_fitted(struct proof *p, double x, double y, double width,
+		       const char *text);
 /* The drawing area of a sheet inside the frame, above the title band. */
 void proof_area(const struct proof *p, double *x0, double *y0, double *x1,
 		double *y1);
@@ -159,15 +196,83 @@ void proof_sheet_overview(struct proof *p);
 void proof_sheet_layers(struct proof *p);
 void proof_sheet_lit(struct proof *p, bool checkerboard);
 
+/* --- placing dimensions (proof-place.c) --------------------------------- */
+/* Paper rectangle, mm, y down. */
+struct proof_rect {
+	double x0, y0, x1, y1;
+};
+
+/* What is on a view already: texts, dimension lines (with their arrows)
+ * and extension lines, in the view's own frame. */
+struct proof_space {
+	struct proof_rect *texts, *lines, *exts;
+	size_t text_count, text_capacity;
+	size_t line_count, line_capacity;
+	size_t ext_count, ext_capacity;
+	bool failed;
+};
+
+enum proof_side { SIDE_TOP, SIDE_BOTTOM, SIDE_LEFT, SIDE_RIGHT, SIDE_COUNT };
+
+/* A view's frame: glass box (glass frame) drawn at scale with ox = oy = 0:
+ * paper x = scale * x_mm, paper y = -scale * y_mm; x0..y1 the box on
+ * paper. */
+struct proof_frame {
+	struct gp_box glass;
+	double scale;
+	double x0, y0, x1, y1;
+};
+
+#define PROOF_FIRST_TIER 7.0  /* glass edge to the first dimension line */
+#define PROOF_TIER 6.5        /* between dimension lines */
+
+/* One dimension in the glass frame: along x for top and bottom (a, b are
+ * x), along y for left and right (a, b are y); extension lines from the
+ * features (y, or x) when given, else from the glass edge. */
+struct proof_dim {
+	enum proof_side side;
+	int order;                /* lower orders are placed first, nearer */
+	int64_t a, b;
+	bool has_feature_a, has_feature_b;
+	int64_t feature_a, feature_b;
+	char label[64];           /* "viewing area ", may be empty */
+	char value[72];           /* "56", "47.25 +-0.02", "(3.15)" */
+	/* placed */
+	bool placed;
+	int tier, where;          /* where: 0 between arrows, 1 after, 2 before */
+	double text_width;
+};
+
+void proof_space_init(struct proof_space *s);
+void proof_space_finish(struct proof_space *s);
+void proof_space_add_text(struct proof_space *s, struct proof_rect r);
+void proof_frame_init(struct proof_frame *f, struct gp_box glass,
+		      double scale);
+void proof_rv_point(const struct proof_frame *f, enum proof_side side,
+		    double r, double v, double *x, double *y);
+void proof_place_dims(struct proof *p, struct proof_space *s,
+		      const struct proof_frame *f, struct proof_dim *dims,
+		      size_t count);
+/* How far the placed things reach beyond the glass box on each side. */
+void proof_space_room(const struct proof_space *s,
+		      const struct proof_frame *f, double room[SIDE_COUNT]);
+void proof_draw_dims(struct proof *p, const struct proof_space *s,
+		     const struct proof_frame *f,
+		     const struct proof_dim *dims, size_t count);
+/* A length as a drawing states it: exact to four decimals, else to three. */
+void proof_dim_mm(char *buffer, size_t size, int64_t nm);
+
 /* --- dimensions and details (proof-dims.c) ----------------------------- */
 void proof_overview_dims(struct proof *p);
 void proof_ruler(struct proof *p);
 void proof_sheets_details(struct proof *p);
-int proof_detail_sheet_count(const struct gp_build *build,
-			     const struct gp_proof_plan *plan);
-/* How much room the overview's dimensions need on each side (mm). */
-void proof_dim_room(const struct gp_build *build, double *left,
-		    double *right, double *top, double *bottom);
+int proof_detail_sheet_count(struct proof *p);
+/* How much room the overview's dimensions need on each side (mm) at
+ * scale. */
+void proof_overview_room(struct proof *p, double scale,
+			 double room[SIDE_COUNT]);
+double proof_overview_note_height(struct proof *p, double width);
+void proof_pin_labels(struct proof *p);
 
 /* --- tables (proof-tables.c) ------------------------------------------- */
 int proof_pin_sheet_count(const struct gp_build *build,

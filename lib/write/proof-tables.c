@@ -74,7 +74,12 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 /* --- table layout -------------------------------------------------------------- */
 
 #define MAX_COLUMNS 8
-#define CELL_CHAR 1.3      /* mm per character at 2.2 mm text, generous */
+/* The pin matrix is lettered at 2.5 mm capitals (ISO 3098's least
+ * height): Liberation Sans at 3.7 mm (caps 0.69 em), whose widest capitals take 0.72 em. */
+#define MATRIX_SIZE 3.7
+#define MATRIX_ROW 5.0
+#define MATRIX_TOP 20.0
+#define CELL_CHAR (0.73 * MATRIX_SIZE)
 #define TABLE_GAP 4.0      /* between columns of a table on one sheet */
 
 struct table {
@@ -127,7 +132,7 @@ static double text_width(const char *text)
 	size_t n = 0;
 	for (const char *c = text; *c; c++)
 		n += ((unsigned char)*c & 0xc0) != 0x80;
-	return (double)n * CELL_CHAR + 2.0;
+	return (double)n * CELL_CHAR + 2.5;
 }
 
 static void matrix_layout(const struct gp_pin_matrix *m,
@@ -136,9 +141,9 @@ static void matrix_layout(const struct gp_pin_matrix *m,
 			  struct matrix_layout *l)
 {
 	double usable = plan->paper_w - 2 * PROOF_MARGIN - 8;
-	l->pin_w = 9;
-	l->net_w = 13;
-	l->com_w = text_width("COM000");
+	l->pin_w = text_width("0000");
+	l->net_w = text_width("SEG000");
+	l->com_w = text_width("COM00");
 	for (size_t r = 0; r < m->rows; r++) {
 		const struct gp_pin *pin = m->pins[r];
 		if (pin->net >= 0) {
@@ -161,8 +166,18 @@ static void matrix_layout(const struct gp_pin_matrix *m,
 	if (l->band > m->commons && m->commons > 0)
 		l->band = m->commons;
 	l->bands = m->commons ? (m->commons + l->band - 1) / l->band : 1;
+	/* bands of even width: 16 commons in two bands of 8, not 13 and 3 */
+	if (l->bands > 1)
+		l->band = (m->commons + l->bands - 1) / l->bands;
 	double width = l->pin_w + l->net_w + (double)l->band * l->com_w;
-	table_capacity(plan, width, &l->rows, &l->columns);
+	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
+		   MATRIX_TOP - MATRIX_ROW;
+	l->columns = (int)((usable + TABLE_GAP) / (width + TABLE_GAP));
+	if (l->columns < 1)
+		l->columns = 1;
+	l->rows = (int)(h / MATRIX_ROW);
+	if (l->rows < 1)
+		l->rows = 1;
 	size_t per = (size_t)l->rows * (size_t)l->columns;
 	l->sheets_per_band =
 		m->rows ? (int)((m->rows + per - 1) / per) : 1;
@@ -276,9 +291,9 @@ static void matrix_row(struct proof *p, const struct matrix_layout *l,
 		       size_t count, bool header)
 {
 	const struct gp_pin_matrix *m = &p->matrix;
-	proof_font(p, 2.2, header);
+	proof_font(p, MATRIX_SIZE, header);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	double base = y + ROW_H - 1.1;
+	double base = y + MATRIX_ROW - 1.2;
 	if (header) {
 		proof_text(p, x + 1, base, ALIGN_LEFT, "Pin");
 		proof_text(p, x + l->pin_w + 1, base, ALIGN_LEFT, "Net");
@@ -318,23 +333,22 @@ static void sheets_matrix(struct proof *p)
 			proof_begin_sheet(p, title);
 			double x0, y0, x1, y1;
 			proof_area(p, &x0, &y0, &x1, &y1);
-			proof_font(p, 2.3, false);
-			proof_textf(p, x0, y0 + 11, ALIGN_LEFT,
-				    "What lights where each pin crosses each "
-				    "common (COM%zu to COM%zu): the same data "
-				    "as pin-matrix.csv; pads in pins.csv.",
+			proof_font(p, MATRIX_SIZE, false);
+			proof_textf(p, x0, y0 + 12, ALIGN_LEFT,
+				    "What lights where each pin crosses COM%zu "
+				    "to COM%zu; as pin-matrix.csv.",
 				    first + 1, first + count);
 			for (int c = 0; c < l.columns && next < m->rows; c++) {
 				double x = x0 + c * (width + TABLE_GAP);
-				double y = y0 + TABLE_TOP;
+				double y = y0 + MATRIX_TOP;
 				matrix_row(p, &l, x, y, 0, first, count, true);
-				y += ROW_H;
+				y += MATRIX_ROW;
 				table_rule(p, x, y, width);
 				for (int r = 0; r < l.rows && next < m->rows;
 				     r++, next++) {
 					matrix_row(p, &l, x, y, next, first,
 						   count, false);
-					y += ROW_H;
+					y += MATRIX_ROW;
 				}
 			}
 			proof_end_sheet(p);
@@ -599,22 +613,11 @@ void proof_sheets_spec(struct proof *p)
 
 /* --- check results ---------------------------------------------------------------- */
 
-/* Each finding takes two rows of the list: its fields, then its text. */
-static const char *const finding_header[] = {
-	"No.", "Severity", "Rule", "Nets", "Place x, y (mm)", "Value", "Limit",
-};
-static const double finding_widths[] = { 10, 16, 34, 28, 40, 30, 30 };
-#define FINDING_COLUMNS 7
-#define FINDING_MARK 1.8          /* marker radius, mm */
-
-static struct table finding_table(void)
-{
-	struct table t = { finding_header, finding_widths, FINDING_COLUMNS,
-			   0 };
-	for (int i = 0; i < t.columns; i++)
-		t.width += t.widths[i];
-	return t;
-}
+/* Each finding takes three lines of the list: number, severity, rule
+ * and nets; place, value and limit; its text. */
+#define FINDING_LINES 3
+#define FINDING_MARK 2.4          /* marker radius, mm */
+#define FINDING_COLUMN 130.0      /* width of a column of the list */
 
 /* Findings marked and listed; report.txt has them all. */
 #define MAX_SHOWN_FINDINGS 2000
@@ -625,14 +628,26 @@ static size_t finding_count(const struct gp_build *build)
 	return n < MAX_SHOWN_FINDINGS ? n : MAX_SHOWN_FINDINGS;
 }
 
+static void finding_capacity(const struct gp_proof_plan *plan, int *rows,
+			     int *columns)
+{
+	double w = plan->paper_w - 2 * PROOF_MARGIN - 8;
+	double h = proof_area_bottom(plan) - PROOF_TOP;
+	double pitch = proof_line_pitch(PROOF_LETTER);
+	*columns = (int)((w + 6) / (FINDING_COLUMN + 6));
+	if (*columns < 1)
+		*columns = 1;
+	*rows = (int)(h / (FINDING_LINES * pitch + 2));
+	if (*rows < 1)
+		*rows = 1;
+}
+
 /* Findings listed per sheet. */
 static size_t findings_per_sheet(const struct gp_proof_plan *plan)
 {
 	int rows, columns;
-	struct table t = finding_table();
-	table_capacity(plan, t.width, &rows, &columns);
-	size_t per = (size_t)(rows / 2) * (size_t)columns;
-	return per ? per : 1;
+	finding_capacity(plan, &rows, &columns);
+	return (size_t)rows * (size_t)columns;
 }
 
 int proof_finding_sheet_count(const struct gp_build *build,
@@ -641,7 +656,6 @@ int proof_finding_sheet_count(const struct gp_build *build,
 	size_t n = finding_count(build), per = findings_per_sheet(plan);
 	return 1 + (int)((n + per - 1) / per);
 }
-
 
 static const char *severity_text(enum gp_severity severity)
 {
@@ -658,9 +672,10 @@ static void finding_mark(struct proof *p, size_t number,
 	double y = proof_y(&p->view, f->place.y);
 	char text[24];
 	snprintf(text, sizeof(text), "%zu", number);
-	proof_font(p, 2.0, true);
+	proof_letter(p, PROOF_LETTER, true);
+	double em = proof_em(PROOF_LETTER, true);
 	double r = FINDING_MARK;
-	double w = proof_text_width(p, text) / 2 + 0.6;
+	double w = proof_text_width(p, text) / 2 + 0.8;
 	if (w > r)
 		r = w;
 	cairo_new_path(p->cr);
@@ -670,73 +685,76 @@ static void finding_mark(struct proof *p, size_t number,
 	proof_set_colour(p, proof_finding_colour, 1.0);
 	cairo_set_line_width(p->cr, 0.3);
 	cairo_stroke(p->cr);
-	/* the digits' ink centred on the place: cap height 0.72 em */
-	proof_text(p, x, y + 0.36 * 2.0, ALIGN_CENTRE, text);
+	/* the digits' ink centred on the place */
+	proof_text(p, x, y + PROOF_LETTER / 2, ALIGN_CENTRE, text);
+	(void)em;
 }
 
-static void finding_row(struct proof *p, const struct table *t, double x,
-			double y, size_t number, const struct gp_finding *f)
+static void finding_lines(struct proof *p, double x, double y, double w,
+			  size_t number, const struct gp_finding *f)
 {
-	char no[24], nets[64], place[72], value[48], limit[48], a[32], b[32];
-	snprintf(no, sizeof(no), "%zu", number);
+	char head[160], where[200], a[32], b[32], value[48], limit[48];
 	const char *n0 = f->nets[0] >= 0 ? p->art->nets[f->nets[0]].name : "";
 	const char *n1 = f->nets[1] >= 0 ? p->art->nets[f->nets[1]].name : "";
-	snprintf(nets, sizeof(nets), "%s%s%s", n0, *n0 && *n1 ? " " : "", n1);
+	snprintf(head, sizeof(head), "%zu  %s  %s  %s%s%s", number,
+		 severity_text(f->severity), gp_check_rule_name(f->rule), n0,
+		 *n0 && *n1 ? " " : "", n1);
 	proof_mm(a, sizeof(a), f->place.x);
 	proof_mm(b, sizeof(b), f->place.y);
-	snprintf(place, sizeof(place), "%s, %s", a, b);
 	gp_check_format_value(value, sizeof(value), f->value, f->unit,
 			      true);
 	gp_check_format_value(limit, sizeof(limit), f->limit, f->unit,
 			      true);
-	const char *cells[FINDING_COLUMNS] = {
-		no, severity_text(f->severity), gp_check_rule_name(f->rule),
-		nets, place, value, limit,
-	};
-	table_row(p, x, y, t, cells, false);
+	snprintf(where, sizeof(where), "at %s, %s mm: %s (limit %s)", a, b,
+		 value, limit);
+	double pitch = proof_line_pitch(PROOF_LETTER);
+	cairo_set_source_rgb(p->cr, 0, 0, 0);
+	proof_letter(p, PROOF_LETTER, true);
+	proof_text_fitted(p, x, y, w, head);
+	proof_letter(p, PROOF_LETTER, false);
+	proof_text_fitted(p, x + 4, y + pitch, w - 4, where);
 	cairo_set_source_rgb(p->cr, 0.3, 0.3, 0.3);
-	proof_font(p, 2.0, false);
-	proof_text(p, x + t->widths[0] + 1, y + 2 * ROW_H - 1.1, ALIGN_LEFT,
-		   f->text);
+	proof_text_fitted(p, x + 4, y + 2 * pitch, w - 4, f->text);
 }
 
-static void findings_summary(struct proof *p, double x, double y)
+static void findings_summary(struct proof *p, double x, double y, double w)
 {
 	const struct gp_check_report *r = &p->build->checks;
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	proof_font(p, 3.0, true);
+	proof_letter(p, PROOF_LETTER_TITLE, true);
 	if (!p->build->checked) {
 		proof_text(p, x, y, ALIGN_LEFT, "The checks did not run.");
 		return;
 	}
+	char text[512];
 	if (!r->count)
-		proof_text(p, x, y, ALIGN_LEFT,
-			   "No findings: every check passed.");
+		snprintf(text, sizeof(text),
+			 "No findings: every check passed.");
 	else
-		proof_textf(p, x, y, ALIGN_LEFT,
-			    "%zu finding%s (%zu error%s, %zu warning%s), each "
-			    "marked with its number; listed on the next "
-			    "sheet%s.",
-			    r->count, r->count == 1 ? "" : "s", r->errors,
-			    r->errors == 1 ? "" : "s", r->warnings,
-			    r->warnings == 1 ? "" : "s",
-			    p->plan.finding_sheets > 2 ? "s" : "");
-	if (r->count > finding_count(p->build))
-		proof_textf(p, x, y + 4.5, ALIGN_LEFT,
-			    "The first %zu are marked and listed; report.txt "
-			    "has them all.",
-			    finding_count(p->build));
+		snprintf(text, sizeof(text),
+			 "%zu finding%s (%zu error%s, %zu warning%s), each "
+			 "marked with its number; listed on the next "
+			 "sheet%s.",
+			 r->count, r->count == 1 ? "" : "s", r->errors,
+			 r->errors == 1 ? "" : "s", r->warnings,
+			 r->warnings == 1 ? "" : "s",
+			 p->plan.finding_sheets > 2 ? "s" : "");
+	y = proof_paragraph(p, x, y, w, PROOF_LETTER_TITLE, text);
+	proof_letter(p, PROOF_LETTER, false);
+	if (r->count > finding_count(p->build)) {
+		snprintf(text, sizeof(text),
+			 "The first %zu are marked and listed; report.txt "
+			 "has them all.",
+			 finding_count(p->build));
+		y = proof_paragraph(p, x, y, w, PROOF_LETTER, text);
+	}
 	/* what the checks skipped or stood in for, one line each */
-	proof_font(p, 2.2, false);
-	if (r->count > finding_count(p->build))
-		y += 4.5;
 	const char *s = r->notes.data ? r->notes.data : "";
 	for (int line = 0; *s && line < 6; line++) {
 		const char *end = strchr(s, '\n');
 		size_t n = end ? (size_t)(end - s) : strlen(s);
-		char text[256];
 		snprintf(text, sizeof(text), "%.*s", (int)n, s);
-		proof_text(p, x, y + 4.5 + line * 3.2, ALIGN_LEFT, text);
+		y = proof_paragraph(p, x, y, w, PROOF_LETTER, text);
 		s += n + (end != NULL);
 	}
 }
@@ -751,15 +769,17 @@ void proof_sheets_findings(struct proof *p)
 	proof_paint_layer(p, GP_LAYER_FRONT_ITO, 0.2);
 	proof_paint_layer(p, GP_LAYER_BACK_ITO, 0.2);
 	proof_plate_outlines(p, &p->view, true, true);
-	findings_summary(p, x0, y0 + 11);
+	findings_summary(p, x0, PROOF_TOP + PROOF_ASCENT *
+					     proof_em(PROOF_LETTER_TITLE, true),
+			 x1 - x0);
 	/* later findings under earlier ones: number 1 stays on top */
 	for (size_t i = n; i-- > 0;)
 		finding_mark(p, i + 1, &r->findings[i]);
 	proof_end_sheet(p);
 
 	int rows, columns;
-	struct table t = finding_table();
-	table_capacity(&p->plan, t.width, &rows, &columns);
+	finding_capacity(&p->plan, &rows, &columns);
+	double pitch = proof_line_pitch(PROOF_LETTER);
 	size_t next = 0;
 	for (int sheet = 1; sheet < p->plan.finding_sheets; sheet++) {
 		char title[64];
@@ -767,16 +787,15 @@ void proof_sheets_findings(struct proof *p)
 			 sheet, p->plan.finding_sheets - 1);
 		proof_begin_sheet(p, title);
 		for (int c = 0; c < columns && next < n; c++) {
-			double x = x0 + c * (t.width + 4);
-			double y = y0 + TABLE_TOP;
-			table_row(p, x, y, &t, t.header, true);
-			y += ROW_H;
-			table_rule(p, x, y, t.width);
-			for (int k = 0; k + 1 < rows && next < n; k += 2) {
-				finding_row(p, &t, x, y, next + 1,
-					    &r->findings[next]);
+			double x = x0 + c * (FINDING_COLUMN + 6);
+			double y = PROOF_TOP + PROOF_ASCENT *
+						       proof_em(PROOF_LETTER,
+								true);
+			for (int k = 0; k < rows && next < n; k++) {
+				finding_lines(p, x, y, FINDING_COLUMN,
+					      next + 1, &r->findings[next]);
 				next++;
-				y += 2 * ROW_H;
+				y += FINDING_LINES * pitch + 2;
 			}
 		}
 		proof_end_sheet(p);
@@ -785,51 +804,19 @@ void proof_sheets_findings(struct proof *p)
 
 /* --- cautions ------------------------------------------------------------------------ */
 
-/* Writes text in lines no wider than width; returns the y after it. */
-static double wrap(struct proof *p, double x, double y, double width,
-		   double line, const char *text)
-{
-	char buffer[1024];
-	size_t n = 0;
-	const char *word = text;
-	while (*word) {
-		const char *end = strchr(word, ' ');
-		size_t len = end ? (size_t)(end - word) : strlen(word);
-		char trial[1024];
-		snprintf(trial, sizeof(trial), "%.*s%s%.*s", (int)n, buffer,
-			 n ? " " : "", (int)len, word);
-		if (n && proof_text_width(p, trial) > width) {
-			buffer[n] = '\0';
-			proof_text(p, x, y, ALIGN_LEFT, buffer);
-			y += line;
-			snprintf(buffer, sizeof(buffer), "%.*s", (int)len, word);
-		} else {
-			snprintf(buffer, sizeof(buffer), "%s", trial);
-		}
-		n = strlen(buffer);
-		word += len;
-		while (*word == ' ')
-			word++;
-	}
-	if (n) {
-		proof_text(p, x, y, ALIGN_LEFT, buffer);
-		y += line;
-	}
-	return y;
-}
-
 void proof_cautions(struct proof *p)
 {
-	double x = PROOF_MARGIN + 4;
-	double y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H + 3;
-	double w = p->plan.paper_w - 2 * PROOF_MARGIN - PROOF_TITLE_W - 8;
+	double x, y, w;
+	proof_note_area(p, &x, &y, &w);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
-	proof_font(p, 2.6, true);
+	proof_letter(p, PROOF_LETTER, true);
 	proof_text(p, x, y, ALIGN_LEFT, "Cautions");
-	proof_font(p, 2.1, false);
-	wrap(p, x, y + 3.5, w, 2.7,
-	     "Broken glass has sharp edges. Handle liquid-crystal fluid and "
-	     "solvents as their safety data sheets say. The drive voltages "
-	     "are low, but the instrument may carry dangerous voltages. The "
-	     "glass maker's rules and local regulations take precedence.");
+	proof_letter(p, PROOF_LETTER, false);
+	proof_paragraph(p, x, y + proof_line_pitch(PROOF_LETTER), w,
+			PROOF_LETTER,
+			"Broken glass has sharp edges. Handle liquid-crystal "
+			"fluid and solvents as their safety data sheets say. "
+			"The drive voltages are low, but the instrument may "
+			"carry dangerous voltages. The glass maker's rules and "
+			"local regulations take precedence.");
 }

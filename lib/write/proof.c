@@ -12,6 +12,7 @@
 #include <cairo-pdf.h>
 #include <ft2build.h>
 #include FT_FREETYPE_H
+#include FT_TRUETYPE_TABLES_H
 #include <pthread.h>
 #include <stdarg.h>
 #include <stdio.h>
@@ -104,6 +105,8 @@ bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
 	return gp_reader_end(&r);
 }
 
+static bool have_fonts(void);
+
 /* --- the plan ------------------------------------------------------------ */
 
 static struct gp_box glass_box(const struct gp_design *d)
@@ -111,39 +114,77 @@ static struct gp_box glass_box(const struct gp_design *d)
 	return gp_box_union(d->front.box, d->back.box);
 }
 
-/* Inner size (inside the frame) the overview needs at scale s. */
-static void overview_need(const struct gp_build *build, double s, double *w,
-			  double *h)
+/* The band above the title block on the overview: the 100 mm ruler and
+ * the legend beside it, in as many columns as the width holds. */
+#define RULER_BLOCK 18.0
+#define LEGEND_ROW 5.5
+
+static void foot_band(struct proof *p, double paper_w,
+		      struct gp_proof_plan *plan)
 {
-	double left, right, top, bottom;
-	proof_dim_room(build, &left, &right, &top, &bottom);
-	struct gp_box g = glass_box(build->design);
-	*w = left + right + s * gp_mm(gp_box_width(g));
-	*h = top + bottom + s * gp_mm(gp_box_height(g)) + PROOF_RULER_BAND +
-	     PROOF_TITLE_H;
-	/* the title block, a legend beside it, and the ruler */
-	double least = PROOF_TITLE_W + 60;
-	if (*w < least)
-		*w = least;
+	proof_letter(p, PROOF_LETTER, false);
+	double widest = 0;
+	for (int i = 0; i < proof_overview_legend_count; i++) {
+		double w = proof_text_width(p, proof_overview_legend[i].label);
+		if (w > widest)
+			widest = w;
+	}
+	double column = 10 + widest + 5;
+	double room = paper_w - 2 * PROOF_MARGIN - 8 -
+		      (GP_PROOF_RULER_MM + 12);
+	int columns = (int)(room / column);
+	if (columns < 1)
+		columns = 1;
+	int rows = (proof_overview_legend_count + columns - 1) / columns;
+	plan->legend_columns = columns;
+	plan->legend_column_w = column;
+	double legend_h = rows * LEGEND_ROW;
+	plan->foot_h = (legend_h > RULER_BLOCK ? legend_h : RULER_BLOCK) + 2;
 }
 
-static bool fits(const struct paper *paper, bool landscape, double w,
-		 double h)
+/* Inner size (inside the frame) the overview needs at scale s on paper
+ * paper_w wide; room is the dimensions' room at that scale. */
+static void overview_need(struct proof *p, const double room[SIDE_COUNT],
+			  double s, double paper_w, struct gp_proof_plan *plan,
+			  double *w, double *h)
 {
-	double pw = landscape ? paper->h : paper->w;
-	double ph = landscape ? paper->w : paper->h;
+	struct gp_box g = glass_box(p->design);
+	foot_band(p, paper_w, plan);
+	plan->note_h = proof_overview_note_height(
+		p, paper_w - 2 * PROOF_MARGIN - 8);
+	*w = room[SIDE_LEFT] + room[SIDE_RIGHT] + s * gp_mm(gp_box_width(g)) +
+	     8;
+	*h = (PROOF_TOP - PROOF_MARGIN) + plan->note_h + room[SIDE_TOP] +
+	     room[SIDE_BOTTOM] + s * gp_mm(gp_box_height(g)) + plan->foot_h +
+	     PROOF_TITLE_H + 4;
+	if (*w < PROOF_TITLE_W)
+		*w = PROOF_TITLE_W;
+}
+
+static bool fits(double pw, double ph, double w, double h)
+{
 	return w + 2 * PROOF_MARGIN <= pw && h + 2 * PROOF_MARGIN <= ph;
+}
+
+static void take_paper(const struct paper *paper, bool landscape,
+		       struct gp_proof_plan *plan)
+{
+	plan->paper_name = paper->name;
+	plan->landscape = landscape;
+	plan->paper_w = landscape ? paper->h : paper->w;
+	plan->paper_h = landscape ? paper->w : paper->h;
 }
 
 /* Tries the candidate papers smallest first; the orientation that suits
  * the glass's shape first. */
-static bool choose_paper(const struct gp_build *build, double s,
+static bool choose_paper(struct proof *p, double s,
 			 struct gp_proof_plan *plan)
 {
-	const struct gp_proof_spec *spec = &build->design->proof;
-	double w, h;
-	overview_need(build, s, &w, &h);
-	bool wide = w >= h;
+	const struct gp_proof_spec *spec = &p->design->proof;
+	double room[SIDE_COUNT];
+	proof_overview_room(p, s, room);
+	struct gp_box g = glass_box(p->design);
+	bool wide = gp_box_width(g) >= gp_box_height(g);
 	for (size_t i = 0; i < PAPER_COUNT; i++) {
 		const struct paper *paper = &papers[i];
 		if (spec->paper ? (size_t)spec->paper != i + 1
@@ -154,12 +195,13 @@ static bool choose_paper(const struct gp_build *build, double s,
 			if (spec->orientation &&
 			    landscape != (spec->orientation == 2))
 				continue;
-			if (!fits(paper, landscape, w, h))
+			double pw = landscape ? paper->h : paper->w;
+			double ph = landscape ? paper->w : paper->h;
+			double w, h;
+			overview_need(p, room, s, pw, plan, &w, &h);
+			if (!fits(pw, ph, w, h))
 				continue;
-			plan->paper_name = paper->name;
-			plan->landscape = landscape;
-			plan->paper_w = landscape ? paper->h : paper->w;
-			plan->paper_h = landscape ? paper->w : paper->h;
+			take_paper(paper, landscape, plan);
 			return true;
 		}
 	}
@@ -167,56 +209,62 @@ static bool choose_paper(const struct gp_build *build, double s,
 }
 
 /* The largest paper allowed, for glass too large for any scale tried. */
-static void largest_paper(const struct gp_build *build,
-			  struct gp_proof_plan *plan)
+static void largest_paper(struct proof *p, struct gp_proof_plan *plan)
 {
-	const struct gp_proof_spec *spec = &build->design->proof;
+	const struct gp_proof_spec *spec = &p->design->proof;
 	const struct paper *paper = NULL;
 	for (size_t i = 0; i < PAPER_COUNT; i++)
 		if (spec->paper ? (size_t)spec->paper == i + 1
 				: papers[i].series == spec->series)
 			paper = &papers[i];
-	plan->landscape = spec->orientation != 1;
-	plan->paper_name = paper->name;
-	plan->paper_w = plan->landscape ? paper->h : paper->w;
-	plan->paper_h = plan->landscape ? paper->w : paper->h;
+	bool landscape = spec->orientation != 1;
+	take_paper(paper, landscape, plan);
+	double room[SIDE_COUNT], w, h;
+	proof_overview_room(p, plan->scale, room);
+	overview_need(p, room, plan->scale, plan->paper_w, plan, &w, &h);
 }
 
-void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
+static void plan_sheets(struct proof *p, struct gp_proof_plan *plan)
 {
-	memset(plan, 0, sizeof(*plan));
+	const struct gp_build *build = p->build;
 	size_t n = sizeof(reductions) / sizeof(reductions[0]);
 	size_t k = 0;
-	while (k < n && !choose_paper(build, 1.0 / reductions[k], plan))
+	while (k < n && !choose_paper(p, 1.0 / reductions[k], plan))
 		k++;
 	if (k == n) {
 		k = n - 1;
-		largest_paper(build, plan);
+		plan->scale = 1.0 / reductions[k];
+		largest_paper(p, plan);
 	}
 	plan->scale_num = 1;
 	plan->scale_den = reductions[k];
 	plan->scale = 1.0 / reductions[k];
 
 	/* the glass centred in what the dimensions leave */
-	double left, right, top, bottom;
-	proof_dim_room(build, &left, &right, &top, &bottom);
+	double room[SIDE_COUNT];
+	proof_overview_room(p, plan->scale, room);
 	struct gp_box g = glass_box(build->design);
-	double x0 = PROOF_MARGIN + left;
-	double x1 = plan->paper_w - PROOF_MARGIN - right;
-	double y0 = PROOF_MARGIN + top;
+	double x0 = PROOF_MARGIN + 4 + room[SIDE_LEFT];
+	double x1 = plan->paper_w - PROOF_MARGIN - 4 - room[SIDE_RIGHT];
+	double y0 = PROOF_TOP + plan->note_h + room[SIDE_TOP];
 	double y1 = plan->paper_h - PROOF_MARGIN - PROOF_TITLE_H -
-		    PROOF_RULER_BAND - bottom;
+		    plan->foot_h - 2 - room[SIDE_BOTTOM];
 	double gw = plan->scale * gp_mm(gp_box_width(g));
 	double gh = plan->scale * gp_mm(gp_box_height(g));
 	plan->ox = (x0 + x1 - gw) / 2 - plan->scale * gp_mm(g.x0);
 	plan->oy = (y0 + y1 - gh) / 2 + plan->scale * gp_mm(g.y1);
-	plan->ruler_x = PROOF_MARGIN + 8;
-	plan->ruler_y = plan->paper_h - PROOF_MARGIN - PROOF_TITLE_H - 5;
+	double foot = plan->paper_h - PROOF_MARGIN - PROOF_TITLE_H -
+		      plan->foot_h;
+	plan->ruler_x = PROOF_MARGIN + 6;
+	plan->ruler_y = foot + RULER_BLOCK - 4;
+	plan->legend_x = plan->ruler_x + GP_PROOF_RULER_MM + 12;
+	plan->legend_y = foot + 1;
 
 	int sheet = 1;
 	plan->sheet_overview = sheet++;
 	sheet += 4;               /* front ITO, back ITO, seal, outlines */
-	plan->detail_sheets = proof_detail_sheet_count(build, plan);
+	p->plan = *plan;
+	plan->detail_sheets = proof_detail_sheet_count(p);
 	plan->sheet_details = sheet;
 	sheet += plan->detail_sheets;
 	plan->finding_sheets = proof_finding_sheet_count(build, plan);
@@ -229,8 +277,48 @@ void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
 	plan->sheet_spec = sheet;
 	sheet += plan->spec_sheets;
 	plan->sheet_lit = sheet;
-	sheet += 2;
+	plan->lit_sheets = build->design->block_count ? 2 : 1;
+	sheet += plan->lit_sheets;
 	plan->sheet_count = sheet - 1;
+}
+
+/* A context for measuring text while planning. */
+static bool measure_begin(struct proof *p, const struct gp_build *build)
+{
+	memset(p, 0, sizeof(*p));
+	p->build = build;
+	p->design = build->design;
+	p->art = &build->art;
+	if (!have_fonts())
+		return false;
+	cairo_surface_t *surface =
+		cairo_recording_surface_create(CAIRO_CONTENT_COLOR_ALPHA, NULL);
+	p->cr = cairo_create(surface);
+	cairo_surface_destroy(surface);
+	return true;
+}
+
+static void measure_end(struct proof *p)
+{
+	if (p->cr)
+		cairo_destroy(p->cr);
+	p->cr = NULL;
+}
+
+void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
+{
+	memset(plan, 0, sizeof(*plan));
+	struct proof p;
+	if (!measure_begin(&p, build)) {
+		/* no fonts: gp_proof_write says so; a plan that holds */
+		take_paper(&papers[0], true, plan);
+		plan->scale = 1;
+		plan->scale_num = plan->scale_den = 1;
+		plan->sheet_count = 1;
+		return;
+	}
+	plan_sheets(&p, plan);
+	measure_end(&p);
 }
 
 /* --- primitives ----------------------------------------------------------- */
@@ -264,6 +352,7 @@ static struct {
 	pthread_once_t once;
 	FT_Library library;
 	cairo_font_face_t *faces[3];
+	double cap[3];            /* cap height per em (OS/2 sCapHeight) */
 	bool ok;
 } fonts = { .once = PTHREAD_ONCE_INIT };
 
@@ -274,6 +363,7 @@ static void done_face(void *face)
 
 static cairo_font_face_t *open_face(int kind)
 {
+	fonts.cap[kind] = 0.7;
 	static const cairo_user_data_key_t key;
 	struct gp_diag diag;
 	gp_diag_init(&diag);
@@ -286,6 +376,10 @@ static cairo_font_face_t *open_face(int kind)
 	gp_font_destroy(font);
 	if (!ok)
 		return NULL;
+	const TT_OS2 *os2 = FT_Get_Sfnt_Table(face, FT_SFNT_OS2);
+	if (os2 && os2->version >= 2 && os2->sCapHeight > 0 &&
+	    face->units_per_EM)
+		fonts.cap[kind] = (double)os2->sCapHeight / face->units_per_EM;
 	cairo_font_face_t *cf =
 		cairo_ft_font_face_create_for_ft_face(face, FT_LOAD_NO_HINTING);
 	if (cairo_font_face_set_user_data(cf, &key, face, done_face)) {
@@ -312,6 +406,11 @@ static bool have_fonts(void)
 	return fonts.ok;
 }
 
+cairo_font_face_t *gp_proof_text_face(void)
+{
+	return have_fonts() ? fonts.faces[0] : NULL;
+}
+
 void proof_font(struct proof *p, double size, bool bold)
 {
 	cairo_set_font_face(p->cr, fonts.faces[bold]);
@@ -322,6 +421,97 @@ void proof_font_mono(struct proof *p, double size)
 {
 	cairo_set_font_face(p->cr, fonts.faces[2]);
 	cairo_set_font_size(p->cr, size);
+}
+
+double proof_em(double cap, bool bold)
+{
+	return cap / fonts.cap[bold];
+}
+
+void proof_letter(struct proof *p, double cap, bool bold)
+{
+	proof_font(p, proof_em(cap, bold), bold);
+}
+
+void proof_letter_mono(struct proof *p, double cap)
+{
+	proof_font_mono(p, cap / fonts.cap[2]);
+}
+
+double proof_line_pitch(double cap)
+{
+	return PROOF_BOX * proof_em(cap, false) + 1.0;
+}
+
+bool proof_fonts_ready(void)
+{
+	return have_fonts();
+}
+
+/* Fits text into width at the current font: whole, or cut with an
+ * ellipsis (never smaller lettering). */
+static void fit_text(struct proof *p, const char *text, double width,
+		     char *out, size_t size)
+{
+	snprintf(out, size, "%s", text);
+	size_t n = strlen(out);
+	while (n > 0 && proof_text_width(p, out) > width) {
+		do
+			n--;
+		while (n > 0 && (out[n] & 0xc0) == 0x80);
+		snprintf(out + n, size - n, "\xe2\x80\xa6");
+	}
+}
+
+/* Lays text out in lines of width; draws them when draw, from baseline
+ * y; returns the number of lines. */
+static int paragraph(struct proof *p, double x, double y, double width,
+		     double cap, const char *text, bool draw)
+{
+	double pitch = proof_line_pitch(cap);
+	char line[1024] = "";
+	size_t n = 0;
+	int lines = 0;
+	const char *word = text;
+	while (*word) {
+		size_t len = strcspn(word, " ");
+		char trial[1024];
+		snprintf(trial, sizeof(trial), "%.*s%s%.*s", (int)n, line,
+			 n ? " " : "", (int)len, word);
+		if (n && proof_text_width(p, trial) > width) {
+			if (draw)
+				proof_text(p, x, y, ALIGN_LEFT, line);
+			y += pitch;
+			lines++;
+			snprintf(line, sizeof(line), "%.*s", (int)len, word);
+		} else {
+			snprintf(line, sizeof(line), "%s", trial);
+		}
+		n = strlen(line);
+		word += len;
+		while (*word == ' ')
+			word++;
+	}
+	if (n) {
+		if (draw)
+			proof_text(p, x, y, ALIGN_LEFT, line);
+		lines++;
+	}
+	return lines;
+}
+
+double proof_paragraph(struct proof *p, double x, double y, double width,
+		       double cap, const char *text)
+{
+	int lines = paragraph(p, x, y, width, cap, text, true);
+	return y + lines * proof_line_pitch(cap);
+}
+
+double proof_paragraph_height(struct proof *p, double width, double cap,
+			      const char *text)
+{
+	int lines = paragraph(p, 0, 0, width, cap, text, false);
+	return lines * proof_line_pitch(cap);
 }
 
 double proof_text_width(struct proof *p, const char *text)
@@ -365,33 +555,77 @@ void proof_line(struct proof *p, double x0, double y0, double x1, double y1,
 	cairo_stroke(p->cr);
 }
 
+/* Notes (cautions, what a design lacks) go beside the title block when
+ * there is room, else in a band above it. */
+#define NOTE_SIDE_LEAST 70.0
+#define NOTE_BAND_LINES 4
+
+static bool notes_beside(const struct gp_proof_plan *plan)
+{
+	return plan->paper_w - 2 * PROOF_MARGIN - PROOF_TITLE_W - 8 >=
+	       NOTE_SIDE_LEAST;
+}
+
+double proof_area_bottom(const struct gp_proof_plan *plan)
+{
+	double y = plan->paper_h - PROOF_MARGIN - PROOF_TITLE_H - 4;
+	if (!notes_beside(plan))
+		y -= NOTE_BAND_LINES * proof_line_pitch(PROOF_LETTER) + 2;
+	return y;
+}
+
+void proof_note_area(const struct proof *p, double *x, double *y,
+		     double *w)
+{
+	double em = proof_em(PROOF_LETTER, false);
+	*x = PROOF_MARGIN + 4;
+	if (notes_beside(&p->plan)) {
+		*w = p->plan.paper_w - 2 * PROOF_MARGIN - PROOF_TITLE_W - 8;
+		*y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H + 1 +
+		     PROOF_ASCENT * em;
+	} else {
+		*w = p->plan.paper_w - 2 * PROOF_MARGIN - 8;
+		*y = proof_area_bottom(&p->plan) + 2 + PROOF_ASCENT * em;
+	}
+}
+
+void proof_text_fitted(struct proof *p, double x, double y, double width,
+		       const char *text)
+{
+	char fitted[512];
+	fit_text(p, text, width, fitted, sizeof(fitted));
+	proof_text(p, x, y, ALIGN_LEFT, fitted);
+}
+
 void proof_area(const struct proof *p, double *x0, double *y0, double *x1,
 		double *y1)
 {
 	*x0 = PROOF_MARGIN + 4;
 	*y0 = PROOF_MARGIN + 4;
 	*x1 = p->plan.paper_w - PROOF_MARGIN - 4;
-	*y1 = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H - 4;
+	*y1 = proof_area_bottom(&p->plan);
 }
 
 /* --- frame and title block --------------------------------------------------- */
 
 static void title_cell(struct proof *p, double x, double y, double w,
 		       double h, const char *label, const char *value,
-		       double size, bool bold)
+		       double cap, bool bold)
 {
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
 	cairo_set_line_width(p->cr, 0.25);
 	cairo_rectangle(p->cr, x, y, w, h);
 	cairo_stroke(p->cr);
-	proof_font(p, 1.8, false);
-	proof_text(p, x + 1.2, y + 2.6, ALIGN_LEFT, label);
-	proof_font(p, size, bold);
-	/* shrink long values into the cell */
-	double tw = proof_text_width(p, value);
-	if (tw > w - 2.4)
-		proof_font(p, size * (w - 2.4) / tw, bold);
-	proof_text(p, x + 1.2, y + h - 1.6, ALIGN_LEFT, value);
+	proof_letter(p, PROOF_LETTER, false);
+	proof_text(p, x + 1.2, y + 0.6 + PROOF_ASCENT * proof_em(PROOF_LETTER,
+								   false),
+		   ALIGN_LEFT, label);
+	proof_letter(p, cap, bold);
+	char fitted[256];
+	fit_text(p, value, w - 2.4, fitted, sizeof(fitted));
+	proof_text(p, x + 1.2, y + h - 0.6 - PROOF_DESCENT *
+						 proof_em(cap, bold),
+		   ALIGN_LEFT, fitted);
 }
 
 static void glass_thickness(const struct proof *p, char *buffer, size_t size)
@@ -423,30 +657,38 @@ static void title_block(struct proof *p, const char *title)
 	double w = PROOF_TITLE_W, h = PROOF_TITLE_H / 4;
 	double x = p->plan.paper_w - PROOF_MARGIN - w;
 	double y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H;
+	double big = PROOF_LETTER_TITLE;
 	char a[64], b[64], c[64];
 
-	title_cell(p, x, y, 45, h, "Part number", d->part, 3.5, true);
-	title_cell(p, x + 45, y, w - 45, h, "Title", d->title, 2.5, false);
+	title_cell(p, x, y, 55, h, "Part number", d->part, big, true);
+	title_cell(p, x + 55, y, w - 55, h, "Title", d->title, PROOF_LETTER,
+		   false);
 	y += h;
 	revision_date(p, b, sizeof(b));
-	title_cell(p, x, y, 30, h, "Revision", d->revision, 3.0, true);
-	title_cell(p, x + 30, y, 45, h, "Revision date", b, 2.5, false);
-	title_cell(p, x + 75, y, w - 75, h, "Units", "mm", 2.5, false);
-	y += h;
-	snprintf(a, sizeof(a), "%d:%d", p->plan.scale_num,
-		 p->plan.scale_den);
 	glass_thickness(p, c, sizeof(c));
+	title_cell(p, x, y, 30, h, "Revision", d->revision, big, true);
+	title_cell(p, x + 30, y, 45, h, "Revision date", b, PROOF_LETTER,
+		   false);
+	title_cell(p, x + 75, y, 45, h, "Glass thickness", c, PROOF_LETTER,
+		   false);
 	snprintf(b, sizeof(b), "%s %s", p->plan.paper_name,
 		 p->plan.landscape ? "landscape" : "portrait");
-	title_cell(p, x, y, 30, h, "Scale", a, 3.0, true);
-	title_cell(p, x + 30, y, 45, h, "Glass thickness", c, 2.5, false);
-	title_cell(p, x + 75, y, w - 75, h, "Paper", b, 2.5, false);
+	title_cell(p, x + 120, y, w - 120, h, "Paper", b, PROOF_LETTER, false);
 	y += h;
+	title_cell(p, x, y, w, h, "Sheet title", title, PROOF_LETTER, false);
+	y += h;
+	if (p->sheet_scale)
+		snprintf(a, sizeof(a), "%s", p->sheet_scale);
+	else
+		snprintf(a, sizeof(a), "%d:%d", p->plan.scale_num,
+			 p->plan.scale_den);
+	title_cell(p, x, y, 45, h, "Scale", a, big, true);
 	snprintf(a, sizeof(a), "%d of %d", p->sheet, p->plan.sheet_count);
+	title_cell(p, x + 45, y, 40, h, "Sheet", a, big, true);
+	title_cell(p, x + 85, y, 25, h, "Units", "mm", PROOF_LETTER, false);
 	snprintf(b, sizeof(b), "glassplot %s", GP_VERSION);
-	title_cell(p, x, y, 30, h, "Sheet", a, 3.0, true);
-	title_cell(p, x + 30, y, 65, h, "Sheet title", title, 2.5, false);
-	title_cell(p, x + 95, y, w - 95, h, "Drawn by", b, 2.0, false);
+	title_cell(p, x + 110, y, w - 110, h, "Drawn by", b, PROOF_LETTER,
+		   false);
 }
 
 void proof_begin_sheet(struct proof *p, const char *title)
@@ -462,8 +704,9 @@ void proof_begin_sheet(struct proof *p, const char *title)
 	cairo_stroke(cr);
 	title_block(p, title);
 	cairo_set_source_rgb(cr, 0, 0, 0);
-	proof_font(p, 4.0, true);
-	proof_text(p, PROOF_MARGIN + 4, PROOF_MARGIN + 7, ALIGN_LEFT, title);
+	proof_letter(p, PROOF_LETTER_SHEET, true);
+	proof_text(p, PROOF_MARGIN + 4, PROOF_SHEET_TITLE_Y, ALIGN_LEFT,
+		   title);
 }
 
 void proof_end_sheet(struct proof *p)
@@ -471,6 +714,7 @@ void proof_end_sheet(struct proof *p)
 	cairo_restore(p->cr);
 	cairo_show_page(p->cr);
 	p->sheet++;
+	p->sheet_scale = NULL;
 }
 
 static void swatch(struct proof *p, double x, double y,
@@ -501,18 +745,17 @@ static void swatch(struct proof *p, double x, double y,
 void proof_legend(struct proof *p, const struct proof_legend_item *items,
 		  int count)
 {
-	double x = PROOF_MARGIN + 4;
-	double y = p->plan.paper_h - PROOF_MARGIN - PROOF_TITLE_H + 2;
-	double column = (p->plan.paper_w - 2 * PROOF_MARGIN - PROOF_TITLE_W -
-			 8) / 2;
-	if (column > 70)
-		column = 70;
-	proof_font(p, PROOF_TEXT, false);
+	proof_letter(p, PROOF_LETTER, false);
+	double em = proof_em(PROOF_LETTER, false);
+	int columns = p->plan.legend_columns > 0 ? p->plan.legend_columns : 1;
 	for (int i = 0; i < count; i++) {
-		double cx = x + (i % 2) * column, cy = y + (i / 2) * 6.0;
-		swatch(p, cx, cy, &items[i]);
+		double cx = p->plan.legend_x +
+			    (i % columns) * p->plan.legend_column_w;
+		double cy = p->plan.legend_y + (i / columns) * LEGEND_ROW;
+		swatch(p, cx, cy + 0.5, &items[i]);
 		cairo_set_source_rgb(p->cr, 0, 0, 0);
-		proof_text(p, cx + 10, cy + 3.3, ALIGN_LEFT, items[i].label);
+		proof_text(p, cx + 10, cy + 0.3 + PROOF_ASCENT * em, ALIGN_LEFT,
+			   items[i].label);
 	}
 }
 
@@ -559,7 +802,8 @@ static void draw_sheets(struct proof *p)
 	proof_sheets_pins(p);
 	proof_sheets_spec(p);
 	proof_sheet_lit(p, false);
-	proof_sheet_lit(p, true);
+	if (p->plan.lit_sheets > 1)
+		proof_sheet_lit(p, true);
 }
 
 static void proof_finish(struct proof *p)

@@ -14,6 +14,7 @@
 #include "buffer.h"
 #include "diag.h"
 
+#include <cairo.h>
 #include <stdbool.h>
 
 /* Where things are on the sheets; computed before anything is drawn. */
@@ -27,11 +28,15 @@ struct gp_proof_plan {
 	/* Glass to paper on the overview-like sheets:
 	 * paper x = ox + scale * x_mm, paper y = oy - scale * y_mm. */
 	double ox, oy;
-	/* Left end of the 100 mm ruler's baseline on the overview. */
+	/* Left end of the 100 mm ruler's baseline on the overview; the band
+	 * above the title block holding it and the legend. */
 	double ruler_x, ruler_y;
+	double foot_h, note_h;
+	double legend_x, legend_y, legend_column_w;
+	int legend_columns;
 	/* Sheet numbers (1-based) and the total. */
 	int sheet_overview, sheet_findings, sheet_pins, sheet_spec;
-	int sheet_lit, sheet_count;
+	int sheet_lit, lit_sheets, sheet_count;
 	int sheet_details, detail_sheets, pin_sheets, finding_sheets;
 	int spec_sheets;
 };
@@ -47,5 +52,10 @@ void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan);
  * date; the same build gives the same bytes. */
 bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 		    struct gp_diag *diag);
+
+/* The proof's regular text face, for other drawings made with cairo
+ * (cairo's own fontconfig lookup for its toy fonts leaks); shared and
+ * never destroyed by the caller; NULL when no font is installed. */
+cairo_font_face_t *gp_proof_text_face(void);
 
 #endif
