@@ -108,12 +108,13 @@ void gp_escape_gerber(struct gp_buffer *out, const char *text)
 	for (const char *p = text; *p;) {
 		uint32_t cp;
 		size_t n = gp_utf8_next(p, &cp);
+		if (n == 1 && cp >= 0x80)
+			cp = 0xfffd;
 		if (cp == ',' || cp == '*' || cp == '%' || cp == '\\' ||
-		    gp_is_control(cp) || gp_is_bidi_control(cp) ||
-		    (n == 1 && cp >= 0x80))
+		    cp < 0x20 || cp >= 0x7f)
 			put_u(out, cp);
 		else
-			gp_buffer_append(out, p, n);
+			gp_buffer_append(out, p, 1);
 		p += n;
 	}
 }

@@ -46,10 +46,11 @@ void gp_escape_c_string(struct gp_buffer *out, const char *text);
  * or starts or ends with a space; as it is otherwise. */
 void gp_escape_csv(struct gp_buffer *out, const char *text);
 
-/* A Gerber string (Gerber Layer Format Specification, section 3.4.3,
- * "String"): the reserved '%' and '*', the field separator ',' and the
- * escape character '\', controls (Cc) and bidi controls become \uXXXX
- * escapes; the rest of UTF-8 is kept. */
+/* A Gerber string (Gerber Layer Format Specification, sections 3.1 and
+ * 3.4.3): printable ASCII as it is but the reserved '%' and '*', the
+ * field separator ',' and the escape character '\'; those and every other
+ * character as \uXXXX (\UXXXXXXXX beyond 16 bits), a byte that is not
+ * UTF-8 as U+FFFD.  The same rule as the Gerber writer's. */
 void gp_escape_gerber(struct gp_buffer *out, const char *text);
 
 /* Text for a terminal: controls (escape sequences start with one), bidi

@@ -4,12 +4,11 @@
  * common (patch.h) notched around front traces, joined by back bridges
  * that keep clear of the front; one intended pixel per icon; summary
  * lines. */
-#include "build.h"
+#include "layout.h"
 #include "digits.h"
 #include "font.h"
 #include "icons.h"
 #include "patch.h"
-#include "route.h"
 #include "units.h"
 
 #include <math.h>

@@ -3,7 +3,7 @@
  * icon-layout.c. */
 #include "model.h"
 
-#include "digits.h"
+#include "digits-spec.h"
 #include "units.h"
 
 #include <stdio.h>

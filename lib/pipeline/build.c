@@ -4,6 +4,7 @@
 #include "gerber.h"
 #include "output.h"
 #include "proof.h"
+#include "staged-file.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -257,6 +258,11 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	free(build);
 }
 
+GP_EXPORT void gp_build_set_depfile(struct gp_build *build, const char *path)
+{
+	build->depfile = path;
+}
+
 GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch)
 {
 	build->has_epoch = true;
@@ -321,39 +327,9 @@ GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
 	return selected != 0;
 }
 
-bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind)
-{
-	return (build->outputs & (unsigned)kind) != 0;
-}
-
-bool gp_build_add_input(struct gp_build *build, const char *path)
-{
-	const char *list = build->inputs.data ? build->inputs.data : "";
-	size_t length = strlen(path);
-	for (const char *p = list; *p;) {
-		const char *end = strchr(p, '\n');
-		if ((size_t)(end - p) == length && strncmp(p, path, length) == 0)
-			return true;
-		p = end + 1;
-	}
-	return gp_buffer_printf(&build->inputs, "%s\n", path);
-}
-
 GP_EXPORT const char *gp_build_inputs(const struct gp_build *build)
 {
 	return build->inputs.data ? build->inputs.data : "";
-}
-
-const char *gp_build_date(const struct gp_build *build, char *buffer,
-			  size_t size)
-{
-	if (!build->has_epoch)
-		return NULL;
-	time_t t = (time_t)build->epoch;
-	struct tm tm;
-	if (!gmtime_r(&t, &tm) || strftime(buffer, size, "%Y-%m-%d", &tm) == 0)
-		return NULL;
-	return buffer;
 }
 
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build)
@@ -365,6 +341,11 @@ GP_EXPORT const char *gp_build_written(const struct gp_build *build)
 {
 	return build->written.data ? build->written.data : "";
 }
+
+static bool add_gerber_files(const struct gp_build *build,
+			     struct gp_output_set *set,
+			     const struct gp_gerber_info *info,
+			     struct gp_diag *diag);
 
 static bool add_gerbers(const struct gp_build *build,
 			struct gp_output_set *set, struct gp_diag *diag)
@@ -380,6 +361,31 @@ static bool add_gerbers(const struct gp_build *build,
 		info.creation_date = date;
 	if (!gp_build_wants(build, GP_OUTPUT_GERBER))
 		return true;
+	info.revision = build->design->revision;
+	struct gp_gerber_pin *pins =
+		calloc(build->pin_count ? build->pin_count : 1, sizeof(*pins));
+	if (!pins)
+		return gp_diag_error(diag, NULL, "out of memory");
+	for (size_t i = 0; i < build->pin_count; i++) {
+		const struct gp_pin *p = &build->pins[i];
+		pins[i] = (struct gp_gerber_pin){
+			p->box, p->number,
+			p->ledge >= 0 && (size_t)p->ledge < build->ledge_count
+				? build->ledges[p->ledge].name
+				: NULL };
+	}
+	info.pins = pins;
+	info.pin_count = build->pin_count;
+	bool ok = add_gerber_files(build, set, &info, diag);
+	free(pins);
+	return ok;
+}
+
+static bool add_gerber_files(const struct gp_build *build,
+			     struct gp_output_set *set,
+			     const struct gp_gerber_info *info,
+			     struct gp_diag *diag)
+{
 	for (int layer = 0; layer < GP_LAYER_COUNT; layer++) {
 		bool used = false;
 		for (size_t i = 0; i < build->art.shape_count && !used; i++)
@@ -394,7 +400,7 @@ static bool add_gerbers(const struct gp_build *build,
 		if (!out)
 			return false;
 		if (!gp_gerber_write_why(out, &build->art,
-					 (enum gp_layer)layer, &info, why,
+					 (enum gp_layer)layer, info, why,
 					 sizeof(why)))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
 					     "Gerber file: %s", name, why);
@@ -449,8 +455,15 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	stage(build, "writing");
+	/* the dependency file is staged first and put in place last, so
+	 * that when it cannot be written nothing is */
+	struct gp_staged_file depfile = { NULL, NULL };
 	bool ok = gp_build_outputs(build, &set, diag) &&
-		  gp_output_commit(&set, folder, diag);
+		  (!build->depfile ||
+		   gp_depfile_stage(build, &set, folder, &depfile, diag)) &&
+		  gp_output_commit(&set, folder, diag) &&
+		  (!build->depfile || gp_staged_file_commit(&depfile, diag));
+	gp_staged_file_discard(&depfile);
 	build->written.size = 0;
 	for (size_t i = 0; ok && i < set.count; i++) {
 		gp_buffer_printf(&build->written, "%s\n", set.files[i].name);

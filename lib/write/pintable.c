@@ -2,6 +2,7 @@
  * (pintable.h). */
 #include "pintable.h"
 
+#include "digits.h"
 #include "escape.h"
 #include "route.h"
 

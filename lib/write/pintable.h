@@ -13,7 +13,7 @@
 #ifndef GP_PINTABLE_H
 #define GP_PINTABLE_H
 
-#include "build.h"
+#include "stage.h"
 
 #include <stdbool.h>
 #include <stddef.h>
