@@ -158,6 +158,12 @@ struct gp_icon {
 	 * slot of a digit row first (icon-layout.c) */
 	bool auto_slot;
 	struct gp_where slot_where;
+	/* a cell of an array ('array:'): its name is made, cell counts from
+	 * 1; turn is the arc's angle at the cell, degrees anticlockwise */
+	char *made_name;          /* owned, or NULL */
+	char *made_segment;       /* owned: a cell's own segment name */
+	long cell;                /* 0 unless a cell of an array */
+	double turn;
 	struct gp_where common_where, segment_where;
 };
 

@@ -1,5 +1,7 @@
 #include "spec.h"
 
+#include "escape.h"
+
 #include "units.h"
 
 #include <errno.h>
@@ -105,6 +107,33 @@ static bool check_map_keys(struct convert *c, struct gp_node *node)
 	return true;
 }
 
+/* Control characters (a YAML escape such as "\e" or "\x07" makes them)
+ * would reach the terminal, a CSV field, a Gerber string or a C comment
+ * raw: refused, as is text that is not UTF-8 (libyaml checks its input;
+ * this also covers "--set" values). */
+static bool printable(const char *text, const struct gp_where *where,
+		      struct gp_diag *diag)
+{
+	for (const char *p = text; *p;) {
+		uint32_t cp;
+		size_t n = gp_utf8_next(p, &cp);
+		if (n == 1 && cp >= 0x80)
+			return gp_diag_error(diag, where,
+					     "a value holds the byte 0x%02X "
+					     "at byte %zu, which is not UTF-8",
+					     (unsigned)cp, (size_t)(p - text) + 1);
+		if (gp_is_control(cp))
+			return gp_diag_error(diag, where,
+					     "a value holds the control "
+					     "character U+%04X at byte %zu; "
+					     "names and texts take printable "
+					     "characters only",
+					     (unsigned)cp, (size_t)(p - text) + 1);
+		p += n;
+	}
+	return true;
+}
+
 static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 				    int depth)
 {
@@ -144,6 +173,8 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		else if (strlen(node->text) != ynode->data.scalar.length)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value contains a NUL character");
+		else if (!printable(node->text, &where, c->diag))
+			ok = false;
 		else if (ynode->data.scalar.length > GP_SPEC_MAX_SCALAR)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value is %zu bytes long; the "
