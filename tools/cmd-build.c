@@ -66,6 +66,10 @@ int cmd_build(const struct tool_options *options)
 	int status = EXIT_BAD_INPUT;
 	if (build && has_epoch)
 		gp_build_set_epoch(build, epoch);
+	if (build && options->show && !gp_build_show(build, options->show, diag)) {
+		gp_build_destroy(build);
+		build = NULL;
+	}
 	if (build && (!options->only ||
 		      gp_build_select(build, options->only, diag)) &&
 	    gp_build_write(build, options->output, diag)) {

@@ -195,6 +195,17 @@ static int take(struct parse *parse, const struct tool_option *option,
 	case OPTION_STRICT: o->strict = true; break;
 	case OPTION_DEPFILE: o->depfile = value; break;
 	case OPTION_PDF: o->pdf = value; break;
+	case OPTION_SHOW: o->show = value; break;
+	case OPTION_DPI: {
+		char *end = NULL;
+		double dpi = strtod(value, &end);
+		if (*end || !(dpi >= 10 && dpi <= 2400))
+			return parse_error(parse, "'%s' takes dots per inch "
+					   "from 10 to 2400, not '%s'",
+					   spelling, value);
+		o->dpi = dpi;
+		break;
+	}
 	case OPTION_QUIET: o->verbosity = -1; break;
 	case OPTION_VERBOSE: o->verbosity = 1; break;
 	case OPTION_HELP:

@@ -8,6 +8,7 @@
  * cells and sheets show it. */
 #include "proof-internal.h"
 
+#include "preview.h"
 #include "units.h"
 
 #include <stdio.h>
@@ -492,7 +493,68 @@ void proof_sheet_lit(struct proof *p, bool checkerboard)
 	proof_pixels(p, v, checkerboard);
 	proof_viewing_area(p, v);
 	proof_plate_outlines(p, v, true, true);
-	if (checkerboard)
+	if (!checkerboard)
 		proof_cautions(p);
+	proof_end_sheet(p);
+}
+
+/* The glass lit with the content of --show: every pixel whose (common,
+ * segment) pair the content drives. */
+void proof_sheet_show(struct proof *p)
+{
+	const struct gp_show *show = p->build->show;
+	/* as large as the sheet holds (ISO 5455 enlargements), for a
+	 * reviewer to read it like the glass in the hand */
+	static const int enlargements[] = { 10, 5, 2, 1 };
+	static const char *const scales[] = { "10:1", "5:1", "2:1", "1:1" };
+	double x0, y0, x1, y1;
+	proof_area(p, &x0, &y0, &x1, &y1);
+	y0 = PROOF_TOP + 2 * proof_line_pitch(PROOF_LETTER);
+	struct gp_box g = gp_box_union(p->design->front.box,
+				       p->design->back.box);
+	double gw = gp_mm(gp_box_width(g)), gh = gp_mm(gp_box_height(g));
+	size_t k = 0;
+	while (k + 1 < 4 && (enlargements[k] * gw > x1 - x0 ||
+			     enlargements[k] * gh > y1 - y0))
+		k++;
+	struct proof_view view = { .s = enlargements[k] };
+	if (view.s * gw > x1 - x0 || view.s * gh > y1 - y0)
+		view = p->view;   /* reduced, as the overview */
+	else {
+		view.ox = (x0 + x1 - view.s * gw) / 2 - view.s * gp_mm(g.x0);
+		view.oy = (y0 + y1 - view.s * gh) / 2 + view.s * gp_mm(g.y1);
+		p->sheet_scale = scales[k];
+	}
+	const struct proof_view *v = &view;
+	char title[160];
+	snprintf(title, sizeof(title), "Lit preview: %s", show->spec);
+	proof_begin_sheet(p, title);
+	note(p, "The glass as the viewer sees it with this content, lit "
+		"through the (common, segment) pairs of the firmware map "
+		"(glass-map.h).");
+	proof_set_colour(p, glass_colour, 1.0);
+	proof_add_box(p, v, p->design->front.box);
+	proof_add_box(p, v, p->design->back.box);
+	cairo_fill(p->cr);
+	proof_set_colour(p, lcd_colours[negative(p)], 1.0);
+	proof_add_box(p, v, p->design->viewing);
+	cairo_fill(p->cr);
+	cairo_new_path(p->cr);
+	for (size_t i = 0; i < show->pixel_count; i++) {
+		if (!show->lit[i])
+			continue;
+		const struct gp_pixel *px = &p->art->pixels[i];
+		if (px->shape.outer.count)
+			proof_add_polygon(p, v, &px->shape);
+		else
+			proof_add_box(p, v, px->box);
+		for (size_t n = 0; n < px->more.count; n++)
+			proof_add_polygon(p, v, &px->more.items[n]);
+	}
+	proof_set_colour(p, lit_colours[negative(p)], 1.0);
+	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
+	cairo_fill(p->cr);
+	proof_viewing_area(p, v);
+	proof_plate_outlines(p, v, true, true);
 	proof_end_sheet(p);
 }

@@ -194,6 +194,7 @@ void proof_pin1(struct proof *p, const struct proof_view *v);
 void proof_sheet_overview(struct proof *p);
 void proof_sheet_layers(struct proof *p);
 void proof_sheet_lit(struct proof *p, bool checkerboard);
+void proof_sheet_show(struct proof *p);
 
 /* --- placing dimensions (proof-place.c) --------------------------------- */
 /* Paper rectangle, mm, y down. */
