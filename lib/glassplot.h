@@ -85,6 +85,12 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 /* Dates in the outputs come from epoch (seconds, as SOURCE_DATE_EPOCH);
  * without it no output carries a date. */
 GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch);
+/* With a path, gp_build_write also writes a make/ninja dependency file
+ * there (every output depends on the description and on every font read):
+ * staged beside path before the outputs are committed and renamed into
+ * place after them, so that when it cannot be written nothing is.  path
+ * is borrowed until then; NULL turns it off. */
+GP_EXPORT void gp_build_set_depfile(struct gp_build *build, const char *path);
 /* Write only these kinds of output: a comma-separated list of gerber,
  * proof, pins, firmware, report (checksums.sha256 is always written).
  * False, with a message, for a list gp_output_kinds_check refuses. */

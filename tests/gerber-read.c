@@ -2,6 +2,8 @@
 
 #include "units.h"
 
+#include <glib.h>
+
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -18,6 +20,13 @@ struct reader {
 	struct gp_ring contour;       /* region contour being read */
 	int contour_line;
 	bool failed;
+	/* the attribute dictionary (5.1) */
+	char function[GR_VALUE_MAX];  /* .AperFunction, "" when unset */
+	bool has_net;
+	char net[GR_VALUE_MAX];
+	char pin[GR_VALUE_MAX];
+	const char *text;             /* the whole file, for .MD5 */
+	const char *word_start;       /* where the current command began */
 };
 
 static bool violation(struct reader *r, const char *format, ...)
@@ -52,6 +61,16 @@ static struct gr_object *add_object(struct reader *r, enum gr_kind kind,
 	o->kind = kind;
 	o->line = line;
 	o->aperture = kind == GR_REGION ? 0 : r->current;
+	const struct gr_aperture *a = gr_aperture_find(f, o->aperture);
+	snprintf(o->function, sizeof(o->function), "%s",
+		 kind == GR_REGION ? r->function : a ? a->function : "");
+	o->has_net = r->has_net;
+	snprintf(o->net, sizeof(o->net), "%s", r->net);
+	snprintf(o->pin, sizeof(o->pin), "%s", r->pin);
+	if (r->pin[0] && kind != GR_FLASH)
+		violation(r, ".P on a draw or region (spec 5.6.14: \"The .P "
+			     "attribute can be attached to any pad belonging "
+			     "to a component pin, and only to those\")");
 	return o;
 }
 
@@ -97,7 +116,8 @@ static bool aperture_definition(struct reader *r, const char *word)
 	if (gr_aperture_find(r->file, (int)code))
 		return violation(r, "aperture D%ld defined twice (spec 4.3)",
 				 code);
-	struct gr_aperture a = { (int)code, *end, 0, 0 };
+	struct gr_aperture a = { (int)code, *end, 0, 0, "" };
+	snprintf(a.function, sizeof(a.function), "%s", r->function);
 	char params[128];
 	if ((*end != 'C' && *end != 'R') || end[1] != ',' ||
 	    strlen(end + 2) >= sizeof(params))
@@ -128,6 +148,92 @@ static bool aperture_definition(struct reader *r, const char *word)
 	return true;
 }
 
+/* .AperFunction values the writer may use, from the tables of 5.6.10. */
+static bool known_function(const char *value)
+{
+	static const char *const plain[] = {
+		"Conductor", "NonConductor", "ConnectorPad", "Profile",
+		"Material", "NonMaterial", NULL,
+	};
+	for (int i = 0; plain[i]; i++)
+		if (strcmp(value, plain[i]) == 0)
+			return true;
+	/* "Other,<mandatory field>" */
+	return strncmp(value, "Other,", 6) == 0 && value[6] != '\0';
+}
+
+static bool set_value(struct reader *r, char *slot, const char *value)
+{
+	if (strlen(value) >= GR_VALUE_MAX)
+		return violation(r, "attribute value too long for the test "
+				    "reader");
+	strcpy(slot, value);
+	return true;
+}
+
+/* %TA, %TO, %TD (5.3-5.5). */
+static bool dictionary_word(struct reader *r, const char *word)
+{
+	if (strncmp(word, "TA.AperFunction,", 16) == 0) {
+		if (!known_function(word + 16))
+			return violation(r, "'%s': not an .AperFunction value "
+					    "of spec 5.6.10", word);
+		return set_value(r, r->function, word + 16);
+	}
+	if (strncmp(word, "TO.N,", 5) == 0 || strcmp(word, "TO.N") == 0) {
+		r->has_net = true;
+		return set_value(r, r->net, word[4] ? word + 5 : "");
+	}
+	if (strncmp(word, "TO.P,", 5) == 0) {
+		/* <refdes>,<number>[,<function>], number not empty */
+		const char *comma = strchr(word + 5, ',');
+		if (comma == word + 5 || !comma || comma[1] == '\0' ||
+		    comma[1] == ',')
+			return violation(r, "'%s': .P needs a reference and a "
+					    "pin number (spec 5.6.14)", word);
+		return set_value(r, r->pin, word + 5);
+	}
+	if (strcmp(word, "TD") == 0) {
+		r->function[0] = r->net[0] = r->pin[0] = '\0';
+		r->has_net = false;
+		return true;
+	}
+	if (strcmp(word, "TD.AperFunction") == 0) {
+		r->function[0] = '\0';
+		return true;
+	}
+	if (strcmp(word, "TD.N") == 0) {
+		r->net[0] = '\0';
+		r->has_net = false;
+		return true;
+	}
+	if (strcmp(word, "TD.P") == 0) {
+		r->pin[0] = '\0';
+		return true;
+	}
+	return violation(r, "'%%%s': an attribute the writer does not use",
+			 word);
+}
+
+/* 5.6.9: "The signature is calculated over the bits from the beginning
+ * of the file up to but excluding the .MD5 file attribute command
+ * itself ... Any CR and LF are excluded". */
+static bool check_md5(struct reader *r, const char *given)
+{
+	GChecksum *md5 = g_checksum_new(G_CHECKSUM_MD5);
+	if (!md5)
+		return violation(r, "out of memory");
+	for (const char *p = r->text; p < r->word_start; p++)
+		if (*p != '\r' && *p != '\n')
+			g_checksum_update(md5, (const guchar *)p, 1);
+	bool same = strcmp(g_checksum_get_string(md5), given) == 0;
+	g_checksum_free(md5);
+	r->file->has_md5 = true;
+	return same ? true
+		    : violation(r, ".MD5 %s does not match the file (spec "
+				   "5.6.9)", given);
+}
+
 static bool extended_word(struct reader *r, const char *word)
 {
 	if (strncmp(word, "FS", 2) == 0) {
@@ -148,6 +254,14 @@ static bool extended_word(struct reader *r, const char *word)
 		if (strcmp(word, "LPD") != 0)
 			return violation(r, "'%s': only dark polarity is "
 					    "written (spec 4.9.2)", word);
+	} else if (strncmp(word, "TA", 2) == 0 || strncmp(word, "TO", 2) == 0 ||
+		   strncmp(word, "TD", 2) == 0) {
+		if (r->in_region)
+			return violation(r, "attribute inside a region (spec "
+					    "5.4)");
+		return dictionary_word(r, word);
+	} else if (strncmp(word, "TF.MD5,", 7) == 0) {
+		return check_md5(r, word + 7);
 	} else if (strncmp(word, "TF.", 3) == 0) {
 		if (r->in_region)
 			return violation(r, "attribute inside a region");
@@ -390,6 +504,7 @@ static bool read_all(struct reader *r, const char *text, size_t size)
 				return false;
 			continue;
 		}
+		r->word_start = p;
 		p++; /* an extended command: words up to the closing '%' */
 		do {
 			if (!next_word(r, &p, end, word, sizeof(word)) ||
@@ -410,11 +525,11 @@ static bool read_all(struct reader *r, const char *text, size_t size)
 bool gr_read(const char *text, size_t size, struct gr_file *file)
 {
 	memset(file, 0, sizeof(*file));
-	struct reader r = { .file = file, .line = 1 };
+	struct reader r = { .file = file, .line = 1, .text = text };
 	gp_ring_init(&r.contour);
 	bool ok = read_all(&r, text, size);
 	gp_ring_finish(&r.contour);
-	return ok;
+	return ok && !r.failed;
 }
 
 void gr_file_finish(struct gr_file *file)

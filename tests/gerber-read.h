@@ -18,7 +18,12 @@
  *            have no zero-length segment and no D03 / Dnn inside, and
  *            are valid (4.10.3, gr_contour_check)
  *   4.13     M02 last
- *   5.6      %TF file attributes (kept as text)
+ *   5.2-5.5  %TF file attributes (kept as text), %TA.AperFunction with a
+ *            value of 5.6.10 (attached to apertures defined and regions
+ *            made while it is set), %TO.N and %TO.P (attached to the
+ *            objects made while set), %TD; none inside a region (5.4)
+ *   5.6.9    .MD5 checked against the file
+ *   5.6.14   .P only on flashes
  *   8        deprecated: G54/G55, G70/G71, G90/G91, G74, M00/M01, %IN, %IP,
  *            %AS, %IR, %MI, %OF, %SF, %LN, draws with rectangles
  * It also rejects zero-length draws, which the writer promises not to
@@ -32,10 +37,13 @@
 #include <stddef.h>
 #include <stdint.h>
 
+#define GR_VALUE_MAX 96
+
 struct gr_aperture {
 	int code;
 	char kind;     /* 'C' circle (a = diameter) or 'R' (a x b) */
 	int64_t a, b;  /* nm */
+	char function[GR_VALUE_MAX]; /* .AperFunction when defined, or "" */
 };
 
 enum gr_kind {
@@ -49,6 +57,13 @@ struct gr_object {
 	int aperture;      /* D code for draws and flashes, 0 for regions */
 	struct gp_ring points;
 	int line;          /* where it starts in the file, 1-based */
+	/* 5.3, 5.4: the region's .AperFunction from the dictionary, or its
+	 * aperture's; the .N and .P object attributes ("" and has_net
+	 * false when absent) */
+	char function[GR_VALUE_MAX];
+	bool has_net;
+	char net[GR_VALUE_MAX];
+	char pin[GR_VALUE_MAX];
 };
 
 struct gr_file {
@@ -59,6 +74,7 @@ struct gr_file {
 	char **attributes;   /* "TF.FileFunction,Other,front-ito" ... */
 	size_t attribute_count;
 	char error[256];     /* first violation, "line N: ... (spec X)" */
+	bool has_md5;        /* .MD5 given (and matching: else an error) */
 };
 
 /* Reads text (need not be NUL-terminated).  False with file->error set on

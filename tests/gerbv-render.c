@@ -54,6 +54,29 @@ static bool run(char *const argv[], const char *err_path, char *err,
 	return true;
 }
 
+/* gerbv 2.9's note for an X2 attribute command, exactly:
+ * "Unknown RS-274X extension found %T?% at line N in file \"PATH\""
+ * with ? one of F, A, O, D, after its log prefix. */
+bool gerbv_known_note(const char *line)
+{
+	static const char head[] = "Unknown RS-274X extension found %T";
+	const char *p = strstr(line, head);
+	if (!p)
+		return false;
+	p += sizeof(head) - 1;
+	if (!*p || !strchr("FAOD", *p) || strncmp(p + 1, "% at line ", 10))
+		return false;
+	p += 11;
+	if (*p < '0' || *p > '9')
+		return false;
+	while (*p >= '0' && *p <= '9')
+		p++;
+	if (strncmp(p, " in file \"", 10))
+		return false;
+	const char *close = strrchr(p + 10, '"');
+	return close && strspn(close + 1, "\r\n") == strlen(close + 1);
+}
+
 /* Sorts gerbv's stderr into known notes and complaints. */
 static bool read_complaints(const char *path, struct gerbv_result *result)
 {
@@ -71,7 +94,7 @@ static bool read_complaints(const char *path, struct gerbv_result *result)
 	while (fgets(line, sizeof(line), f)) {
 		if (strspn(line, " \t\r\n") == strlen(line))
 			continue;
-		if (strstr(line, GERBV_KNOWN_NOTE)) {
+		if (gerbv_known_note(line)) {
 			result->known_notes++;
 			continue;
 		}

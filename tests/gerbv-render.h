@@ -6,9 +6,8 @@
  *         --background=#ffffff --foreground=#000000 -o PNG FILE
  * with a window placed in the glass frame, so every dark pixel maps back to
  * a place in millimetres.  gerbv exits 0 even on errors, so its stderr is
- * read: every non-blank line is a complaint except those carrying the exact
- * text of its known note about X2 file attributes,
- * "Unknown RS-274X extension found %TF%".  The PNG is read back with cairo
+ * read: every non-blank line is a complaint except gerbv's exact note
+ * about an X2 attribute command (gerbv_known_note).  The PNG is read back with cairo
  * and its dark pixels (no antialiasing: each pixel is dark or light) are
  * counted and bounded. */
 #ifndef GERBV_RENDER_H
@@ -17,8 +16,10 @@
 #include <stdbool.h>
 #include <stddef.h>
 
-/* The text that marks gerbv's known note about %TF% lines. */
-#define GERBV_KNOWN_NOTE "Unknown RS-274X extension found %TF%"
+/* Is line gerbv 2.9's note about an attribute command, exactly
+ * "Unknown RS-274X extension found %TF% at line N in file \"PATH\""
+ * (or %TA%, %TO%, %TD%) after its log prefix? */
+bool gerbv_known_note(const char *line);
 
 struct gerbv_frame {
 	/* Part of the glass frame to render, millimetres; the helper widens
@@ -36,7 +37,7 @@ struct gerbv_result {
 	bool any_dark;
 	double x0, y0, x1, y1;    /* extent of the dark pixels, mm */
 	bool dark_on_border;      /* drawing may run past the window */
-	int known_notes;          /* %TF% notes seen (and ignored) */
+	int known_notes;          /* attribute notes seen (and ignored) */
 	char *complaints;         /* other stderr lines, "" when none; owned */
 	/* the window: one byte per pixel, 1 where dark, rows from the top */
 	unsigned char *mask;

@@ -30,7 +30,8 @@ __extension__ typedef __int128 wide;
 
 #define MM INT64_C(1000000)
 
-static const struct gp_gerber_info info = { "GX-1001", "0.1.0", NULL };
+static const struct gp_gerber_info info = { .part_number = "GX-1001",
+						   .version = "0.1.0" };
 
 /* --- building artwork ---------------------------------------------------- */
 
@@ -334,9 +335,27 @@ static void test_reader_rejects(void **state)
 		/* draw with a rectangle (deprecated, 8) */
 		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10R,0.1X0.1*%\nD10*\nG01*\n"
 		"X0Y0D02*\nX5Y5D01*\nM02*\n",
-		/* object attributes (gerbv complains about them) */
-		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\n%TO.N,SEG1*%\n"
+		/* an .AperFunction value 5.6.10 does not have */
+		"%FSLAX46Y46*%\n%MOMM*%\n%TA.AperFunction,Copper*%\n"
+		"%ADD10C,0.1*%\nM02*\n",
+		/* .P with no pin number (5.6.14) */
+		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\n%TO.P,J1,*%\n"
+		"D10*\nX0Y0D03*\nM02*\n",
+		/* .P on a draw (5.6.14: pads only) */
+		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\n%TO.P,J1,1*%\n"
+		"D10*\nG01*\nX0Y0D02*\nX5Y5D01*\nM02*\n",
+		/* an .MD5 that does not match (5.6.9) */
+		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\n"
+		"%TF.MD5,00000000000000000000000000000000*%\nM02*\n",
+		/* a diagonal cut-in (4.10.3) */
+		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\nG01*\nG36*\n"
+		"X0Y0D02*\nX10Y0D01*\nX10Y10D01*\nX0Y10D01*\nX0Y0D01*\n"
+		"X2Y3D01*\nX2Y6D01*\nX5Y6D01*\nX2Y3D01*\nX0Y0D01*\nG37*\n"
 		"M02*\n",
+		/* a hole touching its ring with no cut-in (4.10.3) */
+		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\nG01*\nG36*\n"
+		"X0Y0D02*\nX10Y0D01*\nX10Y10D01*\nX0Y10D01*\nX0Y5D01*\n"
+		"X3Y7D01*\nX3Y3D01*\nX0Y5D01*\nX0Y0D01*\nG37*\nM02*\n",
 		/* data after M02 (4.13) */
 		"%FSLAX46Y46*%\n%MOMM*%\n%ADD10C,0.1*%\nM02*\nG01*\n",
 	};
@@ -368,7 +387,9 @@ static void test_creation_date(void **state)
 	assert_string_equal(date, "2023-11-14T22:13:20+00:00");
 	assert_false(gp_gerber_format_date(date, 10, 0));
 	assert_true(gp_gerber_format_date(date, sizeof(date), 1700000000));
-	struct gp_gerber_info dated = { "GX-1001", "0.1.0", date };
+	struct gp_gerber_info dated = { .part_number = "GX-1001",
+					.version = "0.1.0",
+					.creation_date = date };
 	char *text = write_layer(&art, GP_LAYER_SEAL, &dated);
 	struct gr_file f;
 	read_back(text, &f);
@@ -386,7 +407,7 @@ static void test_escapes(void **state)
 {
 	struct gp_artwork art;
 	gp_artwork_init(&art);
-	struct gp_gerber_info odd = { "GX,10*%\\1", NULL, NULL };
+	struct gp_gerber_info odd = { .part_number = "GX,10*%\\1" };
 	char *text = write_layer(&art, GP_LAYER_FRONT_ITO, &odd);
 	struct gr_file f;
 	read_back(text, &f);
@@ -394,6 +415,125 @@ static void test_escapes(void **state)
 			    "GX\\u002C10\\u002A\\u0025\\u005C1");
 	assert_string_equal(gr_attribute(&f, ".GenerationSoftware"),
 			    "glassplot,glassplot,0");
+	gr_file_finish(&f);
+	free(text);
+	gp_artwork_finish(&art);
+}
+
+/* --- attributes ------------------------------------------------------------ */
+
+static const struct gr_object *object_at(const struct gr_file *f,
+					 enum gr_kind kind, size_t nth)
+{
+	for (size_t i = 0; i < f->object_count; i++)
+		if (f->objects[i].kind == kind && nth-- == 0)
+			return &f->objects[i];
+	fail_msg("no such object");
+	return NULL;
+}
+
+/* Spec 5.6.10 .AperFunction on every aperture and region, 5.6.13 .N on
+ * every ITO object (empty for text and marks), 5.6.14 .P on the ledge
+ * pads, 5.6.3 Profile,NP for outlines, 5.6.9 .MD5 (the reader checks
+ * it), transfer dots flashed with a round aperture (6.4: pads are
+ * flashed). */
+static void test_attributes(void **state)
+{
+	struct gp_artwork art;
+	gp_artwork_init(&art);
+	int seg = gp_artwork_add_net(&art, GP_NET_SEGMENT, GP_PLATE_FRONT);
+	int com = gp_artwork_add_net(&art, GP_NET_COMMON, GP_PLATE_BACK);
+	assert_true(seg >= 0 && com >= 0);
+	struct gp_shape *s = add_box(&art, GP_LAYER_FRONT_ITO,
+				     GP_ROLE_ELECTRODE, 0, 0, MM, MM);
+	s->net = seg;
+	s = add_box(&art, GP_LAYER_FRONT_ITO, GP_ROLE_LEAD, MM, 0, 2 * MM,
+		    MM / 4);
+	s->net = seg;
+	s = add_box(&art, GP_LAYER_FRONT_ITO, GP_ROLE_PAD, 2 * MM, 0, 3 * MM,
+		    2 * MM);
+	s->net = seg;
+	add_box(&art, GP_LAYER_FRONT_ITO, GP_ROLE_TEXT, 4 * MM, 0, 5 * MM, MM);
+	add_box(&art, GP_LAYER_FRONT_OUTLINE, GP_ROLE_OUTLINE, 0, 0, 9 * MM,
+		9 * MM)->line_width = MM / 10;
+	s = add_box(&art, GP_LAYER_TRANSFER, GP_ROLE_TRANSFER, 0, 0, MM, MM);
+	s->net = com;
+	s->flash_diameter = MM;
+	s->flash_centre = (struct gp_point){ MM / 2, MM / 2 };
+	struct gp_gerber_pin pin = { gp_box_make(2 * MM, 0, 3 * MM, 2 * MM), 7,
+				     "left" };
+	struct gp_gerber_info with = info;
+	with.pins = &pin;
+	with.pin_count = 1;
+	with.revision = "B";
+	char *text = write_layer(&art, GP_LAYER_FRONT_ITO, &with);
+	struct gr_file f;
+	read_back(text, &f);
+	assert_true(f.has_md5);
+	const struct gr_object *o = object_at(&f, GR_REGION, 0);
+	assert_string_equal(o->function, "Conductor");
+	assert_true(o->has_net);
+	assert_string_equal(o->net, "SEG1");
+	o = object_at(&f, GR_REGION, 1);
+	assert_string_equal(o->function, "Conductor");
+	assert_string_equal(o->net, "SEG1");
+	o = object_at(&f, GR_FLASH, 0);
+	assert_string_equal(o->function, "ConnectorPad");
+	assert_string_equal(o->pin, "left,7,SEG1");
+	o = object_at(&f, GR_REGION, 2);
+	assert_string_equal(o->function, "NonConductor");
+	assert_true(o->has_net);
+	assert_string_equal(o->net, "");
+	assert_string_equal(o->pin, "");
+	const char *project = gr_attribute(&f, ".ProjectId");
+	assert_non_null(project);
+	assert_int_equal(strncmp(project, "GX-1001,", 8), 0);
+	assert_string_equal(project + strlen(project) - 2, ",B");
+	gr_file_finish(&f);
+	free(text);
+
+	text = write_layer(&art, GP_LAYER_FRONT_OUTLINE, &with);
+	read_back(text, &f);
+	assert_string_equal(gr_attribute(&f, ".FileFunction"), "Profile,NP");
+	assert_string_equal(object_at(&f, GR_DRAW, 0)->function, "Profile");
+	assert_false(object_at(&f, GR_DRAW, 0)->has_net);
+	gr_file_finish(&f);
+	free(text);
+
+	text = write_layer(&art, GP_LAYER_TRANSFER, &with);
+	read_back(text, &f);
+	o = object_at(&f, GR_FLASH, 0);
+	const struct gr_aperture *a = gr_aperture_find(&f, o->aperture);
+	assert_non_null(a);
+	assert_int_equal(a->kind, 'C');
+	assert_true(a->a == MM);
+	assert_true(o->points.points[0].x == MM / 2 &&
+		    o->points.points[0].y == MM / 2);
+	assert_int_equal(f.object_count, 1);
+	gr_file_finish(&f);
+	free(text);
+	gp_artwork_finish(&art);
+}
+
+/* Spec 3.1: "all characters in a Gerber file are restricted to the
+ * readable ASCII characters, with codes 32 to 126, and new line
+ * characters" but in attribute values; a part number in other scripts
+ * goes into the G04 comment (and the attributes) as Unicode escapes
+ * (3.4.3: "\u00A9" for U+00A9). */
+static void test_non_ascii(void **state)
+{
+	struct gp_artwork art;
+	gp_artwork_init(&art);
+	struct gp_gerber_info odd = { .part_number = "GX-\xc2\xb5" "5 "
+						     "\xe6\xb6\xb2\xe6\x99\xb6 "
+						     "\xf0\x9f\x94\x86" };
+	char *text = write_layer(&art, GP_LAYER_FRONT_ITO, &odd);
+	for (const char *p = text; *p; p++)
+		assert_true((*p >= 32 && *p <= 126) || *p == '\n');
+	assert_non_null(strstr(text, "G04 Front plate ITO of glass GX-\\u00B55 "
+				     "\\u6DB2\\u6676 \\U0001F506*\n"));
+	struct gr_file f;
+	read_back(text, &f);
 	gr_file_finish(&f);
 	free(text);
 	gp_artwork_finish(&art);
@@ -1230,22 +1370,41 @@ static void test_gerbv_random(void **state)
 	}
 }
 
-/* The complaint filter lets through gerbv's %TF% note only: object
- * attributes, which the writer leaves out for this reason, are caught. */
+/* The complaint filter lets through gerbv's note about attribute
+ * commands by its exact text only: the four commands the writer uses are
+ * noted and passed, any other unknown command is a complaint. */
 static void test_gerbv_complaints(void **state)
 {
-	static const char with_to[] =
-		"%FSLAX46Y46*%\n%MOMM*%\n%TF.Part,Single*%\n%ADD10C,0.1*%\n"
+	static const char attributes[] =
+		"%FSLAX46Y46*%\n%MOMM*%\n%TF.Part,Single*%\n"
+		"%TA.AperFunction,Conductor*%\n%ADD10C,0.1*%\n"
 		"%TO.N,SEG1*%\nD10*\nX0Y0D03*\n%TD*%\nM02*\n";
 	struct gerbv_frame frame = { -1, -1, 1, 1, 200, 4 };
 	struct gerbv_result res;
-	render(with_to, "object-attributes.gbr", &frame, &res);
+	render(attributes, "attributes.gbr", &frame, &res);
+	assert_int_equal(res.known_notes, 4);
+	assert_string_equal(res.complaints, "");
+	gerbv_result_finish(&res);
+	static const char other[] =
+		"%FSLAX46Y46*%\n%MOMM*%\n%TF.Part,Single*%\n%XY1*%\n"
+		"%ADD10C,0.1*%\nD10*\nX0Y0D03*\nM02*\n";
+	render(other, "unknown-command.gbr", &frame, &res);
 	assert_int_equal(res.known_notes, 1);
-	assert_non_null(strstr(res.complaints, "%TO%"));
+	assert_non_null(strstr(res.complaints, "%XY%"));
 	char why[4096];
 	struct gerbv_expect none = { -1, 0, 0, 0, 0, 0, false };
 	assert_false(gerbv_compare(&res, &none, why, sizeof(why)));
 	gerbv_result_finish(&res);
+	/* near misses of the exact text */
+	assert_true(gerbv_known_note("** (process:1): CRITICAL **: 06:12:36.692: "
+				     "Unknown RS-274X extension found %TO% at "
+				     "line 6 in file \"/tmp/a.gbr\"\n"));
+	assert_false(gerbv_known_note("Unknown RS-274X extension found %TX% at "
+				      "line 6 in file \"a.gbr\"\n"));
+	assert_false(gerbv_known_note("Unknown RS-274X extension found %TF% at "
+				      "line 6 in file \"a.gbr\" and more\n"));
+	assert_false(gerbv_known_note("Unknown RS-274X extension found %TF% in "
+				      "file \"a.gbr\"\n"));
 }
 
 int main(void)
@@ -1255,6 +1414,8 @@ int main(void)
 		cmocka_unit_test(test_reader_rejects),
 		cmocka_unit_test(test_creation_date),
 		cmocka_unit_test(test_escapes),
+		cmocka_unit_test(test_attributes),
+		cmocka_unit_test(test_non_ascii),
 		cmocka_unit_test(test_exact_coordinates),
 		cmocka_unit_test(test_layers),
 		cmocka_unit_test(test_holes),

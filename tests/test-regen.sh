@@ -93,6 +93,36 @@ check grep -q "^$work/dep/front-ito.gbr .*: $plain" "$work/dep.d"
 printf 'all: %s/dep/front-ito.gbr\ninclude %s/dep.d\n' "$work" "$work" >"$work/Makefile"
 check sh -c "make -s -q -f '$work/Makefile' -C '$work' all"
 
+# The dependency file is staged before the outputs are committed: when it
+# cannot be written (no such folder, a device) the run fails with one line
+# and the folder keeps its old set.  Replaced whole, no temporary left.
+for depfile in "$work/no-such-folder/dep.d" /dev/full; do
+	"$tool" build -q "$plain" -o "$work/dep" --set glass.revision=B \
+		--depfile "$depfile" 2>"$work/err"
+	check test $? -eq 2
+	check test "$(wc -l <"$work/err")" -eq 1
+	check grep -q "^glassplot: $depfile: " "$work/err"
+	check grep -qx "design-rule report: TEST-REGEN revision A" "$work/dep/report.txt"
+	check sh -c "cd '$work/dep' && sha256sum --quiet -c checksums.sha256"
+	check test -z "$(ls -A "$work/dep" | grep -v '^[a-z]')"
+done
+check cmp -s "$work/p1/front-ito.gbr" "$work/dep/front-ito.gbr"
+"$tool" build -q "$plain" -o "$work/dep" --depfile "$work/dep.d" \
+	--only gerber
+check grep -q "^$work/dep/front-ito.gbr .*checksums.sha256: $plain" "$work/dep.d"
+check test -z "$(ls -A "$work" | grep '^\.dep\.d')"
+
+# diff --pdf also writes its page whole under a temporary name: a second
+# run replaces the first page, and no temporary is left.
+"$tool" diff "$plain" --set blocks.main.cell_pitch=3.17 --pdf "$work/d.pdf" >/dev/null
+check sh -c "pdfinfo '$work/d.pdf' | grep -q '^Pages: *1'"
+check test -z "$(ls -A "$work" | grep '^\.d\.pdf')"
+"$tool" diff "$plain" --set blocks.main.cell_pitch=3.17 --pdf /dev/full \
+	>/dev/null 2>"$work/err"
+check test $? -eq 2
+check grep -q "^glassplot: /dev/full: not a plain file" "$work/err"
+check test -c /dev/full
+
 # An output folder that cannot be written: exit 2, one line, nothing kept.
 : >"$work/file-in-the-way"
 "$tool" build -q "$plain" -o "$work/file-in-the-way" 2>"$work/err"

@@ -902,7 +902,62 @@ static void capacity_ledge_short(void **state)
 			   "front plate, but only 49.7 mm is available (49.2 "
 			   "mm between the edge clearances and the 0.5 mm "
 			   "gap the last pad does not need)");
+	/* and what would fit: (54 - 1) x p + 0.5 p <= 49.2 mm gives
+	 * p <= 0.9196 mm, to the micrometre 0.919 mm with 0.459 mm pads
+	 * (53 x 0.919 + 0.459 = 49.166 mm) */
+	expect_error(text, "; it carries COM1-COM14, SEG1-SEG40; a pitch of "
+			   "0.919 mm with 0.459 mm pads would fit");
 	free(text);
+}
+
+/* Ledges by element: the pump sample sends the character columns to the
+ * front ledge and the commons and the indicators' nets to the back one. */
+static void route_carries_lists(void **state)
+{
+	(void)state;
+	struct fixture f;
+	load_file(&f, "../samples/pump-line-8x1.yaml");
+	check_all(f.build);
+	const struct gp_artwork *art = &f.build->art;
+	const struct gp_block_nets *block = &f.build->blocks[0];
+	size_t front = 0, back = 0;
+	for (size_t i = 0; i < f.build->pin_count; i++) {
+		const struct gp_pin *p = &f.build->pins[i];
+		if (p->net < 0)
+			continue;
+		bool column = p->net >= block->first_segment &&
+			      p->net < block->first_segment +
+					       block->segment_count;
+		assert_int_equal(p->ledge, column ? 0 : 1);
+		front += p->ledge == 0;
+		back += p->ledge == 1;
+	}
+	/* 8 cells x 5 columns; 7 dot rows + 'flags' + 8 indicator lines */
+	assert_int_equal(front, 40);
+	assert_int_equal(back, 7 + 1 + 8);
+	/* every indicator is lit by a pad on the back ledge: pins 41.. */
+	size_t icons = 0;
+	for (size_t i = 0; i < art->pixel_count; i++)
+		if (art->pixels[i].owner_kind == GP_OWNER_ICON) {
+			assert_true(art->nets[art->pixels[i].segment].pin > 40);
+			assert_true(art->nets[art->pixels[i].common].pin > 40);
+			icons++;
+		}
+	assert_int_equal(icons, 8);
+	finish(&f);
+	expect_error("glass: {part: T-3}\n"
+		     "front: {size: [50, 30]}\n"
+		     "back: {size: [50, 24], position: [0, 6]}\n"
+		     "viewing_area: {position: [6, 10], size: [38, 16]}\n"
+		     "blocks:\n"
+		     "  main: {origin: [13.125, 24], cells: [8, 1], dots: [5, 7],"
+		     " dot_size: [0.5, 0.55], dot_pitch: [0.55, 0.6],"
+		     " cell_pitch: 3}\n"
+		     "ledges:\n"
+		     "  seg: {side: bottom, pitch: 0.5, carries: [mains, COM1]}\n",
+		     "'carries' of ledge 'seg' names 'mains', which is no block, "
+		     "digit row, icon, net (COMn, SEGn), commons or segments; did "
+		     "you mean 'main'?");
 }
 
 static void capacity_tracks(void **state)
@@ -1095,8 +1150,9 @@ static void gerbv_reads_layers(const char *text)
 		gp_mm(fb.x0 < bb.x0 ? fb.x0 : bb.x0) - 1,
 		gp_mm(fb.y0 < bb.y0 ? fb.y0 : bb.y0) - 1,
 		gp_mm(fb.x1 > bb.x1 ? fb.x1 : bb.x1) + 1,
-		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 200, 2
+		gp_mm(fb.y1 > bb.y1 ? fb.y1 : bb.y1) + 1, 400, 2
 	};
+	/* 400 dpi: gerbv 2.9 draws nothing for a flashed 0.2 mm dot at 200 */
 	int seen = 0;
 	for (size_t i = 0; i < sizeof(layers) / sizeof(layers[0]); i++) {
 		char gbr[1024], png[1024], err[256];
@@ -1232,6 +1288,7 @@ int main(void)
 		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(capacity_ledge_short),
+		cmocka_unit_test(route_carries_lists),
 		cmocka_unit_test(capacity_tracks),
 		cmocka_unit_test(capacity_fan_out),
 		cmocka_unit_test(transfers_too_big),

@@ -60,6 +60,10 @@ struct gp_shape {
 	 * the polygon's outer ring is then a path, not a filled region. */
 	int64_t line_width;
 	bool open_path;         /* path not closed (lines only) */
+	/* > 0: a round dot of this diameter (nm) at flash_centre, which the
+	 * Gerber writer flashes; poly is then its flattened outline. */
+	int64_t flash_diameter;
+	struct gp_point flash_centre;
 };
 
 /* What lights where: one intended pixel. */

@@ -2,6 +2,7 @@
  * pins and part_text. */
 #include "route.h"
 
+#include "digits.h"
 #include "model.h"
 #include "units.h"
 
@@ -68,6 +69,78 @@ static bool read_numbering(struct gp_reader *r, struct gp_ledge *l)
 	return true;
 }
 
+/* carries: [NAME, ...]: elements (blocks, digit rows, icons) and nets
+ * (COMn, SEGn) by name.  Element names are checked here; net names once
+ * the layout has made the nets (ledge.c). */
+static bool known_element(const struct gp_design *design, const char *name)
+{
+	for (size_t i = 0; i < design->block_count; i++)
+		if (strcmp(design->blocks[i].name, name) == 0)
+			return true;
+	for (size_t i = 0; i < design->digit_count; i++)
+		if (strcmp(design->digits[i].name, name) == 0)
+			return true;
+	for (size_t i = 0; i < design->icon_count; i++)
+		if (strcmp(design->icons[i].name, name) == 0)
+			return true;
+	return false;
+}
+
+static bool net_name_form(const char *name)
+{
+	size_t n = strncmp(name, "COM", 3) == 0 || strncmp(name, "SEG", 3) == 0
+			   ? 3 : 0;
+	if (!n || name[n] < '1' || name[n] > '9')
+		return false;
+	for (const char *c = name + n; *c; c++)
+		if (*c < '0' || *c > '9')
+			return false;
+	return true;
+}
+
+static bool read_carries_list(const struct gp_design *design,
+			      struct gp_ledge *l, const struct gp_node *list,
+			      struct gp_diag *diag)
+{
+	bool ok = true;
+	if (list->count == 0)
+		return gp_diag_error(diag, &list->where,
+				     "'carries' of ledge '%s' is an empty "
+				     "list; name elements or nets, or use "
+				     "all, commons or segments", l->name);
+	for (size_t k = 0; k < list->count; k++) {
+		const struct gp_node *item = list->items[k];
+		if (!gp_node_expect_scalar(item, diag)) {
+			ok = false;
+			continue;
+		}
+		if (known_element(design, item->text) ||
+		    net_name_form(item->text) ||
+		    strcmp(item->text, "commons") == 0 ||
+		    strcmp(item->text, "segments") == 0)
+			continue;
+		const char *names[64];
+		size_t n = 0;
+		for (size_t i = 0; i < design->block_count && n < 64; i++)
+			names[n++] = design->blocks[i].name;
+		for (size_t i = 0; i < design->digit_count && n < 64; i++)
+			names[n++] = design->digits[i].name;
+		for (size_t i = 0; i < design->icon_count && n < 64; i++)
+			names[n++] = design->icons[i].name;
+		const char *near = n ? gp_nearest_word(item->text, names, n)
+				     : NULL;
+		ok = gp_diag_error(diag, &item->where,
+				   "'carries' of ledge '%s' names '%s', which "
+				   "is no block, digit row, icon, net "
+				   "(COMn, SEGn), commons or segments%s%s%s", l->name, item->text,
+				   near ? "; did you mean '" : "",
+				   near ? near : "", near ? "'?" : "");
+	}
+	l->carries = GP_CARRIES_LISTED;
+	l->carries_list = list;
+	return ok;
+}
+
 static bool read_ledge(struct gp_design *design, struct gp_ledge *l,
 		       const char *name, const struct gp_node *node,
 		       struct gp_diag *diag)
@@ -107,8 +180,13 @@ static bool read_ledge(struct gp_design *design, struct gp_ledge *l,
 	gp_read_length(&r, "pin1", false, &l->pin1);
 	r.ok &= read_numbering(&r, l);
 	gp_read_int(&r, "first_pin", false, 1, 99999, &l->first_pin);
-	gp_read_choice(&r, "carries", false, carries, &carry);
-	l->carries = (enum gp_carries)carry;
+	const struct gp_node *list = gp_read_node(&r, "carries", false);
+	if (list && list->kind == GP_NODE_SEQUENCE) {
+		r.ok &= read_carries_list(design, l, list, diag);
+	} else {
+		gp_read_choice(&r, "carries", false, carries, &carry);
+		l->carries = (enum gp_carries)carry;
+	}
 	if (l->edge_clearance < 0)
 		return gp_diag_error(diag, &node->where,
 				     "ledge '%s': 'edge_clearance' must not "

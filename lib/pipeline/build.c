@@ -5,6 +5,7 @@
 #include "gerber.h"
 #include "output.h"
 #include "proof.h"
+#include "staged-file.h"
 #include "units.h"
 
 #include "gp-config.h"
@@ -259,6 +260,11 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	free(build);
 }
 
+GP_EXPORT void gp_build_set_depfile(struct gp_build *build, const char *path)
+{
+	build->depfile = path;
+}
+
 GP_EXPORT void gp_build_set_epoch(struct gp_build *build, int64_t epoch)
 {
 	build->has_epoch = true;
@@ -368,6 +374,11 @@ GP_EXPORT const char *gp_build_written(const struct gp_build *build)
 	return build->written.data ? build->written.data : "";
 }
 
+static bool add_gerber_files(const struct gp_build *build,
+			     struct gp_output_set *set,
+			     const struct gp_gerber_info *info,
+			     struct gp_diag *diag);
+
 static bool add_gerbers(const struct gp_build *build,
 			struct gp_output_set *set, struct gp_diag *diag)
 {
@@ -382,6 +393,31 @@ static bool add_gerbers(const struct gp_build *build,
 		info.creation_date = date;
 	if (!gp_build_wants(build, GP_OUTPUT_GERBER))
 		return true;
+	info.revision = build->design->revision;
+	struct gp_gerber_pin *pins =
+		calloc(build->pin_count ? build->pin_count : 1, sizeof(*pins));
+	if (!pins)
+		return gp_diag_error(diag, NULL, "out of memory");
+	for (size_t i = 0; i < build->pin_count; i++) {
+		const struct gp_pin *p = &build->pins[i];
+		pins[i] = (struct gp_gerber_pin){
+			p->box, p->number,
+			p->ledge >= 0 && (size_t)p->ledge < build->ledge_count
+				? build->ledges[p->ledge].name
+				: NULL };
+	}
+	info.pins = pins;
+	info.pin_count = build->pin_count;
+	bool ok = add_gerber_files(build, set, &info, diag);
+	free(pins);
+	return ok;
+}
+
+static bool add_gerber_files(const struct gp_build *build,
+			     struct gp_output_set *set,
+			     const struct gp_gerber_info *info,
+			     struct gp_diag *diag)
+{
 	for (int layer = 0; layer < GP_LAYER_COUNT; layer++) {
 		bool used = false;
 		for (size_t i = 0; i < build->art.shape_count && !used; i++)
@@ -396,7 +432,7 @@ static bool add_gerbers(const struct gp_build *build,
 		if (!out)
 			return false;
 		if (!gp_gerber_write_why(out, &build->art,
-					 (enum gp_layer)layer, &info, why,
+					 (enum gp_layer)layer, info, why,
 					 sizeof(why)))
 			return gp_diag_error(diag, NULL, "%s: cannot write the "
 					     "Gerber file: %s", name, why);
@@ -451,8 +487,15 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	stage(build, "writing");
+	/* the dependency file is staged first and put in place last, so
+	 * that when it cannot be written nothing is */
+	struct gp_staged_file depfile = { NULL, NULL };
 	bool ok = gp_build_outputs(build, &set, diag) &&
-		  gp_output_commit(&set, folder, diag);
+		  (!build->depfile ||
+		   gp_depfile_stage(build, &set, folder, &depfile, diag)) &&
+		  gp_output_commit(&set, folder, diag) &&
+		  (!build->depfile || gp_staged_file_commit(&depfile, diag));
+	gp_staged_file_discard(&depfile);
 	build->written.size = 0;
 	for (size_t i = 0; ok && i < set.count; i++) {
 		gp_buffer_printf(&build->written, "%s\n", set.files[i].name);

@@ -58,6 +58,7 @@ struct gp_build {
 	struct gp_buffer json;
 	unsigned outputs;               /* enum gp_output_kind bits */
 	bool outputs_chosen;            /* by gp_build_select (--only) */
+	const char *depfile;            /* gp_build_set_depfile, borrowed */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;
 	/* The drive resolved against the commons the layout made (N is
@@ -74,6 +75,13 @@ struct gp_build {
 	void (*progress)(const char *stage, void *data);
 	void *progress_data;
 };
+
+struct gp_staged_file;
+/* Writes the dependency file for set, to be committed into folder, under
+ * a temporary name beside build->depfile (depfile.c). */
+bool gp_depfile_stage(const struct gp_build *build,
+		      const struct gp_output_set *set, const char *folder,
+		      struct gp_staged_file *file, struct gp_diag *diag);
 
 /* Should this kind of output be written? */
 bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind);

@@ -1,6 +1,7 @@
 /* Comparing two builds: per layer and per net, what was added, removed,
  * moved (and by how much) or reshaped, through GEOS differences. */
 #include "build.h"
+#include "staged-file.h"
 #include "geos.h"
 #include "proof.h"
 #include "units.h"
@@ -347,16 +348,14 @@ GP_EXPORT bool gp_diff_write_pdf(const struct gp_diff *diff,
 	bool ok = cairo_surface_status(surface) == CAIRO_STATUS_SUCCESS &&
 		  !pdf.failed;
 	cairo_surface_destroy(surface);
-	FILE *file = ok ? fopen(path, "wb") : NULL;
-	if (file) {
-		ok = fwrite(pdf.data, 1, pdf.size, file) == pdf.size;
-		ok = fclose(file) == 0 && ok;
-	} else {
-		ok = false;
-	}
-	gp_buffer_finish(&pdf);
+	/* written whole under a temporary name, then renamed over path */
+	struct gp_staged_file file = { NULL, NULL };
 	if (!ok)
-		return gp_diag_error(diag, NULL, "%s: cannot write the "
-				     "picture of the changes", path);
-	return true;
+		gp_diag_error(diag, NULL, "%s: cannot draw the picture of the "
+			      "changes", path);
+	ok = ok && gp_staged_file_write(&file, path, pdf.data, pdf.size, diag) &&
+	     gp_staged_file_commit(&file, diag);
+	gp_staged_file_discard(&file);
+	gp_buffer_finish(&pdf);
+	return ok;
 }

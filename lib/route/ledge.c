@@ -225,6 +225,70 @@ static void place_pads(struct route *r, const struct gp_ledge *l,
 	}
 }
 
+/* Pads a ledge's side has room for at its pitch. */
+static size_t ledge_capacity(const struct route *r, const struct gp_ledge *l)
+{
+	struct gp_box plate = plate_box(r->design, l->plate);
+	bool across = l->side == GP_SIDE_BOTTOM || l->side == GP_SIDE_TOP;
+	int64_t room = (across ? plate.x1 - plate.x0 : plate.y1 - plate.y0) -
+		       2 * r->design->rules.edge_clearance;
+	if (room < l->pad_width || l->pitch <= 0)
+		return 0;
+	return (size_t)((room - l->pad_width) / l->pitch) + 1;
+}
+
+/* For a ledge too short: the nets it was to carry, the finest pitch
+ * that fits (pads kept in proportion) and the other ledges with room. */
+static void too_short_advice(const struct route *r, int index, size_t count,
+			     int64_t room, char *out, size_t size)
+{
+	const struct gp_ledge *l = &r->ledges[index];
+	size_t used = 0;
+	int *nets = malloc((count ? count : 1) * sizeof(*nets));
+	size_t n = 0;
+	for (size_t i = 0; nets && i < r->net_count && n < count; i++)
+		if (r->nets[i].ledge == index)
+			nets[n++] = (int)i;
+	char list[512] = "";
+	if (nets && n)
+		describe_order(r, nets, n, list, sizeof(list));
+	free(nets);
+	used += (size_t)snprintf(out, size, "; it carries %s",
+				 n ? list : "the nets of its pin map");
+	double ratio = (double)l->pad_width / (double)l->pitch;
+	if (count > 1 && used < size) {
+		int64_t p = (int64_t)floor((double)room /
+					   ((double)(count - 1) + ratio) / 1000) *
+			    1000;
+		char a[32], b[32];
+		used += (size_t)snprintf(out + used, size - used,
+					 "; a pitch of %s mm with %s mm pads "
+					 "would fit (check it suits the "
+					 "connector)", mm(a, p),
+					 mm(b, (int64_t)floor((double)p * ratio /
+							      1000) * 1000));
+	}
+	for (size_t j = 0; j < r->g->ledge_count && used < size; j++) {
+		if ((int)j == index)
+			continue;
+		size_t on = 0;
+		for (size_t i = 0; i < r->net_count; i++)
+			on += r->nets[i].ledge == (int)j;
+		size_t cap = ledge_capacity(r, &r->ledges[j]);
+		if (cap <= on)
+			continue;
+		used += (size_t)snprintf(out + used, size - used,
+					 "; ledge '%s' has room for %zu more "
+					 "pad(s)%s (name nets or elements in "
+					 "its 'carries')", r->ledges[j].name,
+					 cap - on,
+					 cap - on >= count ? ", enough for all"
+							   : "");
+	}
+	if (used >= size)
+		out[size - 1] = '\0';
+}
+
 /* Pads of the ledge in the real frame, numbered; with a pin map the nets
  * are already on them. */
 static bool make_pads(struct route *r, struct gp_ledge *l, int index,
@@ -238,20 +302,25 @@ static bool make_pads(struct route *r, struct gp_ledge *l, int index,
 	int64_t clear = d->rules.edge_clearance;
 	int64_t span = (int64_t)(count - 1) * l->pitch;
 	char a[32], b[32], c[32], e[32], f[32], g[32];
-	if ((int64_t)count * l->pitch > hi - lo - 2 * clear + l->pitch - l->pad_width)
+	if ((int64_t)count * l->pitch > hi - lo - 2 * clear + l->pitch - l->pad_width) {
+		char more[1024];
+		too_short_advice(r, index, count, hi - lo - 2 * clear, more,
+				 sizeof(more));
 		return gp_diag_error(
 			r->diag, &l->where,
 			"ledge '%s' is too short: %zu pads need %zu x (%s + "
 			"%s) = %s mm along the %s of the %s plate, but only "
 			"%s mm is available (%s mm between the edge "
 			"clearances and the %s mm gap the last pad does not "
-			"need)",
+			"need)%s",
 			l->name, count, count, mm(a, l->pad_width),
 			mm(b, l->pitch - l->pad_width),
 			mm(c, (int64_t)count * l->pitch), gp_side_name(l->side),
 			l->plate == GP_PLATE_FRONT ? "front" : "back",
 			mm(e, hi - lo - 2 * clear + l->pitch - l->pad_width),
-			mm(f, hi - lo - 2 * clear), mm(g, l->pitch - l->pad_width));
+			mm(f, hi - lo - 2 * clear), mm(g, l->pitch - l->pad_width),
+			more);
+	}
 	if (!l->pin1_given)
 		l->pin1 = (lo + hi) / 2 - l->direction * (span / 2);
 	int64_t first = l->pin1, last = l->pin1 + l->direction * span;
@@ -321,15 +390,21 @@ static bool side_tracks(struct ledge_ctx *c, size_t from, size_t to,
 					    left ? GP_SIDE_LEFT : GP_SIDE_RIGHT);
 	int64_t have = left ? edge - limit : limit - edge;
 	have -= r->nets[c->items[from].net].ext + r->space;
+	char f[32];
+	int64_t each = have > 0 ? have / (int64_t)(to - from) / 1000 * 1000 : 0;
 	return gp_diag_error(
 		r->diag, &c->l->where,
 		"ledge '%s': %zu leads (%s to %s) pass the %s of the seal "
 		"outside it; they need %zu x (%s + %s) = %s mm but only %s "
-		"mm is free there between the seal and the edge clearance",
+		"mm is free there between the seal and the edge clearance; "
+		"leads.width + leads.space of at most %s mm would fit, or a "
+		"ledge on the %s could carry them (name them in its "
+		"'carries')",
 		c->l->name, to - from, net_name(r, c->items[from].net),
 		net_name(r, c->items[to - 1].net), gp_side_name(real),
 		to - from, mm(a, c->items[from].width), mm(b, r->space),
-		mm(d, need), mm(e, have > 0 ? have : 0));
+		mm(d, need), mm(e, have > 0 ? have : 0), mm(f, each),
+		gp_side_name(real));
 }
 
 static bool top_tracks(struct ledge_ctx *c, size_t from, size_t to,
@@ -796,6 +871,120 @@ static bool carried(const struct gp_ledge *l, const struct gp_net *net)
 	       (l->carries == GP_CARRIES_SEGMENTS && net->kind == GP_NET_SEGMENT);
 }
 
+static void mark_range(int *rank, int first, long count, int value)
+{
+	for (long k = 0; k < count; k++)
+		if (rank[first + k] < value)
+			rank[first + k] = value;
+}
+
+/* rank[net] for a ledge with a 'carries' list: 3 named itself, 2 through
+ * its element (a block, digit row or icon), 1 through its kind (the words
+ * commons and segments), 0 not listed. */
+static bool listed_nets(struct route *r, const struct gp_ledge *l, int *rank)
+{
+	const struct gp_design *d = r->design;
+	const struct gp_build *b = r->build;
+	bool ok = true;
+	for (size_t k = 0; k < l->carries_list->count; k++) {
+		const struct gp_node *item = l->carries_list->items[k];
+		const char *name = item->text;
+		bool commons = strcmp(name, "commons") == 0;
+		if (commons || strcmp(name, "segments") == 0) {
+			for (size_t i = 0; i < r->net_count; i++)
+				if ((b->art.nets[i].kind == GP_NET_COMMON) ==
+				    commons)
+					mark_range(rank, (int)i, 1, 1);
+			continue;
+		}
+		bool found = false;
+		for (size_t i = 0; i < d->block_count; i++) {
+			if (strcmp(d->blocks[i].name, name) != 0)
+				continue;
+			const struct gp_block_nets *n = &b->blocks[i];
+			if (d->blocks[i].commons_from < 0)
+				mark_range(rank, n->first_common,
+					   n->common_count, 2);
+			mark_range(rank, n->first_segment, n->segment_count, 2);
+			found = true;
+		}
+		for (size_t i = 0; i < b->digit_row_count; i++) {
+			if (strcmp(d->digits[i].name, name) != 0)
+				continue;
+			const struct gp_digit_row *row = &b->digit_rows[i];
+			mark_range(rank, row->first_common, row->common_count, 2);
+			mark_range(rank, row->first_segment, row->segment_count,
+				   2);
+			found = true;
+		}
+		for (size_t i = 0; i < d->icon_count; i++) {
+			if (strcmp(d->icons[i].name, name) != 0)
+				continue;
+			for (size_t p = 0; p < b->art.pixel_count; p++) {
+				const struct gp_pixel *px = &b->art.pixels[p];
+				if (px->owner_kind != GP_OWNER_ICON ||
+				    px->owner != (int)i)
+					continue;
+				mark_range(rank, px->common, 1, 2);
+				mark_range(rank, px->segment, 1, 2);
+			}
+			found = true;
+		}
+		for (size_t i = 0; i < r->net_count; i++) {
+			if (strcmp(b->art.nets[i].name, name) != 0)
+				continue;
+			rank[i] = 3;
+			found = true;
+		}
+		if (!found)
+			ok = gp_diag_error(r->diag, &item->where,
+					   "'carries' of ledge '%s' names net "
+					   "%s, which the glass does not have",
+					   l->name, name);
+	}
+	return ok;
+}
+
+/* The ledge of every net without a pin map: the ledge whose 'carries'
+ * list names it (itself before its element before its kind; of equals
+ * the first), else the first ledge that carries its kind. */
+static bool choose_ledges(struct route *r)
+{
+	const struct gp_routing *g = r->g;
+	int *rank = calloc(r->net_count ? r->net_count : 1, sizeof(*rank));
+	int *best = calloc(r->net_count ? r->net_count : 1, sizeof(*best));
+	bool ok = rank && best;
+	if (!ok) {
+		free(rank);
+		free(best);
+		return gp_diag_error(r->diag, NULL, "out of memory");
+	}
+	for (size_t li = 0; li < g->ledge_count; li++) {
+		const struct gp_ledge *l = &r->ledges[li];
+		if (l->map || l->carries != GP_CARRIES_LISTED)
+			continue;
+		memset(rank, 0, r->net_count * sizeof(*rank));
+		ok &= listed_nets(r, l, rank);
+		for (size_t i = 0; i < r->net_count; i++)
+			if (rank[i] > best[i]) {
+				best[i] = rank[i];
+				r->nets[i].ledge = (int)li;
+			}
+	}
+	for (size_t li = 0; li < g->ledge_count; li++) {
+		const struct gp_ledge *l = &r->ledges[li];
+		if (l->map || l->carries == GP_CARRIES_LISTED)
+			continue;
+		for (size_t i = 0; i < r->net_count; i++)
+			if (r->nets[i].ledge < 0 &&
+			    carried(l, &r->build->art.nets[i]))
+				r->nets[i].ledge = (int)li;
+	}
+	free(rank);
+	free(best);
+	return ok;
+}
+
 /* Reads the explicit pin map: pins.LEDGE: [NET or NC, ...] in pin order. */
 static bool read_map(struct route *r)
 {
@@ -862,6 +1051,11 @@ bool gp_route_assign_nets(struct route *r)
 		return gp_diag_error(r->diag, NULL, "out of memory");
 	for (size_t i = 0; i < r->net_count; i++)
 		r->nets[i].ledge = -1, r->nets[i].pin = -1;
+	bool any_map = false;
+	for (size_t li = 0; li < g->ledge_count; li++)
+		any_map |= r->ledges[li].map != NULL;
+	if (!any_map && !choose_ledges(r))
+		return false;
 	for (size_t li = 0; li < g->ledge_count; li++) {
 		struct gp_ledge *l = &r->ledges[li];
 		size_t first = r->build->pin_count;
@@ -902,13 +1096,8 @@ bool gp_route_assign_nets(struct route *r)
 			continue;
 		}
 		size_t count = 0;
-		for (size_t i = 0; i < r->net_count; i++) {
-			if (r->nets[i].ledge < 0 &&
-			    carried(l, &r->build->art.nets[i])) {
-				r->nets[i].ledge = (int)li;
-				count++;
-			}
-		}
+		for (size_t i = 0; i < r->net_count; i++)
+			count += r->nets[i].ledge == (int)li;
 		if (count && !make_pads(r, l, (int)li, count,
 					next_first_pin(r, l)))
 			return false;
@@ -920,6 +1109,10 @@ bool gp_route_assign_nets(struct route *r)
 					   "net %s has no pin: %s",
 					   net_name(r, (int)i),
 					   g->pins ? "add it to the pin map"
-						   : "no ledge 'carries' it");
+						   : "no ledge 'carries' it; "
+						     "name it (or its element) "
+						     "in a ledge's 'carries' "
+						     "or give a ledge "
+						     "'carries: all'");
 	return ok;
 }

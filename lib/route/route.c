@@ -172,6 +172,27 @@ static void add_cand(struct netstate *n, enum gp_side side,
 		n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
 }
 
+/* The strip of a block net: its longest electrode (icons sharing the
+ * net add pieces of their own, and their bridges, round it). */
+static struct gp_box strip_box(const struct route *r, int net, bool common)
+{
+	const struct gp_artwork *art = &r->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(art->nets[net].plate);
+	struct gp_box best = gp_box_none();
+	int64_t most = -1;
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		if (s->net != net || s->layer != layer ||
+		    s->role != GP_ROLE_ELECTRODE)
+			continue;
+		struct gp_box b = gp_polygon_bounds(&s->poly);
+		int64_t run = common ? b.x1 - b.x0 : b.y1 - b.y0;
+		if (run > most)
+			most = run, best = b;
+	}
+	return best;
+}
+
 /* Ends of block strips come from the strips themselves. */
 static void block_cands(struct route *r, int net, struct netstate *n)
 {
@@ -179,7 +200,9 @@ static void block_cands(struct route *r, int net, struct netstate *n)
 	int row = 0, rows = 1;
 	if (!is_block_net(r->build, net, &common, &row, &rows))
 		return;
-	struct gp_box b = n->centre;
+	struct gp_box b = strip_box(r, net, common);
+	if (gp_box_is_empty(b))
+		b = n->centre;
 	if (common) {
 		int64_t y = (b.y0 + b.y1) / 2, h = b.y1 - b.y0;
 		n->block_common = true;
@@ -367,6 +390,8 @@ static void set_reach(struct route *r, int net, struct cand *c)
 	}
 }
 
+#define EDGE_PROBE 10  /* nm */
+
 static void set_reaches(struct route *r)
 {
 	bool *has = calloc(r->net_count + 1, sizeof(*has));
@@ -388,12 +413,22 @@ static void set_reaches(struct route *r)
 		 * the patch is no more */
 		int kept = 0;
 		for (int k = 0; k < n->cand_count; k++) {
+			/* an end on the electrode's edge (a strip's end) is on
+			 * it: tested a little way inside */
+			struct gp_point at = n->cands[k].at, in = at;
+			switch (n->cands[k].side) {
+			case GP_SIDE_BOTTOM: in.y += EDGE_PROBE; break;
+			case GP_SIDE_TOP: in.y -= EDGE_PROBE; break;
+			case GP_SIDE_LEFT: in.x += EDGE_PROBE; break;
+			default: in.x -= EDGE_PROBE; break;
+			}
 			bool on = false;
 			for (size_t s = 0; s < art->shape_count && !on; s++)
 				on = art->shapes[s].net == (int)i &&
 				     art->shapes[s].layer ==
 					     gp_plate_ito_layer(art->nets[i].plate) &&
-				     point_in(&art->shapes[s].poly, n->cands[k].at);
+				     (point_in(&art->shapes[s].poly, at) ||
+				      point_in(&art->shapes[s].poly, in));
 			if (on)
 				n->cands[kept++] = n->cands[k];
 		}
@@ -1364,13 +1399,18 @@ static bool add_transfers(struct route *r, int net, const struct netstate *n)
 		}
 		struct gp_polygon dot;
 		gp_polygon_init(&dot);
-		bool ok = circle_polygon(p, t->size,
-					 r->design->rules.chord_tolerance, &dot) &&
-			  gp_artwork_add_shape(&r->build->art, GP_LAYER_TRANSFER,
-					       GP_ROLE_TRANSFER, net, &dot);
+		struct gp_shape *shape = NULL;
+		if (circle_polygon(p, t->size, r->design->rules.chord_tolerance,
+				   &dot))
+			shape = gp_artwork_add_shape(&r->build->art,
+						     GP_LAYER_TRANSFER,
+						     GP_ROLE_TRANSFER, net, &dot);
 		gp_polygon_finish(&dot);
-		if (!ok)
+		if (!shape)
 			return false;
+		/* flashed with a round aperture (Gerber spec 6.4) */
+		shape->flash_diameter = t->size;
+		shape->flash_centre = p;
 	}
 	/* ITO under the dots on both plates */
 	struct cand pad = *c;

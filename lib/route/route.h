@@ -60,6 +60,7 @@ enum gp_carries {
 	GP_CARRIES_ALL,
 	GP_CARRIES_COMMONS,
 	GP_CARRIES_SEGMENTS,
+	GP_CARRIES_LISTED,    /* the elements and nets of carries_list */
 };
 
 /* Which way dot-matrix commons leave their strips. */
@@ -86,6 +87,7 @@ struct gp_ledge {
 	int direction;            /* +1: numbers grow towards +x (+y) */
 	long first_pin;           /* 0: continue after the ledge before */
 	enum gp_carries carries;
+	const struct gp_node *carries_list; /* names (sequence) when LISTED */
 	const struct gp_node *map;/* explicit pin map (sequence) or NULL */
 };
 

@@ -4,9 +4,11 @@
  * may be off by a subsection). */
 #include "gerber.h"
 
+#include "font.h"
 #include "geos.h"
 #include "units.h"
 
+#include <glib.h>
 #include <inttypes.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -792,30 +794,75 @@ enum aperture_kind {
 struct aperture {
 	enum aperture_kind kind;
 	int64_t a, b; /* circle: diameter; rectangle: width, height */
+	const char *function; /* .AperFunction value (static text) */
 };
 
 struct writer {
 	struct gp_buffer *out;
+	const struct gp_gerber_info *info;
+	enum gp_layer layer;
 	const char **why;           /* &reason */
 	const char *reason;         /* static text of the first failure */
 	char *message;              /* what the caller sees */
 	size_t message_size;
 	struct aperture *apertures;
 	size_t count, capacity;
-	long current; /* D code selected, 0 for none */
+	long current;               /* D code selected, 0 for none */
+	const char *region_function;/* .AperFunction in the dictionary */
+	int net;                    /* .N in the dictionary: net, or
+				     * GP_NET_NONE for "none", -2 unset */
+	bool attributes;            /* some object attribute was set */
 };
+
+#define NET_UNSET (-2)
 
 /* Placeholder aperture for a file with regions only: some readers expect
  * every file to define one (10 um circle, never drawn with). */
 #define PLACEHOLDER_DIAMETER INT64_C(10000)
 #define FIRST_D_CODE 10 /* D10 is the first free code (section 4.3) */
 
+static bool is_ito(enum gp_layer layer)
+{
+	return layer == GP_LAYER_FRONT_ITO || layer == GP_LAYER_BACK_ITO;
+}
+
+static bool is_outline(enum gp_layer layer)
+{
+	return layer == GP_LAYER_FRONT_OUTLINE ||
+	       layer == GP_LAYER_BACK_OUTLINE;
+}
+
+/* Spec 5.6.10 .AperFunction: on the ITO (the glass's conductor layers)
+ * "ConnectorPad" ("An edge connector pad"), "NonConductor" ("typically
+ * text in the PCB such as a part number"; also the alignment marks),
+ * "Conductor" for the rest; "Profile" for the cut outline ("the draws
+ * and arcs that exactly define the profile or outline"); "Material" on
+ * the print layers ("Identifies the proper part of the data file"). */
+static const char *shape_function(const struct gp_shape *s)
+{
+	if (is_outline(s->layer))
+		return "Profile";
+	if (!is_ito(s->layer))
+		return "Material";
+	switch (s->role) {
+	case GP_ROLE_PAD:
+		return "ConnectorPad";
+	case GP_ROLE_TEXT:
+	case GP_ROLE_MARK:
+		return "NonConductor";
+	default:
+		return "Conductor";
+	}
+}
+
+/* One function, one aperture (5.6.10): the function is part of the key. */
 static long aperture_code(struct writer *w, enum aperture_kind kind,
-			  int64_t a, int64_t b, bool add)
+			  int64_t a, int64_t b, const char *function, bool add)
 {
 	for (size_t i = 0; i < w->count; i++)
 		if (w->apertures[i].kind == kind && w->apertures[i].a == a &&
-		    w->apertures[i].b == b)
+		    w->apertures[i].b == b &&
+		    strcmp(w->apertures[i].function, function) == 0)
 			return FIRST_D_CODE + (long)i;
 	if (!add)
 		return 0;
@@ -828,7 +875,7 @@ static long aperture_code(struct writer *w, enum aperture_kind kind,
 		w->apertures = grown;
 		w->capacity = capacity;
 	}
-	w->apertures[w->count] = (struct aperture){ kind, a, b };
+	w->apertures[w->count] = (struct aperture){ kind, a, b, function };
 	return FIRST_D_CODE + (long)w->count++;
 }
 
@@ -866,51 +913,149 @@ static bool flashable_pad(const struct gp_shape *shape, struct gp_box *box)
 	       (box->x0 + box->x1) % 2 == 0 && (box->y0 + box->y1) % 2 == 0;
 }
 
+/* How a shape is drawn. */
+enum drawing {
+	DRAW_STROKE,
+	DRAW_FLASH_RECTANGLE,
+	DRAW_FLASH_CIRCLE,
+	DRAW_REGION,
+};
+
+static enum drawing drawing_of(const struct gp_shape *s, struct gp_box *box)
+{
+	if (s->line_width > 0)
+		return DRAW_STROKE;
+	if (s->flash_diameter > 0)
+		return DRAW_FLASH_CIRCLE;
+	if (flashable_pad(s, box))
+		return DRAW_FLASH_RECTANGLE;
+	return DRAW_REGION;
+}
+
+static long shape_aperture(struct writer *w, const struct gp_shape *s,
+			   bool add)
+{
+	struct gp_box box;
+	const char *function = shape_function(s);
+	switch (drawing_of(s, &box)) {
+	case DRAW_STROKE:
+		return aperture_code(w, APERTURE_CIRCLE, s->line_width, 0,
+				     function, add);
+	case DRAW_FLASH_CIRCLE:
+		return aperture_code(w, APERTURE_CIRCLE, s->flash_diameter, 0,
+				     function, add);
+	case DRAW_FLASH_RECTANGLE:
+		return aperture_code(w, APERTURE_RECTANGLE, gp_box_width(box),
+				     gp_box_height(box), function, add);
+	default:
+		return -1;
+	}
+}
+
 static bool collect_apertures(struct writer *w, const struct gp_artwork *art,
 			      enum gp_layer layer)
 {
 	for (size_t i = 0; i < art->shape_count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
-		struct gp_box box;
-		long code = 1;
-		if (s->layer != layer)
-			continue;
-		if (s->line_width > 0)
-			code = aperture_code(w, APERTURE_CIRCLE, s->line_width,
-					     0, true);
-		else if (flashable_pad(s, &box))
-			code = aperture_code(w, APERTURE_RECTANGLE,
-					     gp_box_width(box),
-					     gp_box_height(box), true);
-		if (code == 0)
+		if (s->layer == layer && shape_aperture(w, s, true) == 0)
 			return fail(w->why, "out of memory");
 	}
 	if (w->count == 0 &&
-	    !aperture_code(w, APERTURE_CIRCLE, PLACEHOLDER_DIAMETER, 0, true))
+	    !aperture_code(w, APERTURE_CIRCLE, PLACEHOLDER_DIAMETER, 0,
+			   "Other,unused", true))
 		return fail(w->why, "out of memory");
 	return true;
 }
 
-/* Attribute and comment text: the reserved characters (section 3.4.3) and
- * controls become \uXXXX escapes. */
+/* Comment and attribute text (spec 3.4.3): the reserved characters '%',
+ * '*', '\' and the field separator ',' escaped, and, since "all
+ * characters in a Gerber file are restricted to the readable ASCII
+ * characters, with codes 32 to 126" outside attribute values (3.1), every
+ * other character as a Unicode escape: \uXXXX, or \UXXXXXXXX beyond
+ * 16 bits.  A byte that is not UTF-8 is written as U+FFFD. */
 static void put_text(struct gp_buffer *out, const char *text)
 {
-	for (const unsigned char *p = (const unsigned char *)text; *p; p++) {
-		if (*p == ',' || *p == '*' || *p == '%' || *p == '\\' ||
-		    *p < 0x20 || *p == 0x7f)
-			gp_buffer_printf(out, "\\u%04X", *p);
+	const char *p = text;
+	while (*p) {
+		uint32_t code;
+		size_t length = gp_utf8_decode(p, &code);
+		if (length == 0) {
+			code = 0xFFFD;
+			length = 1;
+		}
+		if (code == ',' || code == '*' || code == '%' || code == '\\' ||
+		    code < 0x20 || code >= 0x7f)
+			gp_buffer_printf(out, code > 0xFFFF ? "\\U%08" PRIX32
+							    : "\\u%04" PRIX32,
+					 code);
 		else
 			gp_buffer_append(out, p, 1);
+		p += length;
 	}
 }
 
-static void write_header(struct writer *w, enum gp_layer layer,
-			 const struct gp_gerber_info *info)
+/* .FileFunction (5.6.3): "Profile,NP" for a plate's cut outline (the
+ * plates have no plated edges); "Other,<mandatory field>" for the rest,
+ * none of the PCB layer functions fitting. */
+static void put_file_function(struct writer *w)
 {
 	struct gp_buffer *out = w->out;
+	if (is_outline(w->layer)) {
+		gp_buffer_puts(out, "%TF.FileFunction,Profile,NP*%\n");
+		return;
+	}
+	gp_buffer_puts(out, "%TF.FileFunction,Other,");
+	put_text(out, gp_layer_name(w->layer));
+	gp_buffer_puts(out, "*%\n");
+}
+
+/* .ProjectId (5.6.8): "<Name>,<GUID>,<Revision>"; the GUID is a
+ * name-based one (RFC 4122 section 4.3, SHA-1, version 5) of the part
+ * number in the URL name space, so every file of a part carries the same
+ * one and a rebuild gives the same bytes. */
+static void put_project(struct writer *w)
+{
+	const struct gp_gerber_info *info = w->info;
+	if (!info || !info->part_number || !info->part_number[0])
+		return;
+	static const unsigned char url_space[16] = {
+		0x6b, 0xa7, 0xb8, 0x11, 0x9d, 0xad, 0x11, 0xd1,
+		0x80, 0xb4, 0x00, 0xc0, 0x4f, 0xd4, 0x30, 0xc8,
+	};
+	GChecksum *sha = g_checksum_new(G_CHECKSUM_SHA1);
+	if (!sha)
+		return;
+	g_checksum_update(sha, url_space, sizeof(url_space));
+	static const char prefix[] = "glassplot:part/";
+	g_checksum_update(sha, (const guchar *)prefix, sizeof(prefix) - 1);
+	g_checksum_update(sha, (const guchar *)info->part_number,
+			  (gssize)strlen(info->part_number));
+	guint8 digest[20];
+	gsize length = sizeof(digest);
+	g_checksum_get_digest(sha, digest, &length);
+	g_checksum_free(sha);
+	digest[6] = (guint8)((digest[6] & 0x0f) | 0x50);
+	digest[8] = (guint8)((digest[8] & 0x3f) | 0x80);
+	gp_buffer_puts(w->out, "%TF.ProjectId,");
+	put_text(w->out, info->part_number);
+	gp_buffer_puts(w->out, ",");
+	for (int i = 0; i < 16; i++)
+		gp_buffer_printf(w->out, "%s%02x",
+				 i == 4 || i == 6 || i == 8 || i == 10 ? "-" : "",
+				 digest[i]);
+	gp_buffer_puts(w->out, ",");
+	put_text(w->out, info->revision && info->revision[0] ? info->revision
+							      : "0");
+	gp_buffer_puts(w->out, "*%\n");
+}
+
+static void write_header(struct writer *w)
+{
+	struct gp_buffer *out = w->out;
+	const struct gp_gerber_info *info = w->info;
 	const char *part = info && info->part_number ? info->part_number : NULL;
 	gp_buffer_puts(out, "G04 ");
-	put_text(out, gp_layer_title(layer));
+	put_text(out, gp_layer_title(w->layer));
 	if (part) {
 		gp_buffer_puts(out, " of glass ");
 		put_text(out, part);
@@ -927,9 +1072,9 @@ static void write_header(struct writer *w, enum gp_layer layer,
 		put_text(out, info->creation_date);
 		gp_buffer_puts(out, "*%\n");
 	}
-	gp_buffer_puts(out, "%TF.FileFunction,Other,");
-	put_text(out, gp_layer_name(layer));
-	gp_buffer_puts(out, "*%\n%TF.FilePolarity,Positive*%\n");
+	put_project(w);
+	put_file_function(w);
+	gp_buffer_puts(out, "%TF.FilePolarity,Positive*%\n");
 	gp_buffer_puts(out, "%TF.Part,Single*%\n");
 	gp_buffer_puts(out, "%TF.SameCoordinates");
 	if (part) {
@@ -937,9 +1082,15 @@ static void write_header(struct writer *w, enum gp_layer layer,
 		put_text(out, part);
 	}
 	gp_buffer_puts(out, "*%\n%LPD*%\nG01*\n");
+	/* each aperture defined with its function in the dictionary (5.3) */
+	const char *function = NULL;
 	for (size_t i = 0; i < w->count; i++) {
 		const struct aperture *a = &w->apertures[i];
 		char sa[40], sb[40];
+		if (!function || strcmp(function, a->function) != 0)
+			gp_buffer_printf(out, "%%TA.AperFunction,%s*%%\n",
+					 a->function);
+		function = a->function;
 		gp_format_mm(sa, sizeof(sa), a->a);
 		gp_format_mm(sb, sizeof(sb), a->b);
 		if (a->kind == APERTURE_CIRCLE)
@@ -949,6 +1100,7 @@ static void write_header(struct writer *w, enum gp_layer layer,
 			gp_buffer_printf(out, "%%ADD%dR,%sX%s*%%\n",
 					 FIRST_D_CODE + (int)i, sa, sb);
 	}
+	w->region_function = function;
 }
 
 static bool put_point(struct writer *w, struct gp_point p, int operation)
@@ -977,8 +1129,7 @@ static bool write_stroke(struct writer *w, const struct gp_shape *s)
 	if (!ring_in_range(r, GP_GERBER_COORD_MAX))
 		return fail(w->why, "a coordinate is beyond 9999.999999 mm, "
 				    "the range of Gerber format 4.6");
-	select_aperture(w, aperture_code(w, APERTURE_CIRCLE, s->line_width, 0,
-					 false));
+	select_aperture(w, shape_aperture(w, s, false));
 	struct gp_point first = r->points[0], last = first;
 	size_t drawn = 0;
 	put_point(w, first, 2);
@@ -1005,28 +1156,86 @@ static bool write_region(struct writer *w, const struct gp_shape *s)
 	bool ok = true;
 	for (size_t c = 0; ok && c < list.count; c++)
 		ok = ring_in_range(&list.rings[c], GP_GERBER_COORD_MAX);
+	/* regions take their function from the dictionary (5.3.1) */
+	const char *function = shape_function(s);
+	if (ok && (!w->region_function ||
+		   strcmp(w->region_function, function) != 0))
+		gp_buffer_printf(w->out, "%%TA.AperFunction,%s*%%\n", function);
+	w->region_function = function;
 	/* each contour closed exactly on its first point (section 4.10) */
-	gp_buffer_puts(w->out, "G36*\n");
+	if (ok)
+		gp_buffer_puts(w->out, "G36*\n");
 	for (size_t c = 0; ok && c < list.count; c++)
 		for (size_t i = 0; ok && i <= list.rings[c].count; i++)
 			ok = put_point(w, ring_at(&list.rings[c], i),
 				       i == 0 ? 2 : 1);
-	gp_buffer_puts(w->out, "G37*\n");
-	if (!ok)
+	if (ok)
+		gp_buffer_puts(w->out, "G37*\n");
+	else
 		fail(w->why, "a coordinate is beyond 9999.999999 mm, the "
 			     "range of Gerber format 4.6");
 	gp_gerber_contours_finish(&list);
 	return ok;
 }
 
-static bool write_flash(struct writer *w, struct gp_box box)
+static bool write_flash(struct writer *w, const struct gp_shape *s,
+			struct gp_box box)
 {
-	select_aperture(w, aperture_code(w, APERTURE_RECTANGLE,
-					 gp_box_width(box), gp_box_height(box),
-					 false));
-	struct gp_point centre = { (box.x0 + box.x1) / 2,
-				   (box.y0 + box.y1) / 2 };
+	select_aperture(w, shape_aperture(w, s, false));
+	struct gp_point centre =
+		s->flash_diameter > 0
+			? s->flash_centre
+			: (struct gp_point){ (box.x0 + box.x1) / 2,
+					     (box.y0 + box.y1) / 2 };
 	return put_point(w, centre, 3);
+}
+
+/* .N (5.6.13): "It is recommended to attach a .N attribute to all copper
+ * objects, also those without net", the empty name for those; written on
+ * the ITO, the glass's conductors. */
+static void put_net(struct writer *w, const struct gp_artwork *art,
+		    const struct gp_shape *s)
+{
+	if (!is_ito(s->layer))
+		return;
+	int net = s->net >= 0 && (size_t)s->net < art->net_count ? s->net
+								 : GP_NET_NONE;
+	if (net == w->net)
+		return;
+	gp_buffer_puts(w->out, "%TO.N,");
+	if (net >= 0)
+		put_text(w->out, art->nets[net].name);
+	gp_buffer_puts(w->out, "*%\n");
+	w->net = net;
+	w->attributes = true;
+}
+
+/* .P (5.6.14): "<refdes>,<number>[,<function>]" on a ledge pad: the
+ * ledge's name, the pin number and the net; false when the pad is no
+ * pin. */
+static bool put_pin(struct writer *w, const struct gp_artwork *art,
+		    const struct gp_shape *s, struct gp_box box)
+{
+	const struct gp_gerber_info *info = w->info;
+	if (!info || s->role != GP_ROLE_PAD || !is_ito(s->layer))
+		return false;
+	for (size_t i = 0; i < info->pin_count; i++) {
+		const struct gp_gerber_pin *pin = &info->pins[i];
+		if (pin->box.x0 != box.x0 || pin->box.y0 != box.y0 ||
+		    pin->box.x1 != box.x1 || pin->box.y1 != box.y1)
+			continue;
+		gp_buffer_puts(w->out, "%TO.P,");
+		put_text(w->out, pin->refdes ? pin->refdes : "LEDGE");
+		gp_buffer_printf(w->out, ",%d", pin->number);
+		if (s->net >= 0 && (size_t)s->net < art->net_count) {
+			gp_buffer_puts(w->out, ",");
+			put_text(w->out, art->nets[s->net].name);
+		}
+		gp_buffer_puts(w->out, "*%\n");
+		w->attributes = true;
+		return true;
+	}
+	return false;
 }
 
 /* The error names the shape: its role, net and lower left corner. */
@@ -1051,19 +1260,55 @@ static bool write_shapes(struct writer *w, const struct gp_artwork *art,
 	for (size_t i = 0; i < art->shape_count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
 		struct gp_box box;
-		bool ok;
+		bool ok, pin = false;
 		if (s->layer != layer)
 			continue;
-		if (s->line_width > 0)
+		put_net(w, art, s);
+		switch (drawing_of(s, &box)) {
+		case DRAW_STROKE:
 			ok = write_stroke(w, s);
-		else if (flashable_pad(s, &box))
-			ok = write_flash(w, box);
-		else
+			break;
+		case DRAW_FLASH_RECTANGLE:
+			pin = put_pin(w, art, s, box);
+			ok = write_flash(w, s, box);
+			break;
+		case DRAW_FLASH_CIRCLE:
+			ok = write_flash(w, s, box);
+			break;
+		default:
 			ok = write_region(w, s);
+			break;
+		}
+		if (pin)
+			gp_buffer_puts(w->out, "%TD.P*%\n");
 		if (!ok)
 			return shape_error(w, art, s);
 	}
+	if (w->attributes)
+		gp_buffer_puts(w->out, "%TD*%\n");
 	return true;
+}
+
+/* .MD5 (5.6.9): "calculated over the bits from the beginning of the file
+ * up to but excluding the .MD5 file attribute command itself ... Any CR
+ * and LF are excluded". */
+static void put_md5(struct gp_buffer *out, size_t start)
+{
+	GChecksum *md5 = g_checksum_new(G_CHECKSUM_MD5);
+	if (!md5)
+		return;
+	const char *p = out->data + start, *end = out->data + out->size;
+	while (p < end) {
+		size_t run = strcspn(p, "\r\n");
+		if (p + run > end)
+			run = (size_t)(end - p);
+		g_checksum_update(md5, (const guchar *)p, (gssize)run);
+		p += run;
+		while (p < end && (*p == '\r' || *p == '\n'))
+			p++;
+	}
+	gp_buffer_printf(out, "%%TF.MD5,%s*%%\n", g_checksum_get_string(md5));
+	g_checksum_free(md5);
 }
 
 bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
@@ -1072,20 +1317,24 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 			 size_t why_size)
 {
 	char scratch[8];
-	struct writer w = { .out = out, .message = why ? why : scratch,
-			    .message_size = why ? why_size : sizeof(scratch) };
+	struct writer w = { .out = out, .info = info, .layer = layer,
+			    .message = why ? why : scratch,
+			    .message_size = why ? why_size : sizeof(scratch),
+			    .net = NET_UNSET };
 	w.why = &w.reason;
 	w.message[0] = '\0';
+	size_t start = out->size;
 	bool ok = collect_apertures(&w, art, layer);
 	if (ok) {
-		write_header(&w, layer, info);
+		write_header(&w);
 		ok = write_shapes(&w, art, layer);
 	}
-	if (ok) {
+	if (ok && !out->failed) {
+		put_md5(out, start);
 		gp_buffer_puts(out, "M02*\n"); /* section 4.13 */
-		if (out->failed)
-			ok = fail(w.why, "out of memory");
 	}
+	if (ok && out->failed)
+		ok = fail(w.why, "out of memory");
 	if (!ok && !w.message[0])
 		snprintf(w.message, w.message_size, "%s",
 			 w.reason ? w.reason : "out of memory");

@@ -8,9 +8,13 @@
  * holes joined to the outer contour by cut-ins, strokes drawn with circular
  * apertures, rectangular pads flashed, M02 last.
  *
- * Object attributes (%TO/%TD) are not written: gerbv 2.9 reports each of
- * them as an unknown extension, and the file must open there without a
- * complaint other than the one about %TF lines. */
+ * Attributes (5.2-5.6): .GenerationSoftware, .CreationDate, .ProjectId,
+ * .FileFunction (Profile,NP for outlines, Other for the rest),
+ * .FilePolarity, .Part, .SameCoordinates and .MD5; .AperFunction on every
+ * aperture and region; on the ITO .N (the net, empty for text and marks)
+ * on every object and .P (ledge, pin, net) on every ledge pad.  gerbv 2.9
+ * reports each %TF, %TA, %TO and %TD line as an unknown extension; the
+ * spec (2.12) does not ask a writer to cater for one reader's limits. */
 #ifndef GP_GERBER_H
 #define GP_GERBER_H
 
@@ -20,6 +24,13 @@
 #include <stdbool.h>
 #include <stddef.h>
 #include <stdint.h>
+
+/* A ledge pad as a pin, for the .P attribute. */
+struct gp_gerber_pin {
+	struct gp_box box;      /* the pad, as drawn */
+	int number;
+	const char *refdes;     /* the ledge's name */
+};
 
 struct gp_gerber_info {
 	/* Part number of the glass, or NULL.  Written in a comment and as the
@@ -31,6 +42,11 @@ struct gp_gerber_info {
 	 * gp_gerber_format_date), or NULL to write no date at all: the output
 	 * then depends on nothing but the artwork. */
 	const char *creation_date;
+	/* Revision for .ProjectId, or NULL ("0"). */
+	const char *revision;
+	/* The ledge pads, matched to the flashed pads by their box. */
+	const struct gp_gerber_pin *pins;
+	size_t pin_count;
 };
 
 /* Largest coordinate magnitude format 4.6 can hold: 9999.999999 mm. */
