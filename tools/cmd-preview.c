@@ -1,5 +1,7 @@
 #include "tool.h"
 
+#include <stdio.h>
+
 int cmd_preview(const struct tool_options *options)
 {
 	struct gp_diag *diag = gp_diag_create();
@@ -13,6 +15,8 @@ int cmd_preview(const struct tool_options *options)
 		  gp_build_write_preview(build, options->output,
 					 options->dpi > 0 ? options->dpi : 300,
 					 diag);
+	if (ok && options->verbosity >= 0)
+		printf("wrote: %s\n", options->output);
 	if (design)
 		tool_print_diag(diag, options->verbosity);
 	gp_build_destroy(build);

@@ -42,7 +42,7 @@ static const struct tool_option preview_options[] = {
 	{ OPTION_SHOW, 0, "show", "SPEC", false, true,
 	  "the content: ROW=DIGITS, BLOCK=TEXT ('|' between\nlines) and "
 	  "icon names, separated by ';'" },
-	{ OPTION_OUTPUT, 'o', "output", "FILE", false, true,
+	{ OPTION_OUTPUT, 'o', "output", "FILE.png", false, true,
 	  "the PNG to write" },
 	{ OPTION_DPI, 0, "dpi", "N", false, false,
 	  "dots per inch (default 300)" },

@@ -261,10 +261,17 @@ static int parse_finish(struct parse *parse)
 				   c->operands);
 	for (const struct tool_option *o = c->options; o->long_name; o++)
 		if (o->required && !parse->given[o->id])
-			return parse_error(parse, "expected %s%c %s",
-					   o->short_name ? "-" : "--",
-					   o->short_name ? o->short_name : '-',
+		{
+			char name[64];
+			if (o->short_name)
+				snprintf(name, sizeof(name), "-%c",
+					 o->short_name);
+			else
+				snprintf(name, sizeof(name), "--%s",
+					 o->long_name);
+			return parse_error(parse, "expected %s %s", name,
 					   o->argument);
+		}
 	parse->options->description = parse->operands[0];
 	parse->options->second = parse->operand_count > 1 ? parse->operands[1]
 							   : NULL;
