@@ -1091,6 +1091,79 @@ static void test_net_references(void **state)
 	finish(&b);
 }
 
+/* --- arrays --------------------------------------------------------------- */
+
+static void test_arrays(void **state)
+{
+	struct built b;
+	make(&b, "0.05", "",
+	     "  bar:\n"
+	     "    shape: rectangle\n    size: [0.2, 1]\n"
+	     "    position: [2.5, 8]\n"
+	     "    array: {count: 100, pitch: 0.333333}\n"
+	     "    common: level\n    segment: bar\n"
+	     "  dial:\n"
+	     "    shape: rectangle\n    size: [0.5, 1.2]\n"
+	     "    position: [30, 18]\n"
+	     "    array: {count: 7, centre: [24, 18], angle: 30}\n"
+	     "    commons: [a, b, c, d, e, f, g]\n    segment: arc\n");
+	const struct gp_design *d = b.design;
+	assert_int_equal(d->icon_count, 107);
+	/* the span is the datum (DESIGN.md 3): cell k at origin + k x pitch
+	 * exactly, so the last of 100 is 99 x 0.333333 = 32.999967 mm on */
+	assert_string_equal(d->icons[99].name, "bar100");
+	assert_int_equal(d->icons[99].position.x, 2500000 + 99 * 333333);
+	assert_int_equal(d->icons[99].position.y, 8 * MM);
+	const struct gp_artwork *art = &b.build->art;
+	/* each cell its own pixel: one common, 100 segment lines */
+	for (size_t i = 1; i < 100; i++) {
+		assert_int_equal(icon_pixel(art, i)->common,
+				 icon_pixel(art, 0)->common);
+		assert_int_not_equal(icon_pixel(art, i)->segment,
+				     icon_pixel(art, i - 1)->segment);
+	}
+	assert_string_equal(art->nets[icon_pixel(art, 99)->segment].name,
+			    "SEG100");
+	/* on the arc: every cell 6 mm from the centre (within the 1 nm of
+	 * rounding), 30 degrees apart, and its pixel turned with it: the
+	 * 0.5 x 1.2 mm rectangle keeps its area (0.6 mm^2) */
+	for (size_t k = 0; k < 7; k++) {
+		const struct gp_icon *c = &d->icons[100 + k];
+		double dx = (double)(c->position.x - 24 * MM);
+		double dy = (double)(c->position.y - 18 * MM);
+		assert_true(fabs(sqrt(dx * dx + dy * dy) - 6e6) <= 1);
+		double a = atan2(dy, dx) * 180 / PI;
+		/* 1 nm at 6 mm is 1e-5 degrees */
+		assert_true(fabs(a - 30.0 * (double)k) < 1e-4 ||
+			    fabs(a + 360 - 30.0 * (double)k) < 1e-4);
+		assert_true(fabs(pixel_area(icon_pixel(art, 100 + k)) - 0.6) <
+			    1e-6);
+	}
+	/* the cells on the arc share one segment, each on its own common */
+	assert_int_equal(icon_pixel(art, 100)->segment,
+			 icon_pixel(art, 106)->segment);
+	assert_int_not_equal(icon_pixel(art, 100)->common,
+			     icon_pixel(art, 106)->common);
+	finish(&b);
+	assert_false(try_build(&b, "0.05", "",
+			       "  bar:\n"
+			       "    shape: rectangle\n    size: [0.2, 1]\n"
+			       "    position: [2.5, 8]\n"
+			       "    array: {count: 3, pitch: 1}\n"
+			       "    commons: [a, b]\n    segment: s\n"));
+	expect_message(&b.diag, "'commons' of icon 'bar' must list one name "
+				"for each of its 3 cells");
+	finish(&b);
+	assert_false(try_build(&b, "0.05", "",
+			       "  bar:\n"
+			       "    shape: rectangle\n    size: [0.2, 1]\n"
+			       "    position: [2.5, 8]\n"
+			       "    array: {count: 3, pitch: 1, direction: 45}\n"
+			       "    common: a\n    segment: s\n"));
+	expect_message(&b.diag, "'direction' must be 0, 90, 180 or 270");
+	finish(&b);
+}
+
 /* --- width and space -------------------------------------------------- */
 
 static void add_rect(struct gp_polyset *set, double x0, double y0, double x1,
@@ -1282,6 +1355,7 @@ int main(void)
 		cmocka_unit_test(test_digit_commons),
 		cmocka_unit_test(test_spare_slots),
 		cmocka_unit_test(test_net_references),
+		cmocka_unit_test(test_arrays),
 		cmocka_unit_test(test_thin_parts),
 		cmocka_unit_test(test_width_and_space_errors),
 		cmocka_unit_test(test_font_table),

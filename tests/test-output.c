@@ -21,7 +21,9 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <signal.h>
 #include <sys/stat.h>
+#include <sys/wait.h>
 #include <unistd.h>
 
 #define CHUNK (1u << 20) /* write_all's largest write, output.c */
@@ -158,6 +160,8 @@ static int teardown(void **state)
 	struct fixture *f = *state;
 	gp_output_fail_after(0);
 	gp_output_fail_rename_after(0);
+	gp_output_commit_mode(GP_OUTPUT_COMMIT_AUTO);
+	gp_output_kill_at(0);
 	fixture_remove_tree(f->folder);
 	free(f->folder);
 	gp_output_set_finish(&f->before);
@@ -219,10 +223,21 @@ static void write_failure_at_each_file(void **state)
 	free(notes);
 }
 
-/* A rename failing after others succeeded: those are rolled back. */
+/* A rename failing after others succeeded: those are rolled back (the
+ * fallback that renames file by file); the one rename of a folder swap
+ * failing leaves the old folder. */
 static void rename_failure_rolls_back(void **state)
 {
 	struct fixture *f = *state;
+	gp_output_fail_rename_after(1);
+	char *swap_error = NULL;
+	assert_false(commit(&f->after, f->folder, &swap_error));
+	assert_non_null(strstr(swap_error, "cannot rename into place"));
+	g_free(swap_error);
+	char *left = snapshot(f->folder);
+	assert_string_equal(left, f->expected);
+	g_free(left);
+	gp_output_commit_mode(GP_OUTPUT_COMMIT_IN_PLACE);
 	for (size_t k = 1; k <= f->after.count; k++) {
 		gp_output_fail_rename_after((int)k);
 		char *error = NULL;
@@ -340,6 +355,102 @@ static void links(void **state)
 	free(link_folder);
 }
 
+/* Names next to the fixture's folder that are temporaries of a commit. */
+static size_t siblings_left(const char *folder)
+{
+	char *parent = g_path_get_dirname(folder);
+	char *base = g_path_get_basename(folder);
+	char *prefix = g_strdup_printf(".%s.gp-", base);
+	DIR *dir = opendir(parent);
+	assert_non_null(dir);
+	size_t count = 0;
+	for (struct dirent *e; (e = readdir(dir));)
+		count += strncmp(e->d_name, prefix, strlen(prefix)) == 0;
+	closedir(dir);
+	g_free(prefix);
+	g_free(base);
+	g_free(parent);
+	return count;
+}
+
+static bool checksums_pass(const char *folder)
+{
+	char *command = g_strdup_printf(
+		"cd '%s' && sha256sum --quiet -c checksums.sha256 "
+		">/dev/null 2>&1", folder);
+	int status = system(command);
+	g_free(command);
+	return status == 0;
+}
+
+/* Kills a child committing the new set just before its step-th change to
+ * the disk; returns false when the commit ended before that step. */
+static bool killed_at(struct fixture *f, int mode, int step)
+{
+	fflush(NULL);
+	pid_t child = fork();
+	assert_true(child >= 0);
+	if (child == 0) {
+		struct gp_diag diag;
+		gp_diag_init(&diag);
+		gp_output_commit_mode(mode);
+		gp_output_kill_at(step);
+		_exit(gp_output_commit(&f->after, f->folder, &diag) ? 0 : 1);
+	}
+	int status;
+	assert_int_equal(waitpid(child, &status, 0), child);
+	if (WIFEXITED(status)) {
+		assert_int_equal(WEXITSTATUS(status), 0);
+		return false;
+	}
+	assert_true(WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL);
+	return true;
+}
+
+/* kill -9 at every step of a commit (both ways of swapping the folder):
+ * the folder is always the whole old set or the whole new one, passing
+ * sha256sum -c, and the next run clears what the killed one left.  In
+ * the fallback without RENAME_EXCHANGE the folder may be missing after a
+ * kill between its two renames; the next run puts the old one back. */
+static void kill_at_every_step(void **state)
+{
+	struct fixture *f = *state;
+	assert_true(commit(&f->after, f->folder, NULL));
+	char *expected_new = snapshot(f->folder);
+	static const int modes[] = { GP_OUTPUT_COMMIT_EXCHANGE,
+				     GP_OUTPUT_COMMIT_RENAMES };
+	for (size_t m = 0; m < 2; m++) {
+		int step = 1, kills = 0;
+		for (;; step++) {
+			assert_true(commit(&f->before, f->folder, NULL));
+			assert_int_equal(siblings_left(f->folder), 0);
+			char *old = snapshot(f->folder);
+			assert_string_equal(old, f->expected);
+			g_free(old);
+			if (!killed_at(f, modes[m], step))
+				break;
+			kills++;
+			char *now = snapshot(f->folder);
+			bool missing = !strcmp(now, "(no folder)\n");
+			if (!(missing && modes[m] == GP_OUTPUT_COMMIT_RENAMES)) {
+				if (strcmp(now, f->expected) &&
+				    strcmp(now, expected_new))
+					fail_msg("mode %d step %d: a mixed "
+						 "folder:\n%s", modes[m], step,
+						 now);
+				assert_true(checksums_pass(f->folder));
+			}
+			g_free(now);
+		}
+		/* every write, sync and rename of the set was a step */
+		assert_true(kills > (int)f->after.count * 3);
+		char *now = snapshot(f->folder);
+		assert_string_equal(now, expected_new);
+		g_free(now);
+	}
+	g_free(expected_new);
+}
+
 /* Output names are plain names: nothing that could leave the folder. */
 static void names_stay_in_the_folder(void **state)
 {
@@ -411,6 +522,8 @@ int main(void)
 		cmocka_unit_test_setup_teardown(folder_in_the_way_of_output,
 						setup, teardown),
 		cmocka_unit_test_setup_teardown(links, setup, teardown),
+		cmocka_unit_test_setup_teardown(kill_at_every_step, setup,
+						teardown),
 		cmocka_unit_test(names_stay_in_the_folder),
 		cmocka_unit_test(description_names_do_not_name_files),
 	};

@@ -101,7 +101,7 @@ for depfile in "$work/no-such-folder/dep.d" /dev/full; do
 		--depfile "$depfile" 2>"$work/err"
 	check test $? -eq 2
 	check test "$(wc -l <"$work/err")" -eq 1
-	check grep -q "^glassplot: $depfile: " "$work/err"
+	check grep -q "^glassplot: build: --depfile $depfile: " "$work/err"
 	check grep -qx "design-rule report: TEST-REGEN revision A" "$work/dep/report.txt"
 	check sh -c "cd '$work/dep' && sha256sum --quiet -c checksums.sha256"
 	check test -z "$(ls -A "$work/dep" | grep -v '^[a-z]')"
@@ -120,7 +120,7 @@ check test -z "$(ls -A "$work" | grep '^\.d\.pdf')"
 "$tool" diff "$plain" --set blocks.main.cell_pitch=3.17 --pdf /dev/full \
 	>/dev/null 2>"$work/err"
 check test $? -eq 2
-check grep -q "^glassplot: /dev/full: not a plain file" "$work/err"
+check grep -q "^glassplot: diff: --pdf /dev/full: not a plain file" "$work/err"
 check test -c /dev/full
 
 # An output folder that cannot be written: exit 2, one line, nothing kept.

@@ -9,6 +9,7 @@
 #include <cmocka.h>
 
 #include "build.h"
+#include "maze.h"
 #include "gerbv-render.h"
 #include "geos.h"
 #include "route.h"
@@ -888,6 +889,22 @@ static void pads_pitch_budget(void **state)
 	free(text);
 }
 
+/* A window narrower than two cells has no grid and no path: the join
+ * says the pieces stay apart (once it said "out of memory"). */
+static void maze_degenerate_window(void **state)
+{
+	(void)state;
+	struct gp_box thin = gp_box_make(0, 0, 1000000, 1000);
+	assert_false(gp_maze_fits(thin, 1000));
+	assert_null(gp_maze_create(thin, 1000));
+	assert_false(gp_maze_fits(gp_box_none(), 1000));
+	struct gp_box fine = gp_box_make(0, 0, 1000000, 2000);
+	assert_true(gp_maze_fits(fine, 1000));
+	struct gp_maze *m = gp_maze_create(fine, 1000);
+	assert_non_null(m);
+	gp_maze_destroy(m);
+}
+
 /* --- errors with numbers --------------------------------------------------- */
 
 static void capacity_ledge_short(void **state)
@@ -1287,6 +1304,7 @@ int main(void)
 		cmocka_unit_test(design_unchanged),
 		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
+		cmocka_unit_test(maze_degenerate_window),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(route_carries_lists),
 		cmocka_unit_test(capacity_tracks),

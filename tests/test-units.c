@@ -8,6 +8,7 @@
 
 #include "units.h"
 
+#include <locale.h>
 #include <string.h>
 
 static void assert_mm(const char *text, int64_t expected)
@@ -124,6 +125,77 @@ static void checked_arithmetic(void **state)
 	assert_int_equal(out, 0);
 }
 
+/* --- other numbers: one grammar (gp_parse_decimal) ------------------------ */
+
+static void assert_decimal(const char *text, double expected)
+{
+	double value = -1;
+	if (!gp_parse_decimal(text, &value))
+		fail_msg("'%s' rejected", text);
+	/* the values below are exact in binary or are compared with the
+	 * nearest double, as ISO C's strtod in the C locale gives it */
+	assert_true(value == expected);
+}
+
+static void assert_not_decimal(const char *text)
+{
+	double value = 42;
+	if (gp_parse_decimal(text, &value))
+		fail_msg("'%s' accepted as %g", text, value);
+	assert_true(value == 42); /* untouched */
+}
+
+static void decimals_as_people_write_them(void **state)
+{
+	(void)state;
+	assert_decimal("0", 0);
+	assert_decimal("2.5", 2.5);
+	assert_decimal("-0.25", -0.25);
+	assert_decimal("+3", 3);
+	assert_decimal(".5", 0.5);
+	assert_decimal("5.", 5);
+	assert_decimal("0.1", 0.1);
+	assert_decimal("1000000", 1e6);
+}
+
+static void no_hex_no_exponent(void **state)
+{
+	(void)state;
+	/* forms strtod takes (ISO C 7.22.1.3) that a description may not use */
+	assert_not_decimal("0x0.1p0");
+	assert_not_decimal("0x7");
+	assert_not_decimal("5e-2");
+	assert_not_decimal("1E3");
+	assert_not_decimal("inf");
+	assert_not_decimal("nan");
+	assert_not_decimal(" 1");
+	assert_not_decimal("1 ");
+	assert_not_decimal("");
+	assert_not_decimal("+");
+	assert_not_decimal(".");
+	assert_not_decimal("-.");
+	assert_not_decimal("1.2.3");
+	assert_not_decimal("1,5");
+	assert_not_decimal("--1");
+}
+
+/* Under a locale that writes a decimal comma, '.' still is the point. */
+static void independent_of_the_locale(void **state)
+{
+	(void)state;
+	const char *names[] = { "de_DE.UTF-8", "de_DE.utf8", "fr_FR.UTF-8",
+				"nl_NL.UTF-8" };
+	const char *found = NULL;
+	for (size_t i = 0; !found && i < sizeof(names) / sizeof(names[0]); i++)
+		if (setlocale(LC_NUMERIC, names[i]))
+			found = names[i];
+	if (!found)
+		skip();
+	assert_decimal("2.5", 2.5);
+	assert_not_decimal("2,5");
+	setlocale(LC_NUMERIC, "C");
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -134,6 +206,9 @@ int main(void)
 		cmocka_unit_test(formatting),
 		cmocka_unit_test(round_trip),
 		cmocka_unit_test(checked_arithmetic),
+		cmocka_unit_test(decimals_as_people_write_them),
+		cmocka_unit_test(no_hex_no_exponent),
+		cmocka_unit_test(independent_of_the_locale),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

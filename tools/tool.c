@@ -1,8 +1,10 @@
 #include "tool.h"
 
+#include <errno.h>
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <time.h>
 #include <unistd.h>
 
@@ -305,10 +307,45 @@ static int parse_arguments(struct parse *parse, int argc, char **argv)
 	return parse_finish(parse);
 }
 
+/* A folder to write into: there and a folder, or not there at all. */
+static bool folder_usable(const char *path)
+{
+	struct stat st;
+	return stat(path, &st) != 0 ? errno == ENOENT : S_ISDIR(st.st_mode);
+}
+
+/* A file to write: NULL when it is a plain file or not there in a folder
+ * that is, else what is wrong. */
+static const char *file_problem(const char *path)
+{
+	struct stat st;
+	if (stat(path, &st) == 0)
+		return S_ISREG(st.st_mode) ? NULL : "not a plain file";
+	if (errno != ENOENT)
+		return strerror(errno);
+	const char *slash = strrchr(path, '/');
+	if (!slash)
+		return NULL;
+	char folder[4096];
+	snprintf(folder, sizeof(folder), "%.*s",
+		 slash == path ? 1 : (int)(slash - path), path);
+	return stat(folder, &st) == 0 && S_ISDIR(st.st_mode)
+		       ? NULL
+		       : "its folder is not there";
+}
+
 /* Values that can be checked before any work. */
 static int check_values(const struct parse *parse)
 {
 	const struct tool_options *o = parse->options;
+	if (o->output && !folder_usable(o->output))
+		return parse_error(parse, "-o %s: not a folder", o->output);
+	const char *problem;
+	if (o->depfile && (problem = file_problem(o->depfile)))
+		return parse_error(parse, "--depfile %s: %s", o->depfile,
+				   problem);
+	if (o->pdf && (problem = file_problem(o->pdf)))
+		return parse_error(parse, "--pdf %s: %s", o->pdf, problem);
 	if (o->only) {
 		struct gp_diag *diag = gp_diag_create();
 		if (!diag)

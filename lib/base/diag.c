@@ -135,3 +135,8 @@ GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
 {
 	return i < diag->count ? diag->entries[i].severity : GP_SEVERITY_NOTE;
 }
+
+bool gp_diag_oom(struct gp_diag *diag, const struct gp_where *where)
+{
+	return gp_diag_error(diag, where, "out of memory");
+}

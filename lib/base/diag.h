@@ -45,6 +45,9 @@ void gp_diag_warning(struct gp_diag *diag, const struct gp_where *where,
 void gp_diag_note(struct gp_diag *diag, const struct gp_where *where,
 		  const char *format, ...)
 	__attribute__((format(printf, 3, 4)));
+/* The one out-of-memory error, "out of memory" (at where, which may be
+ * NULL); returns false like gp_diag_error. */
+bool gp_diag_oom(struct gp_diag *diag, const struct gp_where *where);
 void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
 		 const struct gp_where *where, const char *format, va_list args)
 	__attribute__((format(printf, 4, 0)));

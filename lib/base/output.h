@@ -1,7 +1,7 @@
 /* A set of output files built in memory and put in place all together:
- * each is written under a temporary name in the output folder, synced, and
- * only when every one is complete are they renamed over their final
- * names.  A failed run leaves the folder as it was. */
+ * written into a fresh folder beside the output folder, synced, and
+ * swapped in with one rename.  A failed or killed run leaves the folder
+ * as it was. */
 #ifndef GP_OUTPUT_H
 #define GP_OUTPUT_H
 
@@ -25,11 +25,16 @@ void gp_output_set_finish(struct gp_output_set *set);
  * (records why) or out of memory. */
 struct gp_buffer *gp_output_add(struct gp_output_set *set, const char *name,
 				struct gp_diag *diag);
-/* Creates folder if missing (one level), writes every file atomically:
- * all under temporary names first, then renamed into place; if a rename
- * fails, the files already renamed are rolled back (the previous ones
- * were kept as hard links until the end).  On failure the folder is as it
- * was, and a folder this call created is removed again.  folder itself
+/* Creates folder if missing (one level) and replaces it at once by one
+ * holding the set and its other files (hard links), with
+ * renameat2(RENAME_EXCHANGE); without it, by two renames; where no
+ * sibling folder can be made or folder holds a subfolder, file by file
+ * in the folder: all under temporary names first, then renamed into
+ * place, and if a rename fails, the files already renamed are rolled back
+ * (the previous ones were kept as hard links until the end).  Clears
+ * what killed commits left (commits beside one folder take turns, by a
+ * lock on its parent).  On failure the folder is as it was, and a folder
+ * this call created is removed again.  folder itself
  * may be a symbolic link (the caller named it); names in set are plain,
  * so nothing is written outside it, and a symbolic link in the folder
  * with an output's name is replaced, never followed. */
@@ -41,5 +46,18 @@ bool gp_output_commit(const struct gp_output_set *set, const char *folder,
 GP_EXPORT void gp_output_fail_after(int writes);
 /* Test hook: make the n-th rename of a commit fail (1-based; 0 off). */
 GP_EXPORT void gp_output_fail_rename_after(int renames);
+
+/* Test hook: kill the process (SIGKILL) just before the n-th change a
+ * commit makes on the disk (1-based; 0 off). */
+GP_EXPORT void gp_output_kill_at(int step);
+
+/* Test hook: how gp_output_commit puts the set in place. */
+enum {
+	GP_OUTPUT_COMMIT_AUTO,      /* exchange, else renames, else in place */
+	GP_OUTPUT_COMMIT_EXCHANGE,  /* the new folder swapped in at once */
+	GP_OUTPUT_COMMIT_RENAMES,   /* old folder renamed aside, new one in */
+	GP_OUTPUT_COMMIT_IN_PLACE,  /* file by file in the folder */
+};
+GP_EXPORT void gp_output_commit_mode(int mode);
 
 #endif

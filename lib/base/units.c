@@ -1,6 +1,11 @@
 #include "units.h"
 
+#include <errno.h>
+#include <locale.h>
+#include <math.h>
+#include <pthread.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 bool gp_parse_mm(const char *text, int64_t *nm, const char **why)
@@ -50,6 +55,48 @@ bool gp_parse_mm(const char *text, int64_t *nm, const char **why)
 	}
 	*nm = negative ? -value : value;
 	return true;
+}
+
+/* [+-] digits [. digits], with at least one digit. */
+static bool is_decimal(const char *p)
+{
+	if (*p == '+' || *p == '-')
+		p++;
+	int digits = 0;
+	for (; *p >= '0' && *p <= '9'; p++)
+		digits++;
+	if (*p == '.')
+		for (p++; *p >= '0' && *p <= '9'; p++)
+			digits++;
+	return digits > 0 && *p == '\0';
+}
+
+/* The C locale, made once: strtod then reads '.' as the decimal point
+ * even when the program runs under a locale that writes ','. */
+static locale_t c_numeric;
+static pthread_once_t c_numeric_once = PTHREAD_ONCE_INIT;
+
+static void make_c_numeric(void)
+{
+	c_numeric = newlocale(LC_NUMERIC_MASK, "C", (locale_t)0);
+}
+
+bool gp_parse_decimal(const char *text, double *out)
+{
+	if (!is_decimal(text))
+		return false;
+	pthread_once(&c_numeric_once, make_c_numeric);
+	if (!c_numeric)
+		return false;
+	locale_t before = uselocale(c_numeric);
+	char *end;
+	errno = 0;
+	double value = strtod(text, &end);
+	bool ok = *end == '\0' && errno != ERANGE && isfinite(value);
+	uselocale(before);
+	if (ok)
+		*out = value;
+	return ok;
 }
 
 void gp_format_mm(char *buffer, size_t size, int64_t nm)

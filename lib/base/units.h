@@ -22,6 +22,13 @@
  * *why to a static text saying what is wrong. */
 bool gp_parse_mm(const char *text, int64_t *nm, const char **why);
 
+/* The one grammar for every other number in a description: an optional
+ * sign, digits, an optional point and digits, at least one digit; no
+ * spaces, no hex, no exponent, no "inf" or "nan".  The value is read as
+ * in the C locale whatever the program's locale.  False, leaving *out
+ * untouched, when text is not such a number or is beyond a double. */
+bool gp_parse_decimal(const char *text, double *out);
+
 /* Write nm as millimetres with exactly 6 decimals ("-1.250000"). */
 void gp_format_mm(char *buffer, size_t size, int64_t nm);
 /* Write nm as millimetres with trailing zeros removed ("1.25", "3"). */

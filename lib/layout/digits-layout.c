@@ -5,11 +5,10 @@
  * Nets: each row has its own commons COM (one when static, `duty` when
  * multiplexed, shared by every unit of the row), made before its segment
  * lines, which go unit by unit (sign unit first), line by line. */
-#include "build.h"
+#include "layout.h"
 #include "digits.h"
 #include "geos.h"
 #include "patch.h"
-#include "route.h"
 
 #include "units.h"
 

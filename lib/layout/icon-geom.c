@@ -24,6 +24,12 @@ static struct gp_point place(const struct gp_icon *icon, double x, double y)
 	case 270: rx = py, ry = -px; break;
 	default: break;
 	}
+	if (icon->turn != 0) {
+		/* a cell of an array along an arc turns with it */
+		double a = icon->turn * PI / 180, x0 = (double)rx, y0 = (double)ry;
+		rx = llround(x0 * cos(a) - y0 * sin(a));
+		ry = llround(x0 * sin(a) + y0 * cos(a));
+	}
 	return (struct gp_point){ icon->position.x + rx,
 				  icon->position.y + ry };
 }

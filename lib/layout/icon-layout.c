@@ -4,12 +4,11 @@
  * common (patch.h) notched around front traces, joined by back bridges
  * that keep clear of the front; one intended pixel per icon; summary
  * lines. */
-#include "build.h"
+#include "layout.h"
 #include "digits.h"
 #include "font.h"
 #include "icons.h"
 #include "patch.h"
-#include "route.h"
 #include "units.h"
 
 #include <math.h>
@@ -150,6 +149,9 @@ static void where_mm(char *buf, size_t size, struct gp_point p)
 	fmt(y, sizeof(y), p.y);
 	snprintf(buf, size, "(%s, %s)", x, y);
 }
+
+static int64_t max64i(int64_t a, int64_t b) { return a > b ? a : b; }
+static int64_t min64i(int64_t a, int64_t b) { return a < b ? a : b; }
 
 static struct gp_point centre(struct gp_box b)
 {
@@ -650,6 +652,120 @@ static bool assign_nets(struct layout *l)
 		if (d->icons[i].auto_slot)
 			ok = assign_slot(l, i);
 	return ok;
+}
+
+/* --- icons apart ----------------------------------------------------------- */
+
+/* A front shape to keep apart from: an icon's part, or an earlier
+ * stage's electrode. */
+struct front_item {
+	const struct gp_polygon *poly;
+	int icon;                 /* icon index, or -1 for earlier shapes */
+	int net;
+};
+
+static bool report_apart(struct layout *l, const struct front_item *a,
+			 const struct front_item *b, struct gp_point near,
+			 double distance)
+{
+	const struct gp_design *d = l->design;
+	const struct gp_icon *icon = &d->icons[b->icon >= 0 ? b->icon : a->icon];
+	const struct front_item *other = b->icon >= 0 ? a : b;
+	char at[80], what[200], s[32], dist[32];
+	where_mm(at, sizeof(at), near);
+	if (other->icon >= 0)
+		snprintf(what, sizeof(what), "icon '%s'",
+			 d->icons[other->icon].name);
+	else
+		snprintf(what, sizeof(what), "the electrode of %s",
+			 l->build->art.nets[other->net].name);
+	fmt(s, sizeof(s), d->rules.min_space);
+	fmt(dist, sizeof(dist), (int64_t)(distance + 0.5));
+	if (distance <= 0)
+		return gp_diag_error(l->diag, &icon->where,
+				     "icon '%s' overlaps %s near %s mm on the "
+				     "front plate; move one of them (each "
+				     "icon is a pixel of its own)", icon->name,
+				     what, at);
+	return gp_diag_error(l->diag, &icon->where,
+			     "icon '%s' is %s mm from %s near %s mm, closer "
+			     "than min_space %s mm; move them apart",
+			     icon->name, dist, what, at, s);
+}
+
+/* Icons may not overlap each other or what the blocks and digits put on
+ * the front plate, nor come closer than min_space to another net there
+ * (GEOS cannot take overlapping parts of one shape set either). */
+static bool check_apart(struct layout *l)
+{
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	size_t n = 0;
+	for (size_t i = 0; i < l->design->icon_count; i++)
+		n += l->icons[i].front.count;
+	for (size_t i = 0; i < art->shape_count; i++)
+		n += art->shapes[i].layer == layer && !art->shapes[i].open_path;
+	struct front_item *items = calloc(n ? n : 1, sizeof(*items));
+	struct gp_box *boxes = calloc(n ? n : 1, sizeof(*boxes));
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0, k = 0;
+	bool ok = items && boxes;
+	for (size_t i = 0; ok && i < l->design->icon_count; i++)
+		for (size_t p = 0; p < l->icons[i].front.count; p++)
+			items[k++] = (struct front_item){
+				&l->icons[i].front.items[p], (int)i,
+				l->icons[i].segment };
+	for (size_t i = 0; ok && i < art->shape_count; i++)
+		if (art->shapes[i].layer == layer && !art->shapes[i].open_path)
+			items[k++] = (struct front_item){ &art->shapes[i].poly,
+							  -1, art->shapes[i].net };
+	for (size_t i = 0; ok && i < k; i++)
+		boxes[i] = gp_polygon_bounds(items[i].poly);
+	int64_t space = l->design->rules.min_space;
+	ok = ok && gp_geos_box_pairs(l->geos, boxes, k, space, &pairs,
+				     &pair_count);
+	bool apart = true;
+	for (size_t q = 0; ok && q < pair_count; q++) {
+		const struct front_item *a = &items[pairs[q].a];
+		const struct front_item *b = &items[pairs[q].b];
+		/* parts of one icon are checked by check_space; parts of one
+		 * net may touch, not overlap */
+		if ((a->icon < 0 && b->icon < 0) || a->icon == b->icon)
+			continue;
+		struct gp_geos_shape *sa =
+			gp_geos_shape_from_polygon(l->geos, a->poly);
+		struct gp_geos_shape *sb =
+			gp_geos_shape_from_polygon(l->geos, b->poly);
+		double d = 0;
+		struct gp_point pa = { 0, 0 }, pb = { 0, 0 };
+		ok = sa && sb && gp_geos_shape_distance(l->geos, sa, sb, &d) &&
+		     gp_geos_shape_nearest(l->geos, sa, sb, &pa, &pb);
+		bool overlap = ok && d <= 0 &&
+			       gp_geos_shape_overlaps_area(l->geos, sa, sb);
+		gp_geos_shape_destroy(l->geos, sa);
+		gp_geos_shape_destroy(l->geos, sb);
+		if (!ok)
+			break;
+		bool same = a->net == b->net;
+		if (overlap || (!same && d < (double)space)) {
+			struct gp_point at = { (pa.x + pb.x) / 2,
+					       (pa.y + pb.y) / 2 };
+			if (overlap)
+				at = centre(gp_box_make(
+					max64i(boxes[pairs[q].a].x0, boxes[pairs[q].b].x0),
+					max64i(boxes[pairs[q].a].y0, boxes[pairs[q].b].y0),
+					min64i(boxes[pairs[q].a].x1, boxes[pairs[q].b].x1),
+					min64i(boxes[pairs[q].a].y1, boxes[pairs[q].b].y1)));
+			report_apart(l, a, b, at, overlap ? 0 : d);
+			apart = false;
+		}
+	}
+	free(pairs);
+	free(items);
+	free(boxes);
+	if (!ok)
+		return oom(l);
+	return apart;
 }
 
 /* --- front bridges ------------------------------------------------------- */
@@ -1306,7 +1422,7 @@ bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
 	}
 	if (!ok)
 		oom(&l);
-	ok = ok && make_all_fronts(&l) && assign_nets(&l) &&
+	ok = ok && make_all_fronts(&l) && assign_nets(&l) && check_apart(&l) &&
 	     make_groups(&l) && make_all_bridges(&l) && emit(&l) &&
 	     offer_all_ends(&l);
 	for (size_t i = 0; ok && i < d->icon_count; i++)

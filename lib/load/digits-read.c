@@ -20,7 +20,7 @@
  *       duty: 4               1 (static) to 4
  *       assignment: {a: [1, 1], b: [1, 2], ...}   (common, line)
  */
-#include "digits.h"
+#include "digits-spec.h"
 #include "model.h"
 
 #include "units.h"

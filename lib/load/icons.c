@@ -3,9 +3,10 @@
  * icon-layout.c. */
 #include "model.h"
 
-#include "digits.h"
+#include "digits-spec.h"
 #include "units.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -29,8 +30,11 @@ static const char *const all_keys[] = {
 
 void gp_icons_free(struct gp_design *design)
 {
-	for (size_t i = 0; i < design->icon_count; i++)
+	for (size_t i = 0; i < design->icon_count; i++) {
 		free(design->icons[i].points);
+		free(design->icons[i].made_name);
+		free(design->icons[i].made_segment);
+	}
 	free(design->icons);
 	design->icons = NULL;
 	design->icon_count = 0;
@@ -397,14 +401,53 @@ static bool read_slot(struct gp_reader *r, struct gp_icon *icon)
 	return true;
 }
 
+/* An array's cells may take their nets from lists, one per cell. */
+struct array_spec {
+	const struct gp_node *node;
+	long count;
+	int64_t pitch;            /* along a line */
+	long direction;           /* degrees, along a line */
+	bool arc;
+	struct gp_point centre;   /* of the arc */
+	double angle;             /* degrees between cells on the arc */
+	bool turn;                /* cells turn with the arc */
+	const struct gp_node *commons, *segments;
+};
+
 static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
-		      const struct gp_design *design, struct gp_diag *diag)
+		      const struct gp_design *design, struct gp_diag *diag,
+		      struct array_spec *a)
 {
 	if (!read_slot(r, icon))
 		return false;
 	bool given = icon->auto_slot;
-	const struct gp_node *common = gp_read_node(r, "common", !given);
-	const struct gp_node *segment = gp_read_node(r, "segment", !given);
+	if (a->node) {
+		a->commons = gp_read_node(r, "commons", false);
+		a->segments = gp_read_node(r, "segments", false);
+	}
+	const struct gp_node *common =
+		gp_read_node(r, "common", !given && !a->commons);
+	const struct gp_node *segment =
+		gp_read_node(r, "segment", !given && !a->segments);
+	if ((common && a->commons) || (segment && a->segments))
+		return gp_diag_error(diag, common && a->commons
+						   ? &a->commons->where
+						   : &a->segments->where,
+				     "give either '%s' or '%s' in %s, not both",
+				     common && a->commons ? "common" : "segment",
+				     common && a->commons ? "commons"
+							  : "segments",
+				     r->what);
+	if (given && (a->commons || a->segments))
+		return gp_diag_error(diag, &icon->slot_where,
+				     "give either 'slot: auto' or the cells' "
+				     "nets in %s, not both", r->what);
+	if (!given && !common && !segment && a->commons && a->segments)
+		return true;
+	if (!given && !common && a->commons)
+		return segment && read_segment(icon, design, segment, diag);
+	if (!given && !segment && a->segments)
+		return common && read_common(icon, design, common, diag);
 	if (given && (common || segment))
 		return gp_diag_error(diag, common ? &common->where
 						  : &segment->where,
@@ -417,9 +460,39 @@ static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
 	return ok;
 }
 
+/* array: {count, pitch, direction} along a line from position, or
+ * {count, centre, angle, turn} along an arc through position. */
+static bool read_array(struct gp_reader *parent, struct array_spec *a)
+{
+	char what[200];
+	snprintf(what, sizeof(what), "'array' of %s", parent->what);
+	struct gp_reader r;
+	gp_reader_begin(&r, a->node, what, parent->diag);
+	bool ok = gp_read_int(&r, "count", true, 2, GP_MAX_ICONS, &a->count);
+	a->arc = gp_read_node(&r, "centre", false) != NULL;
+	if (a->arc) {
+		int64_t c[2] = { 0, 0 };
+		ok &= gp_read_pair(&r, "centre", true, c);
+		a->centre = (struct gp_point){ c[0], c[1] };
+		ok &= gp_read_double(&r, "angle", true, -360, 360, &a->angle);
+		a->turn = true;
+		ok &= gp_read_bool(&r, "turn", false, &a->turn);
+	} else {
+		ok &= gp_read_length(&r, "pitch", true, &a->pitch);
+		ok &= gp_read_int(&r, "direction", false, 0, 270, &a->direction);
+		if (ok && a->direction % 90 != 0)
+			ok = gp_diag_error(parent->diag, &a->node->where,
+					   "%s: 'direction' must be 0, 90, 180 "
+					   "or 270 (degrees anticlockwise from "
+					   "+x); use 'centre' and 'angle' for an "
+					   "arc", what);
+	}
+	return gp_reader_end(&r) && ok;
+}
+
 static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 		      const char *name, const struct gp_node *node,
-		      struct gp_diag *diag)
+		      struct gp_diag *diag, struct array_spec *array)
 {
 	char what[160];
 	snprintf(what, sizeof(what), "icon '%s'", name);
@@ -440,7 +513,11 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	icon->position = (struct gp_point){ position[0], position[1] };
 	ok &= read_rotation(&r, icon);
 	ok &= gp_read_bool(&r, "mirror", false, &icon->mirror);
-	ok = read_nets(&r, icon, design, diag) && ok;
+	memset(array, 0, sizeof(*array));
+	array->node = gp_read_node(&r, "array", false);
+	if (array->node)
+		ok = read_array(&r, array) && ok;
+	ok = read_nets(&r, icon, design, diag, array) && ok;
 	const struct gp_node *text = gp_read_node(&r, "text", false);
 	const struct gp_node *shape = gp_read_node(&r, "shape", false);
 	if (text && shape) {
@@ -554,6 +631,136 @@ static bool check_text_total(const struct gp_design *design,
 			     "limit is %d", total, GP_MAX_ICON_TEXT);
 }
 
+static char *join_name(const char *base, long k)
+{
+	size_t n = strlen(base) + 24;
+	char *out = malloc(n);
+	if (out)
+		snprintf(out, n, "%s%ld", base, k);
+	return out;
+}
+
+/* Cell k (from 0) of an array: the span is the datum, so its place is
+ * computed from the first cell directly (position + k x pitch along a
+ * line; on an arc, the first cell's angle + k x angle). */
+static void place_cell(const struct gp_icon *first, const struct array_spec *a,
+		       long k, struct gp_icon *cell)
+{
+	if (!a->arc) {
+		int64_t d = (int64_t)k * a->pitch;
+		static const int dx[] = { 1, 0, -1, 0 }, dy[] = { 0, 1, 0, -1 };
+		int q = (int)(a->direction / 90);
+		cell->position = (struct gp_point){ first->position.x + dx[q] * d,
+						    first->position.y + dy[q] * d };
+		return;
+	}
+	double x = (double)(first->position.x - a->centre.x);
+	double y = (double)(first->position.y - a->centre.y);
+	double radius = sqrt(x * x + y * y);
+	double t = atan2(y, x) + (double)k * a->angle * 3.14159265358979323846 /
+					 180;
+	cell->position = (struct gp_point){ a->centre.x + llround(radius * cos(t)),
+					    a->centre.y + llround(radius * sin(t)) };
+	cell->turn = a->turn ? (double)k * a->angle : 0;
+}
+
+static bool list_item(const struct gp_node *list, long count, long k,
+		      const char *key, const char *what, struct gp_diag *diag,
+		      const char **out)
+{
+	if (list->kind != GP_NODE_SEQUENCE || (long)list->count != count)
+		return gp_diag_error(diag, &list->where,
+				     "'%s' of %s must list one name for each "
+				     "of its %ld cells", key, what, count);
+	const struct gp_node *item = list->items[k];
+	if (item->kind != GP_NODE_SCALAR || !*item->text)
+		return gp_diag_error(diag, &item->where,
+				     "each of the '%s' of %s must be a name",
+				     key, what);
+	*out = item->text;
+	return true;
+}
+
+/* Copies of icon as the cells of its array, appended at *count. */
+static bool expand(struct gp_design *design, size_t at,
+		   const struct array_spec *a, struct gp_diag *diag)
+{
+	struct gp_icon first = design->icons[at];
+	char what[160];
+	snprintf(what, sizeof(what), "icon '%s'", first.name);
+	if (a->arc && a->turn && first.kind == GP_ICON_TEXT)
+		return gp_diag_error(diag, &a->node->where,
+				     "%s: text does not turn along an arc; "
+				     "give the array 'turn: false'", what);
+	bool ok = true;
+	for (long k = 0; ok && k < a->count; k++) {
+		struct gp_icon *cell = &design->icons[at + (size_t)k];
+		*cell = first;
+		cell->points = NULL;
+		cell->made_name = cell->made_segment = NULL;
+		cell->cell = k + 1;
+		design->icon_count = at + (size_t)k + 1;
+		if (first.point_count) {
+			cell->points = malloc(first.point_count *
+					      sizeof(*cell->points));
+			if (!cell->points)
+				return gp_diag_error(diag, &a->node->where,
+						     "out of memory");
+			memcpy(cell->points, first.points,
+			       first.point_count * sizeof(*cell->points));
+		}
+		cell->made_name = join_name(first.name, k + 1);
+		if (!cell->made_name)
+			return gp_diag_error(diag, &a->node->where,
+					     "out of memory");
+		cell->name = cell->made_name;
+		place_cell(&first, a, k, cell);
+		if (a->commons) {
+			cell->common_block = cell->common_digits = -1;
+			ok = list_item(a->commons, a->count, k, "commons", what,
+				       diag, &cell->common);
+			cell->common_where = a->commons->where;
+		}
+		if (a->segments) {
+			cell->segment_digits = -1;
+			ok = ok && list_item(a->segments, a->count, k,
+					     "segments", what, diag,
+					     &cell->segment);
+			cell->segment_where = a->segments->where;
+		} else if (!first.auto_slot && first.segment && !a->commons) {
+			/* one common: each cell a segment line of its own */
+			cell->made_segment = join_name(first.segment, k + 1);
+			if (!cell->made_segment)
+				return gp_diag_error(diag, &a->node->where,
+						     "out of memory");
+			cell->segment = cell->made_segment;
+		} else if (!first.auto_slot && !a->commons &&
+			   first.segment_digits >= 0) {
+			ok = gp_diag_error(diag, &first.segment_where,
+					   "%s: the cells of an array need a "
+					   "segment each; give 'segments' or "
+					   "'commons' as lists, or 'slot: auto'",
+					   what);
+		}
+	}
+	free(first.points);
+	return ok;
+}
+
+static bool unique_names(const struct gp_design *design, struct gp_diag *diag)
+{
+	for (size_t i = 0; i < design->icon_count; i++)
+		for (size_t j = 0; j < i; j++)
+			if (strcmp(design->icons[i].name,
+				   design->icons[j].name) == 0)
+				return gp_diag_error(
+					diag, &design->icons[i].where,
+					"icon name '%s' is used twice (a cell "
+					"of an array is named after it and its "
+					"number)", design->icons[i].name);
+	return true;
+}
+
 bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		   struct gp_diag *diag)
 {
@@ -563,18 +770,44 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		return gp_diag_error(diag, &node->where,
 				     "%zu icons; the limit is %d", node->count,
 				     GP_MAX_ICONS);
-	design->icons = calloc(node->count ? node->count : 1,
-			       sizeof(*design->icons));
+	size_t capacity = node->count ? node->count : 1;
+	design->icons = calloc(capacity, sizeof(*design->icons));
 	if (!design->icons)
 		return gp_diag_error(diag, &node->where, "out of memory");
-	bool ok = true;
+	bool ok = true, arrays = false;
 	for (size_t i = 0; i < node->count; i++) {
+		struct array_spec a;
+		size_t at = design->icon_count;
 		/* counted before reading, so that a failed icon's points
 		 * are freed too */
-		design->icon_count = i + 1;
-		ok &= read_icon(&design->icons[i], design, node->keys[i]->text,
-				node->items[i], diag);
+		design->icon_count = at + 1;
+		bool read = read_icon(&design->icons[at], design,
+				      node->keys[i]->text, node->items[i], diag,
+				      &a);
+		ok &= read;
+		if (!read || !a.node)
+			continue;
+		arrays = true;
+		size_t need = at + (size_t)a.count + (node->count - i - 1);
+		if (need > GP_MAX_ICONS)
+			return gp_diag_error(diag, &a.node->where,
+					     "%zu icons with the cells of the "
+					     "arrays; the limit is %d", need,
+					     GP_MAX_ICONS);
+		if (need > capacity) {
+			struct gp_icon *grown = realloc(design->icons,
+							need * sizeof(*grown));
+			if (!grown)
+				return gp_diag_error(diag, &node->where,
+						     "out of memory");
+			memset(grown + capacity, 0,
+			       (need - capacity) * sizeof(*grown));
+			design->icons = grown;
+			capacity = need;
+		}
+		ok &= expand(design, at, &a, diag);
 	}
-	return ok && check_text_total(design, node, diag) &&
+	return ok && (!arrays || unique_names(design, diag)) &&
+	       check_text_total(design, node, diag) &&
 	       check_pairs(design, diag);
 }

@@ -1,6 +1,6 @@
 #include "model.h"
 
-#include "route.h"
+#include "route-spec.h"
 #include "units.h"
 
 #include <stdlib.h>

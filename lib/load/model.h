@@ -6,8 +6,8 @@
 
 #include "artwork.h"
 #include "diag.h"
-#include "digits.h"
-#include "drive.h"
+#include "digits-spec.h"
+#include "drive-spec.h"
 #include "font.h"
 #include "geom.h"
 #include "spec.h"
@@ -28,8 +28,8 @@ struct gp_rules {
 	struct gp_where where;
 };
 
-/* Section 'electrical' (read by lib/check-design.c): what the electrical
- * checks need.  Defaults in lib/check.c (gp_check_limits_default). */
+/* Section 'electrical' (read by electrical-read.c): what the electrical
+ * checks need.  Defaults in lib/base/findings.c (gp_check_limits_default). */
 struct gp_electrical {
 	bool given;
 	struct gp_where where;
@@ -40,7 +40,7 @@ struct gp_electrical {
 	int64_t conductor_pitch;    /* elastomeric connector, nm; 0 = none */
 };
 
-/* How the PDF proof is drawn (section 'proof', lib/proof.c).  Zero means
+/* How the PDF proof is drawn (section 'proof', proof-read.c).  Zero means
  * "not given": the proof then uses its defaults. */
 struct gp_proof_spec {
 	int paper;                /* 0 = chosen to fit, else table index + 1 */
@@ -51,6 +51,16 @@ struct gp_proof_spec {
 	const char *revision_date;/* as written, or NULL */
 	struct gp_where where;
 };
+
+/* Sheet sizes, portrait, mm, that 'proof: paper' chooses from
+ * (proof-read.c). */
+struct gp_paper {
+	const char *key, *name;
+	double w, h;
+	int series;               /* 0 ISO, 1 US */
+};
+#define GP_PAPER_COUNT 11
+extern const struct gp_paper gp_papers[];
 
 struct gp_plate_spec {
 	struct gp_box box;        /* in the glass frame */
@@ -148,6 +158,12 @@ struct gp_icon {
 	 * slot of a digit row first (icon-layout.c) */
 	bool auto_slot;
 	struct gp_where slot_where;
+	/* a cell of an array ('array:'): its name is made, cell counts from
+	 * 1; turn is the arc's angle at the cell, degrees anticlockwise */
+	char *made_name;          /* owned, or NULL */
+	char *made_segment;       /* owned: a cell's own segment name */
+	long cell;                /* 0 unless a cell of an array */
+	double turn;
 	struct gp_where common_where, segment_where;
 };
 
@@ -197,6 +213,8 @@ void gp_icons_free(struct gp_design *design);
  * computed from the origin directly: the span is the datum. */
 struct gp_point gp_block_dot(const struct gp_block *block, long line,
 			     long cell, long row, long col);
+/* Height of one cell of a block, from its top dot row to its bottom. */
+int64_t gp_block_cell_height(const struct gp_block *block);
 /* Box of all dots of a block. */
 struct gp_box gp_block_extent(const struct gp_block *block);
 

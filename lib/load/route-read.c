@@ -1,8 +1,8 @@
 /* Reading the routing sections: ledges, leads, seal, transfers, marks,
  * pins and part_text. */
-#include "route.h"
+#include "route-spec.h"
 
-#include "digits.h"
+#include "digits-spec.h"
 #include "model.h"
 #include "units.h"
 

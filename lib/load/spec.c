@@ -947,11 +947,8 @@ static bool double_of(const struct gp_node *node, const char *key,
 {
 	if (!scalar_of(node, key, diag, "a number"))
 		return false;
-	char *end;
-	errno = 0;
-	double value = strtod(node->text, &end);
-	if (node->quoted || node->text[0] == '\0' || *end != '\0' ||
-	    !isfinite(value) || errno == ERANGE)
+	double value = 0;
+	if (node->quoted || !gp_parse_decimal(node->text, &value))
 		return gp_diag_error(diag, &node->where,
 				     "'%s' must be a number, got '%s'", key,
 				     node->text);

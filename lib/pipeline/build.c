@@ -329,39 +329,9 @@ GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
 	return selected != 0;
 }
 
-bool gp_build_wants(const struct gp_build *build, enum gp_output_kind kind)
-{
-	return (build->outputs & (unsigned)kind) != 0;
-}
-
-bool gp_build_add_input(struct gp_build *build, const char *path)
-{
-	const char *list = build->inputs.data ? build->inputs.data : "";
-	size_t length = strlen(path);
-	for (const char *p = list; *p;) {
-		const char *end = strchr(p, '\n');
-		if ((size_t)(end - p) == length && strncmp(p, path, length) == 0)
-			return true;
-		p = end + 1;
-	}
-	return gp_buffer_printf(&build->inputs, "%s\n", path);
-}
-
 GP_EXPORT const char *gp_build_inputs(const struct gp_build *build)
 {
 	return build->inputs.data ? build->inputs.data : "";
-}
-
-const char *gp_build_date(const struct gp_build *build, char *buffer,
-			  size_t size)
-{
-	if (!build->has_epoch)
-		return NULL;
-	time_t t = (time_t)build->epoch;
-	struct tm tm;
-	if (!gmtime_r(&t, &tm) || strftime(buffer, size, "%Y-%m-%d", &tm) == 0)
-		return NULL;
-	return buffer;
 }
 
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build)

@@ -65,15 +65,22 @@ int64_t gp_maze_cell_for(struct gp_box window, int64_t fine)
 	return cell;
 }
 
-struct gp_maze *gp_maze_create(struct gp_box window, int64_t cell)
+bool gp_maze_fits(struct gp_box window, int64_t cell)
 {
 	if (cell < 1000 || gp_box_is_empty(window))
+		return false;
+	int64_t w = (gp_box_width(window) + cell - 1) / cell;
+	int64_t h = (gp_box_height(window) + cell - 1) / cell;
+	return w >= 2 && h >= 2 && w <= 4096 && h <= 4096 &&
+	       (uint64_t)(w * h) <= GP_MAZE_MAX_CELLS;
+}
+
+struct gp_maze *gp_maze_create(struct gp_box window, int64_t cell)
+{
+	if (!gp_maze_fits(window, cell))
 		return NULL;
 	int64_t w = (gp_box_width(window) + cell - 1) / cell;
 	int64_t h = (gp_box_height(window) + cell - 1) / cell;
-	if (w < 2 || h < 2 || w > 4096 || h > 4096 ||
-	    (uint64_t)(w * h) > GP_MAZE_MAX_CELLS)
-		return NULL;
 	struct gp_maze *m = calloc(1, sizeof(*m));
 	if (!m)
 		return NULL;

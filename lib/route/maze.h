@@ -82,6 +82,9 @@ struct gp_maze;
  * out of memory or when it would have more than GP_MAZE_MAX_CELLS. */
 #define GP_MAZE_MAX_CELLS (3u << 20)
 struct gp_maze *gp_maze_create(struct gp_box window, int64_t cell);
+/* Whether a grid over window with cells of `cell` can be made at all (a
+ * window narrower than two cells has no path through it). */
+bool gp_maze_fits(struct gp_box window, int64_t cell);
 void gp_maze_destroy(struct gp_maze *maze);
 /* The cell size a window of this size needs for leads `fine` apart at
  * the least: fine / 3, coarser when the window would be too large. */

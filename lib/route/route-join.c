@@ -213,8 +213,13 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 	struct route *r = j->r;
 	const struct gp_rules *rules = &r->design->rules;
 	int64_t cell = gp_maze_cell_for(window, min64(width, r->min_space) + 2 * 1000);
-	struct gp_maze *m = gp_maze_create(window, cell);
 	*found = false;
+	/* a window with no room for a grid has no path: not found, and the
+	 * caller says which pieces stay apart (this was once reported as
+	 * "out of memory") */
+	if (!gp_maze_fits(window, cell))
+		return true;
+	struct gp_maze *m = gp_maze_create(window, cell);
 	if (!m)
 		return gp_diag_error(r->diag, NULL, "out of memory");
 	mark(j, m, window);
@@ -458,6 +463,7 @@ bool gp_route_join(struct route *r, struct gp_geos *geos)
 	free(first);
 	free(items);
 	if (!ok && r->diag->errors == 0)
-		gp_diag_error(r->diag, NULL, "out of memory");
+		gp_diag_error(r->diag, NULL, "%s: joining the pieces of a net "
+			      "failed", r->design->spec->file);
 	return ok;
 }

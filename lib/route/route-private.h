@@ -4,7 +4,8 @@
 #ifndef GP_ROUTE_PRIVATE_H
 #define GP_ROUTE_PRIVATE_H
 
-#include "build.h"
+#include "digits.h"
+#include "stage.h"
 #include "geos.h"
 #include "route.h"
 #include "units.h"

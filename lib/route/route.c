@@ -12,28 +12,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* --- lead ends --------------------------------------------------------------- */
-
-bool gp_build_add_lead_end(struct gp_build *build, int net,
-			   enum gp_side side, struct gp_point at,
-			   int64_t width)
-{
-	if (build->end_count == build->end_capacity) {
-		size_t wanted = build->end_capacity ? build->end_capacity * 2
-						    : 64;
-		struct gp_lead_end *grown =
-			realloc(build->ends, wanted * sizeof(*grown));
-		if (!grown)
-			return false;
-		build->ends = grown;
-		build->end_capacity = wanted;
-	}
-	build->ends[build->end_count++] = (struct gp_lead_end){
-		.net = net, .side = side, .at = at, .width = width,
-	};
-	return true;
-}
-
 /* --- ledge checks ---------------------------------------------------------- */
 
 /* How far plate a sticks out past plate b on side s (negative: less). */

@@ -2,7 +2,7 @@
  * and the part-number text. */
 #include "route.h"
 
-#include "build.h"
+#include "stage.h"
 #include "font.h"
 #include "geos.h"
 #include "units.h"

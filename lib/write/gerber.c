@@ -1342,12 +1342,6 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 	return ok;
 }
 
-bool gp_gerber_write(struct gp_buffer *out, const struct gp_artwork *art,
-		     enum gp_layer layer, const struct gp_gerber_info *info)
-{
-	return gp_gerber_write_why(out, art, layer, info, NULL, 0);
-}
-
 bool gp_gerber_format_date(char *buffer, size_t size, int64_t epoch)
 {
 	/* years 0..9999 only, so the text keeps its fixed width */

@@ -60,11 +60,9 @@ struct gp_gerber_info {
  * (gp_gerber_region_contours).  Returns false, leaving out in an
  * unspecified state, on a coordinate outside +-GP_GERBER_COORD_MAX, a
  * filled ring with less than three distinct points, a region that cannot
- * be written as valid contours, or out of memory; the _why form then
- * writes into why (why_size bytes, 256 is enough) which shape failed
+ * be written as valid contours, or out of memory, and writes into why
+ * (why_size bytes, 256 is enough; why may be NULL) which shape failed
  * (role, net, lower left corner in mm) and why. */
-bool gp_gerber_write(struct gp_buffer *out, const struct gp_artwork *art,
-		     enum gp_layer layer, const struct gp_gerber_info *info);
 bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 			 enum gp_layer layer,
 			 const struct gp_gerber_info *info, char *why,

@@ -1,7 +1,9 @@
 /* The pin table (pins.csv) and the firmware map (a generated C header). */
+#include "digits.h"
+#include "pinmap.h"
 #include "route.h"
 
-#include "build.h"
+#include "stage.h"
 #include "units.h"
 
 #include "gp-config.h"

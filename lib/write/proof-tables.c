@@ -4,6 +4,7 @@
 
 #include "check.h"
 #include "drive.h"
+#include "pinmap.h"
 #include "route.h"
 #include "units.h"
 

@@ -1,4 +1,4 @@
-/* The PDF proof: the 'proof' section, the sheet plan, the frame and title
+/* The PDF proof: the sheet plan, the frame and title
  * block, text primitives, and the document itself. */
 #include "proof-internal.h"
 
@@ -50,60 +50,9 @@ const struct proof_legend_item proof_overview_legend[] = {
 const int proof_overview_legend_count =
 	sizeof(proof_overview_legend) / sizeof(proof_overview_legend[0]);
 
-/* Sheet sizes, portrait, mm: ISO 216 A series and the US sizes of
- * ANSI/ASME Y14.1 (from memory). */
-struct paper {
-	const char *key, *name;
-	double w, h;
-	int series;               /* 0 ISO, 1 US */
-};
-
-static const struct paper papers[] = {
-	{ "a4", "A4", 210, 297, 0 },
-	{ "a3", "A3", 297, 420, 0 },
-	{ "a2", "A2", 420, 594, 0 },
-	{ "a1", "A1", 594, 841, 0 },
-	{ "a0", "A0", 841, 1189, 0 },
-	{ "letter", "Letter", 215.9, 279.4, 1 },
-	{ "legal", "Legal", 215.9, 355.6, 1 },
-	{ "tabloid", "Tabloid", 279.4, 431.8, 1 },
-	{ "ansi-c", "ANSI C", 431.8, 558.8, 1 },
-	{ "ansi-d", "ANSI D", 558.8, 863.6, 1 },
-	{ "ansi-e", "ANSI E", 863.6, 1117.6, 1 },
-};
-#define PAPER_COUNT (sizeof(papers) / sizeof(papers[0]))
-
 /* Reduction scales recommended by ISO 5455 (from memory), tried in turn
  * when the glass does not fit at 1:1. */
 static const int reductions[] = { 1, 2, 5, 10, 20, 50, 100 };
-
-/* --- the 'proof' section ------------------------------------------------- */
-
-bool gp_proof_read(struct gp_design *design, const struct gp_node *node,
-		   struct gp_diag *diag)
-{
-	static const char *const series[] = { "iso", "us", NULL };
-	static const char *const orientations[] = { "any", "portrait",
-						    "landscape", NULL };
-	const char *paper_keys[PAPER_COUNT + 2];
-	paper_keys[0] = "fit";
-	for (size_t i = 0; i < PAPER_COUNT; i++)
-		paper_keys[i + 1] = papers[i].key;
-	paper_keys[PAPER_COUNT + 1] = NULL;
-
-	struct gp_proof_spec *s = &design->proof;
-	struct gp_reader r;
-	s->where = node->where;
-	gp_reader_begin(&r, node, "'proof'", diag);
-	gp_read_choice(&r, "paper", false, paper_keys, &s->paper);
-	gp_read_choice(&r, "series", false, series, &s->series);
-	gp_read_choice(&r, "orientation", false, orientations,
-		       &s->orientation);
-	gp_read_size(&r, "span_tolerance", false, &s->span_tolerance);
-	gp_read_size(&r, "outline_tolerance", false, &s->outline_tolerance);
-	gp_read_string(&r, "revision_date", false, &s->revision_date);
-	return gp_reader_end(&r);
-}
 
 static bool have_fonts(void);
 
@@ -166,7 +115,7 @@ static bool fits(double pw, double ph, double w, double h)
 	return w + 2 * PROOF_MARGIN <= pw && h + 2 * PROOF_MARGIN <= ph;
 }
 
-static void take_paper(const struct paper *paper, bool landscape,
+static void take_paper(const struct gp_paper *paper, bool landscape,
 		       struct gp_proof_plan *plan)
 {
 	plan->paper_name = paper->name;
@@ -185,8 +134,8 @@ static bool choose_paper(struct proof *p, double s,
 	proof_overview_room(p, s, room);
 	struct gp_box g = glass_box(p->design);
 	bool wide = gp_box_width(g) >= gp_box_height(g);
-	for (size_t i = 0; i < PAPER_COUNT; i++) {
-		const struct paper *paper = &papers[i];
+	for (size_t i = 0; i < GP_PAPER_COUNT; i++) {
+		const struct gp_paper *paper = &gp_papers[i];
 		if (spec->paper ? (size_t)spec->paper != i + 1
 				: paper->series != spec->series)
 			continue;
@@ -212,11 +161,11 @@ static bool choose_paper(struct proof *p, double s,
 static void largest_paper(struct proof *p, struct gp_proof_plan *plan)
 {
 	const struct gp_proof_spec *spec = &p->design->proof;
-	const struct paper *paper = NULL;
-	for (size_t i = 0; i < PAPER_COUNT; i++)
+	const struct gp_paper *paper = NULL;
+	for (size_t i = 0; i < GP_PAPER_COUNT; i++)
 		if (spec->paper ? (size_t)spec->paper == i + 1
-				: papers[i].series == spec->series)
-			paper = &papers[i];
+				: gp_papers[i].series == spec->series)
+			paper = &gp_papers[i];
 	bool landscape = spec->orientation != 1;
 	take_paper(paper, landscape, plan);
 	double room[SIDE_COUNT], w, h;
@@ -312,7 +261,7 @@ void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
 	struct proof p;
 	if (!measure_begin(&p, build)) {
 		/* no fonts: gp_proof_write says so; a plan that holds */
-		take_paper(&papers[0], true, plan);
+		take_paper(&gp_papers[0], true, plan);
 		plan->scale = 1;
 		plan->scale_num = plan->scale_den = 1;
 		plan->sheet_count = 1;

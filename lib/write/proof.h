@@ -10,7 +10,7 @@
 #ifndef GP_PROOF_H
 #define GP_PROOF_H
 
-#include "build.h"
+#include "stage.h"
 #include "buffer.h"
 #include "diag.h"
 

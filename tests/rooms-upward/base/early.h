@@ -1,0 +1,2 @@
+/* Planted: base includes a header of the later room load/. */
+#include "later.h"

@@ -1,0 +1,1 @@
+/* A header of the room load/, for the planted include in base/. */
