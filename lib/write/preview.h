@@ -14,7 +14,7 @@
 #ifndef GP_PREVIEW_H
 #define GP_PREVIEW_H
 
-#include "build.h"
+#include "stage.h"
 #include "buffer.h"
 #include "diag.h"
 
