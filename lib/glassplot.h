@@ -157,6 +157,13 @@ GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
 				       enum gp_drive_output output,
 				       bool *feasible, struct gp_diag *diag);
 
+/* --- text for a terminal --------------------------------------------------- */
+/* text with every control character (escape sequences start with one),
+ * bidi control and byte that is not UTF-8 written as visible "\u{XXXX}";
+ * newlines and tabs are kept when keep_lines.  Release with free(); NULL
+ * when out of memory. */
+GP_EXPORT char *gp_text_for_terminal(const char *text, bool keep_lines);
+
 #ifdef __cplusplus
 }
 #endif

@@ -1280,9 +1280,9 @@ static void csv_columns(void **state)
 	struct gp_buffer b;
 	gp_buffer_init(&b);
 	assert_true(gp_pins_csv(f.build, &b));
-	assert_non_null(strstr(b.data, "pin,ledge,x,y,net,role,drives\n"));
-	assert_non_null(strstr(b.data, ",COM1,common,block main line 1 row 1\n"));
-	assert_non_null(strstr(b.data, ",SEG6,segment,block main cell 2 column 1\n"));
+	assert_non_null(strstr(b.data, "pin,ledge,x,y,net,role,drives\r\n"));
+	assert_non_null(strstr(b.data, ",COM1,common,block main line 1 row 1\r\n"));
+	assert_non_null(strstr(b.data, ",SEG6,segment,block main cell 2 column 1\r\n"));
 	gp_buffer_finish(&b);
 	finish(&f);
 }

@@ -39,7 +39,7 @@ int cmd_build(const struct tool_options *options)
 		if (options->json)
 			fputs(gp_build_summary_json(build), stdout);
 		else if (options->verbosity >= 0)
-			fputs(gp_build_summary(build), stdout);
+			tool_put(gp_build_summary(build), stdout);
 	}
 	if (design)
 		tool_print_diag(diag, options->verbosity);

@@ -8,14 +8,23 @@
 #include <time.h>
 #include <unistd.h>
 
+void tool_put(const char *text, FILE *file)
+{
+	char *safe = gp_text_for_terminal(text, true);
+	fputs(safe ? safe : "(out of memory)\n", file);
+	free(safe);
+}
+
 int tool_usage_error(const char *format, ...)
 {
 	va_list args;
 	va_start(args, format);
-	fputs("glassplot: ", stderr);
-	vfprintf(stderr, format, args);
-	fputc('\n', stderr);
+	char text[2048];
+	vsnprintf(text, sizeof(text), format, args);
 	va_end(args);
+	char *safe = gp_text_for_terminal(text, false);
+	fprintf(stderr, "glassplot: %s\n", safe ? safe : text);
+	free(safe);
 	return EXIT_BAD_INPUT;
 }
 
@@ -50,8 +59,10 @@ void tool_print_diag(const struct gp_diag *diag, int verbosity)
 				   : severity == GP_SEVERITY_WARNING ? "warning: "
 								     : "note: ";
 		const char *message = gp_diag_message(diag, i);
+		char *safe = gp_text_for_terminal(message, false);
 		fprintf(stderr, "%s%s%s\n", has_place(message) ? "" : "glassplot: ",
-			kind, message);
+			kind, safe ? safe : "(out of memory)");
+		free(safe);
 	}
 }
 

@@ -81,6 +81,9 @@ const struct tool_command *tool_find_command(const char *name);
  * returns EXIT_BAD_INPUT. */
 int tool_usage_error(const char *format, ...)
 	__attribute__((format(printf, 1, 2)));
+/* Writes text made from the user's names (a summary, a report) with its
+ * control and bidi characters made visible (gp_text_for_terminal). */
+void tool_put(const char *text, FILE *file);
 /* Prints each message of diag on stderr, one line each: with its place
  * when it has one, else through the same "glassplot: " prefix. */
 void tool_print_diag(const struct gp_diag *diag, int verbosity);

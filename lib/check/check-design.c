@@ -66,7 +66,7 @@ static bool check_drive(struct gp_build *build, struct gp_diag *diag)
 	};
 	gp_drive_advice(report, f.text, sizeof(f.text));
 	return gp_check_report_add(&build->checks, &f) ||
-	       gp_diag_error(diag, NULL, "out of memory");
+	       gp_diag_oom(diag, NULL);
 }
 
 bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
@@ -84,7 +84,7 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 	}
 	struct gp_geos *geos = gp_geos_create(diag);
 	if (!geos)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	gp_check_report_finish(&build->checks);
 	bool ok = gp_check_run(geos, &build->art, &limits, &build->checks,
 			       diag);
@@ -147,5 +147,5 @@ bool gp_build_add_check_reports(struct gp_build *build,
 	gp_check_format_json(&build->checks, &build->art, build->design->part,
 			     build->design->revision, json);
 	return (!text->failed && !json->failed) ||
-	       gp_diag_error(diag, NULL, "out of memory");
+	       gp_diag_oom(diag, NULL);
 }

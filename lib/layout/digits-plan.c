@@ -150,7 +150,7 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 		part->poly_count = 1;
 		if (!gp_dot_build(row->point_shape, row->point_size, fs->slant,
 				  c, tol, &part->poly[0]))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 		set_height(part);
 	}
 	if (row->colon_mask >> i & 1) {
@@ -167,8 +167,7 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 			};
 			if (!gp_dot_build(row->colon_shape, row->colon_size,
 					  fs->slant, c, tol, &part->poly[k]))
-				return gp_diag_error(diag, NULL,
-						     "out of memory");
+				return gp_diag_oom(diag, NULL);
 		}
 		set_height(part);
 	}
@@ -1071,7 +1070,7 @@ static bool plan_unit(const struct gp_digits *row,
 	struct plan *p = calloc(1, sizeof(*p));
 	bool ok = false;
 	if (!p)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	p->row = row;
 	p->rules = rules;
 	p->unit = u;
@@ -1091,7 +1090,7 @@ static bool plan_unit(const struct gp_digits *row,
 	if (gp_digits_grid(row)) {
 		ok = grid_unit(p, out, index);
 		if (!ok)
-			gp_diag_error(diag, NULL, "out of memory");
+			gp_diag_oom(diag, NULL);
 		goto done;
 	}
 	if (u->number > 0)
@@ -1117,7 +1116,7 @@ static bool plan_unit(const struct gp_digits *row,
 		documented(row, u);
 	}
 	if (!make_traces(p, out, index)) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		goto done;
 	}
 	ok = true;
@@ -1149,7 +1148,7 @@ bool gp_digits_plan(const struct gp_digits *row,
 	size_t count = (size_t)row->count + (row->minus || row->one ? 1 : 0);
 	out->units = calloc(count, sizeof(*out->units));
 	if (!out->units)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	out->unit_count = count;
 	size_t k = 0;
 	if (row->minus || row->one) {

@@ -135,7 +135,7 @@ static struct gp_build *build_new(
 {
 	struct gp_build *build = calloc(1, sizeof(*build));
 	if (!build) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	build->design = design;
@@ -233,7 +233,7 @@ GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
 		gp_drive_format(&report, &out);
 	if (out.failed || !out.data) {
 		gp_buffer_finish(&out);
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	return out.data;
@@ -367,7 +367,7 @@ static bool add_gerbers(const struct gp_build *build,
 	struct gp_gerber_pin *pins =
 		calloc(build->pin_count ? build->pin_count : 1, sizeof(*pins));
 	if (!pins)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	for (size_t i = 0; i < build->pin_count; i++) {
 		const struct gp_pin *p = &build->pins[i];
 		pins[i] = (struct gp_gerber_pin){
@@ -433,11 +433,11 @@ static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
 			G_CHECKSUM_SHA256, (const guchar *)f->content.data,
 			f->content.size);
 		if (!hex)
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 		gp_buffer_printf(out, "%s  %s\n", hex, f->name);
 		g_free(hex);
 	}
-	return !out->failed || gp_diag_error(diag, NULL, "out of memory");
+	return !out->failed || gp_diag_oom(diag, NULL);
 }
 
 bool gp_build_outputs(struct gp_build *build,

@@ -147,7 +147,7 @@ static bool make_items(struct ledge_ctx *c)
 			n++;
 	c->items = calloc(n ? n : 1, sizeof(*c->items));
 	if (!c->items)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	int64_t cut = (c->out.x0 + c->out.x1) / 2;
 	for (size_t i = 0; i < r->net_count; i++) {
 		struct netstate *ns = &r->nets[i];
@@ -503,7 +503,7 @@ static bool fan_levels(struct ledge_ctx *c, size_t from, size_t to,
 	int dir = direction(&it[from]);
 	long *level = calloc(to - from, sizeof(*level));
 	if (!level)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	if (dir > 0) {
 		for (size_t i = to; i-- > from + 1;)
 			if (it[i - 1].pad + step > it[i].arrive)
@@ -647,7 +647,7 @@ static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
 		for (size_t k = 0; k < b.n; k++)
 			b.p[k] = from_canon(c->l->side, b.p[k]);
 		if (!add_path(r, plate, it->net, b.p, b.n, it->width))
-			return gp_diag_error(r->diag, NULL, "out of memory");
+			return gp_diag_oom(r->diag, NULL);
 	}
 	return true;
 }
@@ -686,7 +686,7 @@ static bool check_planar(struct ledge_ctx *c)
 		if (!pads || !order) {
 			free(pads);
 			free(order);
-			return gp_diag_error(r->diag, NULL, "out of memory");
+			return gp_diag_oom(r->diag, NULL);
 		}
 		for (size_t k = 0; k < n; k++)
 			pads[k] = c->items[k].pad;
@@ -829,7 +829,7 @@ bool gp_route_ledge(struct route *r, int index)
 		if (!xs || !idx) {
 			free(xs);
 			free(idx);
-			ok = gp_diag_error(r->diag, NULL, "out of memory");
+			ok = gp_diag_oom(r->diag, NULL);
 			goto out;
 		}
 		for (size_t k = 0; k < c.count; k++) {
@@ -957,7 +957,7 @@ static bool choose_ledges(struct route *r)
 	if (!ok) {
 		free(rank);
 		free(best);
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	}
 	for (size_t li = 0; li < g->ledge_count; li++) {
 		const struct gp_ledge *l = &r->ledges[li];
@@ -1048,7 +1048,7 @@ bool gp_route_assign_nets(struct route *r)
 		total += r->ledges[i].map ? r->ledges[i].map->count : r->net_count;
 	r->build->pins = calloc(total ? total : 1, sizeof(*r->build->pins));
 	if (!r->build->pins)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	for (size_t i = 0; i < r->net_count; i++)
 		r->nets[i].ledge = -1, r->nets[i].pin = -1;
 	bool any_map = false;

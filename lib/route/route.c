@@ -523,11 +523,6 @@ static struct gp_box stub_box(const struct route *r, const struct netstate *n,
 	}
 }
 
-static bool boxes_overlap(struct gp_box a, struct gp_box b)
-{
-	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
-}
-
 /* Squared distance between boxes, in nm^2 as double. */
 static double box_gap2(struct gp_box a, struct gp_box b)
 {
@@ -615,7 +610,7 @@ static void hit_test(struct blocker *k, const struct gp_shape *s)
 		if (s->role == GP_ROLE_PATCH)
 			return;
 		struct gp_box inner = k->box;
-		if (!boxes_overlap(inner, k->r->s_in) || !boxes_overlap(b, inner))
+		if (!gp_box_overlap(inner, k->r->s_in) || !gp_box_overlap(b, inner))
 			return;
 		if (shape_is_box(s) || shape_overlaps(k, s, inner))
 			k->hit = s->net, k->plate_hit = true;
@@ -917,13 +912,13 @@ static bool clash(const struct route *r, const struct footprint *a,
 		double g = (double)shift_reach(r);
 		return box_gap2(a->box, b->box) < g * g;
 	}
-	if (!a->corridor || !b->corridor || !boxes_overlap(a->box, b->box))
+	if (!a->corridor || !b->corridor || !gp_box_overlap(a->box, b->box))
 		return false;
 	struct gp_box both = gp_box_make(max64(a->box.x0, b->box.x0),
 					 max64(a->box.y0, b->box.y0),
 					 min64(a->box.x1, b->box.x1),
 					 min64(a->box.y1, b->box.y1));
-	return boxes_overlap(both, r->s_in);
+	return gp_box_overlap(both, r->s_in);
 }
 
 /* Finds the first clash among the chosen ends; false on error. */
@@ -959,7 +954,7 @@ static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
 	free(pairs);
 	free(f);
 	free(boxes);
-	return ok || gp_diag_error(r->diag, NULL, "out of memory");
+	return ok || gp_diag_oom(r->diag, NULL);
 }
 
 /* Of two clashing nets, the one to take its next free end: the one now
@@ -1244,14 +1239,14 @@ static bool notch_patches(struct route *r, struct gp_geos *geos)
 			struct gp_box b = gp_polygon_bounds(&s->poly);
 			int64_t c = r->design->rules.registration * 2;
 			struct gp_box q = n->corridor;
-			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
-			if (boxes_overlap(b, q))
+			q = gp_box_grow(q, c);
+			if (gp_box_overlap(b, q))
 				ok = notch_one(r, geos, k, n->corridor, (int)i);
 			if (!ok || n->path_count < 2)
 				continue;
 			q = gp_polygon_bounds(&n->path_poly);
-			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
-			if (boxes_overlap(b, q))
+			q = gp_box_grow(q, c);
+			if (gp_box_overlap(b, q))
 				ok = gp_route_notch(r, geos, k, &n->path_poly,
 						    (int)i);
 		}
@@ -1273,7 +1268,7 @@ static bool check_paths(struct route *r, struct gp_geos *geos)
 		enum gp_layer mine = gp_plate_ito_layer(art->nets[i].plate);
 		struct gp_box bb = gp_polygon_bounds(&n->path_poly);
 		int64_t g = r->min_space;
-		bb = gp_box_make(bb.x0 - g, bb.y0 - g, bb.x1 + g, bb.y1 + g);
+		bb = gp_box_grow(bb, g);
 		/* what the lead adds outside its own net's ITO */
 		struct gp_polyset own;
 		gp_polyset_init(&own);
@@ -1304,7 +1299,7 @@ static bool check_paths(struct route *r, struct gp_geos *geos)
 			const struct gp_shape *s = &art->shapes[k];
 			if ((s->layer != GP_LAYER_FRONT_ITO &&
 			     s->layer != GP_LAYER_BACK_ITO) || s->net == (int)i ||
-			    s->net < 0 || !boxes_overlap(gp_polygon_bounds(&s->poly), bb) ||
+			    s->net < 0 || !gp_box_overlap(gp_polygon_bounds(&s->poly), bb) ||
 			    (s->layer != mine && s->role == GP_ROLE_PATCH))
 				continue;
 			struct gp_geos_shape *o = gp_geos_shape_from_polygon(geos, &s->poly);
@@ -1489,7 +1484,7 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 	struct gp_diag *diag = r->diag;
 	struct cand (*saved)[16] = malloc((r->net_count + 1) * sizeof(*saved));
 	if (!saved)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	for (size_t i = 0; i < r->net_count; i++)
 		memcpy(saved[i], r->nets[i].cands, sizeof(saved[i]));
 	bool ok = false;
@@ -1560,7 +1555,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	r.nets = calloc(r.net_count ? r.net_count : 1, sizeof(*r.nets));
 	bool ok = geos && r.nets;
 	if (!ok) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		goto out;
 	}
 	if (!(ok = check_seal_fits(&r)))
@@ -1611,7 +1606,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 			gp_polygon_finish(&copy);
 		}
 		if (!ok)
-			gp_diag_error(diag, NULL, "out of memory");
+			gp_diag_oom(diag, NULL);
 	}
 	ok = ok && check_paths(&r, geos);
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
