@@ -13,6 +13,7 @@
 #include "gerbv-render.h"
 #include "geos.h"
 #include "route.h"
+#include "route-private.h"
 #include "units.h"
 
 #include <dirent.h>
@@ -905,6 +906,41 @@ static void maze_degenerate_window(void **state)
 	gp_maze_destroy(m);
 }
 
+/* A lead with a jog shorter than it is wide: its mitred outline folds
+ * over itself, which GEOS refuses ("Input geom 0 is invalid: Self-
+ * intersection ... difference failed", seen routing the pump sample).
+ * The outline must come out valid: GEOS takes it in an overlay, and its
+ * area is the lead's (length x width, the 45-degree jog counted along
+ * its centre line, within the corner slivers). */
+static void path_jog_outline_valid(void **state)
+{
+	(void)state;
+	const struct gp_point p[] = {
+		{ 25444628, 22375000 }, { 25444628, 22550000 },
+		{ 25426221, 22568407 }, { 25426221, 27500000 },
+	};
+	struct gp_polygon poly;
+	gp_polygon_init(&poly);
+	assert_true(gp_route_path_polygon(p, 4, 50000, &poly));
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_geos *geos = gp_geos_create(&diag);
+	struct gp_polyset set, merged;
+	gp_polyset_init(&set);
+	gp_polyset_init(&merged);
+	assert_true(gp_polyset_take(&set, &poly));
+	assert_true(gp_geos_union_set(geos, &set, &merged));
+	assert_int_equal(merged.count, 1);
+	assert_int_equal(diag.errors, 0);
+	double length = 0.175 + 0.018407 * 1.41421356 + 4.931593;
+	double area = gp_polygon_area_mm2(&merged.items[0]);
+	assert_true(fabs(area - length * 0.05) < 0.0005);
+	gp_polyset_finish(&set);
+	gp_polyset_finish(&merged);
+	gp_geos_destroy(geos);
+	gp_diag_finish(&diag);
+}
+
 /* --- errors with numbers --------------------------------------------------- */
 
 static void capacity_ledge_short(void **state)
@@ -1305,6 +1341,7 @@ int main(void)
 		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(maze_degenerate_window),
+		cmocka_unit_test(path_jog_outline_valid),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(route_carries_lists),
 		cmocka_unit_test(capacity_tracks),
