@@ -818,7 +818,8 @@ static void test_overprint_checker(void **state)
 /* --- previews of content ------------------------------------------------------- */
 
 /* The element table of glass-map.h: one line per digit segment or icon,
- * "{ kind, owner, a, b, common, segment }, / * label * /". */
+ * "{ kind, owner, a, b, common, segment, "NAME" }" with the name of
+ * pin-matrix.csv ("2B", "COL", an icon's name). */
 struct map_element {
 	int common, segment;
 	char label[96];
@@ -836,17 +837,10 @@ static size_t read_map(const struct gp_build *build, struct map_element *out,
 	     s++) {
 		int kind, owner, a, b;
 		struct map_element *e = &out[n];
-		if (sscanf(s, "\t\t{ %d, %d, %d, %d, %d, %d }", &kind, &owner, &a,
-			   &b, &e->common, &e->segment) != 6)
+		if (sscanf(s, "\t\t{ %d, %d, %d, %d, %d, %d, \"%95[^\"]\"",
+			   &kind, &owner, &a, &b, &e->common, &e->segment,
+			   e->label) != 7)
 			continue;
-		e->label[0] = '\0';
-		const char *c = strstr(s, "/* ");
-		const char *end = strchr(s, '\n');
-		if (c && c < end)
-			sscanf(c + 3, "%95[^*]", e->label);
-		size_t len = strlen(e->label);
-		while (len && e->label[len - 1] == ' ')
-			e->label[--len] = '\0';
 		n++;
 	}
 	gp_buffer_finish(&header);
@@ -898,7 +892,7 @@ static bool dark_at(cairo_surface_t *image, struct gp_box g, double dpi,
 
 /* "clock=12:34" on the static timer: the digits' segments by the usual
  * seven-segment forms (1: b c; 2: a b d e g; 3: a b c d g; 4: b c f g)
- * and the colon after digit 2, looked up by their labels in the firmware
+ * and the colon after digit 2, looked up by their names in the firmware
  * map glass-map.h; the preview PNG is dark exactly on the pixels whose
  * (common, segment) pairs those are. */
 static void test_show_digits(void **state)
@@ -908,18 +902,16 @@ static void test_show_digits(void **state)
 	assert_true(gp_build_show(f.build, "clock=12:34", &f.diag));
 	static struct map_element map[512];
 	size_t n = read_map(f.build, map, 512);
-	static const char *const lit[4] = { "bc", "abdeg", "abcdg", "bcfg" };
+	static const char *const lit[4] = { "BC", "ABDEG", "ABCDG", "BCFG" };
 	int driven[64][2];
 	size_t count = 0;
 	for (size_t i = 0; i < n; i++) {
 		int digit;
 		char part[16];
-		if (sscanf(map[i].label, "digits clock digit %d %15s", &digit,
-			   part) != 2)
-			continue;
-		bool on = digit >= 1 && digit <= 4 &&
-			  ((strlen(part) == 1 && strchr(lit[digit - 1], part[0])) ||
-			   (digit == 2 && strcmp(part, "colon") == 0));
+		bool on = strcmp(map[i].label, "COL") == 0;
+		if (sscanf(map[i].label, "%d%15s", &digit, part) == 2)
+			on = digit >= 1 && digit <= 4 && strlen(part) == 1 &&
+			     strchr(lit[digit - 1], part[0]);
 		if (on) {
 			driven[count][0] = map[i].common;
 			driven[count][1] = map[i].segment;
