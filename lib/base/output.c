@@ -20,7 +20,7 @@ static int fail_after;   /* test hook: writes left before a failure */
 static int kill_at;      /* test hook: the step that kills the process */
 static int steps;        /* steps of the current commit */
 
-GP_EXPORT void gp_output_kill_at(int step)
+void gp_output_kill_at(int step)
 {
 	kill_at = step;
 }
@@ -33,7 +33,7 @@ static void step(void)
 		raise(SIGKILL);
 }
 
-GP_EXPORT void gp_output_fail_after(int writes)
+void gp_output_fail_after(int writes)
 {
 	fail_after = writes;
 }
@@ -212,7 +212,7 @@ struct commit_entry {
 
 static int fail_renames;  /* test hook: renames left before a failure */
 
-GP_EXPORT void gp_output_fail_rename_after(int renames)
+void gp_output_fail_rename_after(int renames)
 {
 	fail_renames = renames;
 }
@@ -340,7 +340,7 @@ static bool commit_in_place(const struct gp_output_set *set,
 
 static int commit_mode;  /* test hook: GP_OUTPUT_COMMIT_* */
 
-GP_EXPORT void gp_output_commit_mode(int mode)
+void gp_output_commit_mode(int mode)
 {
 	commit_mode = mode;
 }
