@@ -107,6 +107,17 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build);
  * summary ends with the list of files written. */
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 			      struct gp_diag *diag);
+/* Content to preview lit: "ROW=DIGITS", "BLOCK=TEXT" ('|' between
+ * lines), icon names, separated by ';' (README, "Previews").  The proof
+ * then has a sheet of the glass lit with it, through the (common,
+ * segment) pairs of the firmware map.  False with errors in diag. */
+GP_EXPORT bool gp_build_show(struct gp_build *build, const char *spec,
+			     struct gp_diag *diag);
+/* Writes the glass lit with the content of gp_build_show as a PNG of dpi
+ * dots per inch to path (all or nothing). */
+GP_EXPORT bool gp_build_write_preview(const struct gp_build *build,
+				      const char *path, double dpi,
+				      struct gp_diag *diag);
 /* A short human summary (plates, blocks, nets, pixels, files), owned by
  * the build, valid until it is destroyed. */
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build);

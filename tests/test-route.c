@@ -963,6 +963,32 @@ static void capacity_ledge_short(void **state)
 	free(text);
 }
 
+/* A ledge too short says which other ledge has room: the segments'
+ * ledge at 1.5 mm pitch holds (49.2 - 0.75) / 1.5 + 1 = 33 of its 40
+ * pads; the commons' ledge on the right, 24 - 0.8 = 23.2 mm long at
+ * 0.6 mm, holds (23.2 - 0.3) / 0.6 + 1 = 39 pads and carries 14. */
+static void capacity_other_ledge(void **state)
+{
+	(void)state;
+	expect_error("glass: {part: T-4}\n"
+		     "front: {size: [50, 30]}\n"
+		     "back: {size: [54, 24], position: [0, 6]}\n"
+		     "viewing_area: {position: [6, 10], size: [38, 16]}\n"
+		     "rules: {edge_clearance: 0.4}\n"
+		     "blocks:\n"
+		     "  m: {origin: [13.125, 24], cells: [8, 2], dots: [5, 7],"
+		     " dot_size: [0.5, 0.55], dot_pitch: [0.55, 0.6],"
+		     " cell_pitch: 3, line_pitch: 6}\n"
+		     "ledges:\n"
+		     "  seg: {side: bottom, pitch: 1.5, pad_width: 0.75,"
+		     " carries: segments}\n"
+		     "  com: {side: right, pitch: 0.6, pad_length: 1.5,"
+		     " edge_clearance: 0.3, carries: commons, numbering: up}\n"
+		     "seal: {width: 1, distance: 0.5}\n",
+		     "ledge 'com' has room for 25 more pad(s) (name nets or "
+		     "elements in its 'carries')");
+}
+
 /* Ledges by element: the pump sample sends the character columns to the
  * front ledge and the commons and the indicators' nets to the back one. */
 static void route_carries_lists(void **state)
@@ -1025,6 +1051,10 @@ static void capacity_tracks(void **state)
 	expect_error(text, "ledge 'main': 14 leads (COM1 to COM14) pass the "
 			   "left of the seal outside it; they need 14 x (0.2 "
 			   "+ 0.1) = 4.2 mm but only 3.7 mm is free there");
+	/* 3.7 mm / 14 leads = 0.264 mm each, to the micrometre */
+	expect_error(text, "leads.width + leads.space of at most 0.264 mm "
+			   "would fit, or a ledge on the left could carry "
+			   "them");
 	free(text);
 }
 
@@ -1344,6 +1374,7 @@ int main(void)
 		cmocka_unit_test(path_jog_outline_valid),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(route_carries_lists),
+		cmocka_unit_test(capacity_other_ledge),
 		cmocka_unit_test(capacity_tracks),
 		cmocka_unit_test(capacity_fan_out),
 		cmocka_unit_test(transfers_too_big),

@@ -208,6 +208,17 @@ static int take(struct parse *parse, const struct tool_option *option,
 	case OPTION_STRICT: o->strict = true; break;
 	case OPTION_DEPFILE: o->depfile = value; break;
 	case OPTION_PDF: o->pdf = value; break;
+	case OPTION_SHOW: o->show = value; break;
+	case OPTION_DPI: {
+		char *end = NULL;
+		double dpi = strtod(value, &end);
+		if (*end || !(dpi >= 10 && dpi <= 2400))
+			return parse_error(parse, "'%s' takes dots per inch "
+					   "from 10 to 2400, not '%s'",
+					   spelling, value);
+		o->dpi = dpi;
+		break;
+	}
 	case OPTION_QUIET: o->verbosity = -1; break;
 	case OPTION_VERBOSE: o->verbosity = 1; break;
 	case OPTION_HELP:
@@ -263,10 +274,17 @@ static int parse_finish(struct parse *parse)
 				   c->operands);
 	for (const struct tool_option *o = c->options; o->long_name; o++)
 		if (o->required && !parse->given[o->id])
-			return parse_error(parse, "expected %s%c %s",
-					   o->short_name ? "-" : "--",
-					   o->short_name ? o->short_name : '-',
+		{
+			char name[64];
+			if (o->short_name)
+				snprintf(name, sizeof(name), "-%c",
+					 o->short_name);
+			else
+				snprintf(name, sizeof(name), "--%s",
+					 o->long_name);
+			return parse_error(parse, "expected %s %s", name,
 					   o->argument);
+		}
 	parse->options->description = parse->operands[0];
 	parse->options->second = parse->operand_count > 1 ? parse->operands[1]
 							   : NULL;

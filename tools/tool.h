@@ -24,6 +24,8 @@ enum tool_option_id {
 	OPTION_STRICT,
 	OPTION_DEPFILE,
 	OPTION_PDF,
+	OPTION_SHOW,
+	OPTION_DPI,
 	OPTION_QUIET,
 	OPTION_VERBOSE,
 	OPTION_HELP,
@@ -54,6 +56,8 @@ struct tool_options {
 	const char *only;            /* --only KINDS, checked */
 	const char *depfile;
 	const char *pdf;
+	const char *show;            /* --show SPEC */
+	double dpi;                  /* --dpi, 0 when not given */
 };
 
 struct tool_command {
@@ -107,5 +111,6 @@ int cmd_build(const struct tool_options *options);
 int cmd_check(const struct tool_options *options);
 int cmd_diff(const struct tool_options *options);
 int cmd_drive(const struct tool_options *options);
+int cmd_preview(const struct tool_options *options);
 
 #endif

@@ -937,23 +937,44 @@ static int64_t shift_reach(const struct gp_rules *r)
 
 /* Front ITO that is not icon i's: earlier stages' shapes, other icons'
  * electrodes and bridges. */
-static bool foreign_front(struct layout *l, size_t self,
+static bool copy_near(struct gp_polyset *dst, const struct gp_polyset *src,
+		      struct gp_box box);
+
+static bool box_meets(struct gp_box a, struct gp_box b)
+{
+	return !(a.x1 < b.x0 || a.x0 > b.x1 || a.y1 < b.y0 || a.y0 > b.y1);
+}
+
+/* Only what lies within box can change the margin given back near an
+ * icon's bridges: the rest is left out, which keeps the work per icon
+ * from growing with the whole glass. */
+static bool foreign_front(struct layout *l, size_t self, struct gp_box box,
 			  struct gp_polyset *out)
 {
-	if (!earlier_front(l, out))
-		return false;
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_polygon copy;
+		if (s->layer != layer || s->open_path ||
+		    !box_meets(gp_polygon_bounds(&s->poly), box))
+			continue;
+		if (!gp_polygon_copy(&copy, &s->poly) ||
+		    !gp_polyset_take(out, &copy))
+			return false;
+	}
 	for (size_t i = 0; i < l->design->icon_count; i++)
-		if (i != self && (!copy_into(out, &l->icons[i].front) ||
-				  !copy_into(out, &l->icons[i].bridges)))
+		if (i != self && (!copy_near(out, &l->icons[i].front, box) ||
+				  !copy_near(out, &l->icons[i].bridges, box)))
 			return false;
 	return true;
 }
 
-static bool other_patches_set(struct layout *l, size_t group,
+static bool other_patches_set(struct layout *l, size_t group, struct gp_box box,
 			      struct gp_polyset *out)
 {
 	for (size_t g = 0; g < l->group_count; g++)
-		if (g != group && !copy_into(out, &l->patches[g]))
+		if (g != group && !copy_near(out, &l->patches[g], box))
 			return false;
 	return true;
 }
@@ -980,16 +1001,24 @@ static bool reclaim_margin(struct layout *l, size_t i)
 	for (size_t k = 0; k < 10; k++)
 		gp_polyset_init(all[k]);
 	struct gp_polyset *patch = &l->patches[w->group];
+	/* what is wanted lies within reach of the bridges; what can take
+	 * from it within reach (or min_space) of that */
+	struct gp_box box = gp_box_none();
+	for (size_t k = 0; k < w->bridges.count; k++)
+		box = gp_box_union(box, gp_polygon_bounds(&w->bridges.items[k]));
+	int64_t grow = 2 * reach + r->min_space + r->chord_tolerance + 1000;
+	box = gp_box_make(box.x0 - grow, box.y0 - grow, box.x1 + grow,
+			  box.y1 + grow);
 	bool ok =
 		gp_geos_dilate_box(l->geos, &w->front, r->registration,
 				   r->registration, &ring) &&
 		gp_geos_offset(l->geos, &w->bridges, reach, GP_JOIN_ROUND,
 			       r->chord_tolerance, &near) &&
 		gp_geos_intersection(l->geos, &ring, &near, &want) &&
-		foreign_front(l, i, &foreign) &&
+		foreign_front(l, i, box, &foreign) &&
 		gp_geos_offset(l->geos, &foreign, reach, GP_JOIN_ROUND,
 			       r->chord_tolerance, &away) &&
-		other_patches_set(l, w->group, &others) &&
+		other_patches_set(l, w->group, box, &others) &&
 		gp_geos_offset(l->geos, &others, r->min_space, GP_JOIN_ROUND,
 			       r->chord_tolerance, &apart) &&
 		gp_geos_difference(l->geos, &want, &away, &step) &&

@@ -1,5 +1,6 @@
 /* The pipeline: layout, routing and checks into a build; writers from it. */
 #include "build.h"
+#include "preview.h"
 
 #include "gerber.h"
 #include "output.h"
@@ -258,6 +259,7 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_digit_rows_free(build->digit_rows, build->design->digit_count);
 	free(build->ends);
 	free(build->pins);
+	gp_show_destroy(build->show);
 	free(build);
 }
 

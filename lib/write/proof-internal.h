@@ -49,9 +49,9 @@ struct proof_legend_item {
 extern const struct proof_legend_item proof_overview_legend[];
 extern const int proof_overview_legend_count;
 
-/* One block's dots as cairo recording surfaces, each covering one cell
- * (origin at the cell's top-left dot corner, paper mm at the view scale):
- * all dots, and the two halves of a dot checkerboard. */
+/* One block's dots as cairo recording surfaces, each covering one line
+ * of cells (origin at the first cell's top-left dot corner, paper mm at
+ * the view scale): all dots, and the two halves of a dot checkerboard. */
 struct proof_cells {
 	cairo_surface_t *all, *even, *odd;
 	double scale;
@@ -195,6 +195,7 @@ void proof_pin1(struct proof *p, const struct proof_view *v);
 void proof_sheet_overview(struct proof *p);
 void proof_sheet_layers(struct proof *p);
 void proof_sheet_lit(struct proof *p, bool checkerboard);
+void proof_sheet_show(struct proof *p);
 
 /* --- placing dimensions (proof-place.c) --------------------------------- */
 /* Paper rectangle, mm, y down. */
