@@ -66,8 +66,8 @@ GP_EXPORT size_t gp_build_check_errors(const struct gp_build *build);
 GP_EXPORT size_t gp_build_check_warnings(const struct gp_build *build);
 /* The check report as text (one line per finding) or as JSON (the
  * content of report.json); owned by the build. */
-GP_EXPORT const char *gp_build_check_text(struct gp_build *build);
-GP_EXPORT const char *gp_build_check_json(struct gp_build *build);
+GP_EXPORT const char *gp_build_check_text(const struct gp_build *build);
+GP_EXPORT const char *gp_build_check_json(const struct gp_build *build);
 /* 1 when there are errors (with strict, also warnings), else 0. */
 GP_EXPORT int gp_build_check_status(const struct gp_build *build,
 				    bool strict);
@@ -107,14 +107,45 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build);
  * summary ends with the list of files written. */
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 			      struct gp_diag *diag);
+/* Content to preview lit: "ROW=DIGITS", "BLOCK=TEXT" ('|' between
+ * lines), icon names, separated by ';' (README, "Previews").  The proof
+ * then has a sheet of the glass lit with it, through the (common,
+ * segment) pairs of the firmware map.  False with errors in diag. */
+GP_EXPORT bool gp_build_show(struct gp_build *build, const char *spec,
+			     struct gp_diag *diag);
+/* Writes the glass lit with the content of gp_build_show as a PNG of dpi
+ * dots per inch to path (all or nothing). */
+GP_EXPORT bool gp_build_write_preview(const struct gp_build *build,
+				      const char *path, double dpi,
+				      struct gp_diag *diag);
 /* A short human summary (plates, blocks, nets, pixels, files), owned by
  * the build, valid until it is destroyed. */
 GP_EXPORT const char *gp_build_summary(const struct gp_build *build);
-/* The same summary as a JSON object (regenerated at each call, owned by
- * the build). */
-GP_EXPORT const char *gp_build_summary_json(struct gp_build *build);
+/* The same summary as a JSON object, owned by the build (made again by
+ * each gp_build_write, whose files it lists). */
+GP_EXPORT const char *gp_build_summary_json(const struct gp_build *build);
 /* Names of the files written by the last gp_build_write, one per line. */
 GP_EXPORT const char *gp_build_written(const struct gp_build *build);
+
+/* --- the outputs in memory ---------------------------------------------- */
+struct gp_outputs;
+/* Renders every output gp_build_write would write (the same bytes, the
+ * same names, checksums.sha256 included; the dependency file is not one
+ * of them) into memory, touching no file.  NULL on failure. */
+GP_EXPORT struct gp_outputs *gp_build_render(const struct gp_build *build,
+					     struct gp_diag *diag);
+GP_EXPORT void gp_outputs_destroy(struct gp_outputs *outputs);
+/* Number of files, and the i-th one's plain name ("front-ito.gbr"). */
+GP_EXPORT size_t gp_outputs_count(const struct gp_outputs *outputs);
+GP_EXPORT const char *gp_outputs_name(const struct gp_outputs *outputs,
+				      size_t i);
+/* The i-th file's bytes and size, owned by outputs; NULL (size 0) out of
+ * range.  The bytes are followed by a NUL not counted in size. */
+GP_EXPORT const void *gp_outputs_data(const struct gp_outputs *outputs,
+				      size_t i, size_t *size);
+/* The file called name, or NULL (size 0) when the build has none. */
+GP_EXPORT const void *gp_outputs_find(const struct gp_outputs *outputs,
+				      const char *name, size_t *size);
 
 /* --- comparing two builds ---------------------------------------------- */
 struct gp_diff;
@@ -145,6 +176,13 @@ enum gp_drive_output {
 GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
 				       enum gp_drive_output output,
 				       bool *feasible, struct gp_diag *diag);
+
+/* --- text for a terminal --------------------------------------------------- */
+/* text with every control character (escape sequences start with one),
+ * bidi control and byte that is not UTF-8 written as visible "\u{XXXX}";
+ * newlines and tabs are kept when keep_lines.  Release with free(); NULL
+ * when out of memory. */
+GP_EXPORT char *gp_text_for_terminal(const char *text, bool keep_lines);
 
 #ifdef __cplusplus
 }

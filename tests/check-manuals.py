@@ -259,6 +259,12 @@ def main():
     commands, options, keys, outputs = read_listing(list_keys, root)
     if not commands or not keys or not outputs:
         fail('the listing is empty: list-keys found nothing')
+    for page in ('glassplot.1', 'glassplot.5'):
+        source = os.path.join(root, 'tools', page)
+        th = open(source, encoding='utf-8').readline()
+        if '"@DATE@"' not in th:
+            fail(f'tools/{page}: the .TH date must be @DATE@, filled in by '
+                 f'the build, not {th.split()[3:4]}')
     check_man5(man5, keys)
     check_man1(man1, commands, options, outputs)
     check_completion(completion, commands, options)

@@ -4,12 +4,14 @@ line, "EXIT STREAM :: FIRST LINE :: ARGUMENTS" (STREAM out or err: where
 the first line is read; ARGUMENTS split as a shell would).  In arguments
 and first lines @small, @panel and @static stand for descriptions, @out for
 a fresh folder, @file for a fresh file name and @dir for a folder that
-exists; a first line ending in "..." need only start with the rest.  Fails too when some command or option of the tool's own table
+exists; a first line ending in "..." need only start with the rest;
+leading NAME=VALUE words set the environment.  Fails too when some command or option of the tool's own table
 (from list-keys) has no case.
 
 usage: run-options.py GLASSPLOT LIST_KEYS SOURCE_ROOT
 """
 import os
+import re
 import shlex
 import subprocess
 import sys
@@ -57,8 +59,13 @@ def main():
         for name, value in sorted(values.items(), key=lambda i: -len(i[0])):
             args = [a.replace(name, value) for a in args]
             first = first.replace(name, value)
+        # leading NAME=VALUE words set the environment, as in a shell
+        case_env = dict(env)
+        while args and re.match(r'[A-Z_]+=', args[0]):
+            name, value = args.pop(0).split('=', 1)
+            case_env[name] = value
         result = subprocess.run([glassplot] + args, capture_output=True,
-                                text=True, env=env)
+                                text=True, env=case_env)
         text = result.stdout if stream == 'out' else result.stderr
         got = text.splitlines()[0] if text else ''
         same = (got.startswith(first[:-3]) if first.endswith('...')
@@ -72,7 +79,8 @@ def main():
                 print('    stderr:', result.stderr.splitlines()[0])
         else:
             passed += 1
-        words = shlex.split(arguments)
+        words = [w for w in shlex.split(arguments)
+                 if not re.match(r'[A-Z_]+=', w)]
         if words and words[0] in table:
             for option in table[words[0]]:
                 if any(w == option[1] or w.startswith(option[1] + '=') or

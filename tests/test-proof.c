@@ -11,9 +11,15 @@
 #include "model.h"
 #include "proof.h"
 #include "proof-internal.h"
+#include "preview.h"
 #include "route.h"
 
 #include <cairo-pdf.h>
+#include <ft2build.h>
+#include FT_FREETYPE_H
+#include FT_TRUETYPE_TABLES_H
+#include "font.h"
+#include "units.h"
 #include <cairo.h>
 #include <math.h>
 #include <stdio.h>
@@ -235,41 +241,37 @@ static void load_file(struct fixture *f, const char *file, const char *name)
 	load(f, text, name);
 }
 
-/* Whitespace-separated words of a pins.csv row (six fields: pin, ledge,
- * x, y, net, role) appear in this order on one line of the text. */
-static bool row_in_text(const char *text, const char *row)
+/* The words of one line (space separated, in order) appear in this order
+ * on one line of the text. */
+static bool words_in_text(const char *text, const char *words)
 {
-	char fields[6][64];
-	const char *s = row;
-	for (int i = 0; i < 6; i++) {
-		size_t n = strcspn(s, ",");
-		if (n >= sizeof(fields[i]) || !s[n])
-			return false;
-		snprintf(fields[i], sizeof(fields[i]), "%.*s", (int)n, s);
-		s += n + 1;
-	}
 	for (const char *line = text; line && *line;) {
 		const char *end = strchr(line, '\n');
 		size_t length = end ? (size_t)(end - line) : strlen(line);
-		char copy[1024];
+		char copy[2048], want[2048];
 		snprintf(copy, sizeof(copy), "%.*s", (int)length, line);
-		char *saveptr = NULL, *word = strtok_r(copy, " ", &saveptr);
-		int k = 0;
-		while (word && k < 6) {
-			if (strcmp(word, fields[k]) == 0)
-				k++;
-			else if (k)
+		snprintf(want, sizeof(want), "%s", words);
+		char *save_line = NULL, *save_want = NULL;
+		char *word = strtok_r(copy, " ", &save_line);
+		char *next = strtok_r(want, " ", &save_want);
+		bool started = false;
+		while (word && next) {
+			if (strcmp(word, next) == 0) {
+				next = strtok_r(NULL, " ", &save_want);
+				started = true;
+			} else if (started) {
 				break;
-			word = strtok_r(NULL, " ", &saveptr);
+			}
+			word = strtok_r(NULL, " ", &save_line);
 		}
-		if (k == 6)
+		if (!next)
 			return true;
 		line = end ? end + 1 : NULL;
 	}
 	return false;
 }
 
-/* The routed sample: every row of pins.csv is in the pin table, the pad
+/* The routed sample: every row of the pin matrix is on its sheets, the pad
  * pitch and span are dimensioned, and the glass thickness comes from
  * the optics section. */
 static void test_routed_sample(void **state)
@@ -281,22 +283,37 @@ static void test_routed_sample(void **state)
 	write_proof(&f, &out);
 	struct gp_proof_plan plan;
 	gp_proof_plan(f.build, &plan);
+	/* 96 pins x 16 commons on A4 landscape at 2.5 mm lettering: two
+	 * bands of 8 commons, each on the same number of sheets */
+	assert_int_equal(plan.pin_sheets % 2, 0);
 	char *text = run("pdftotext -layout -f %d -l %d '%s' -",
 			 plan.sheet_pins, plan.sheet_pins + plan.pin_sheets - 1,
 			 f.path);
-	struct gp_buffer csv;
-	gp_buffer_init(&csv);
-	assert_true(gp_pins_csv(f.build, &csv));
-	size_t rows = 0;
-	for (const char *line = strchr(csv.data, '\n') + 1; *line;
-	     line = strchr(line, '\n') + 1) {
-		if (!row_in_text(text, line))
-			fail_msg("pins.csv row not in the pin table: %.40s",
-				 line);
-		rows++;
+	/* every row of the pin matrix (pin-matrix.csv) is on the sheets */
+	struct gp_pin_matrix m;
+	assert_true(gp_pin_matrix_init(&m, f.build));
+	assert_int_equal(m.rows, f.build->pin_count);
+	assert_int_equal(m.commons, 16);
+	for (size_t r = 0; r < m.rows; r++) {
+		char words[2048];
+		const struct gp_pin *pin = m.pins[r];
+		for (size_t band = 0; band < 16; band += 8) {
+			size_t used = (size_t)snprintf(
+				words, sizeof(words), "%d %s", pin->number,
+				pin->net >= 0 ? f.build->art.nets[pin->net].name
+					      : "NC");
+			for (size_t k = band; k < band + 8; k++)
+				if (*gp_pin_matrix_cell(&m, r, k))
+					used += (size_t)snprintf(
+						words + used,
+						sizeof(words) - used, " %s",
+						gp_pin_matrix_cell(&m, r, k));
+			if (!words_in_text(text, words))
+				fail_msg("pin matrix row not on the sheets: "
+					 "%.60s", words);
+		}
 	}
-	assert_int_equal(rows, f.build->pin_count);
-	gp_buffer_finish(&csv);
+	gp_pin_matrix_finish(&m);
 	free(text);
 
 	text = run("pdftotext -layout -f 1 -l 1 '%s' -", f.path);
@@ -798,6 +815,230 @@ static void test_overprint_checker(void **state)
 	}
 }
 
+/* --- previews of content ------------------------------------------------------- */
+
+/* The element table of glass-map.h: one line per digit segment or icon,
+ * "{ kind, owner, a, b, common, segment, "NAME" }" with the name of
+ * pin-matrix.csv ("2B", "COL", an icon's name). */
+struct map_element {
+	int common, segment;
+	char label[96];
+};
+
+static size_t read_map(const struct gp_build *build, struct map_element *out,
+		       size_t max)
+{
+	struct gp_buffer header;
+	gp_buffer_init(&header);
+	assert_true(gp_firmware_header(build, &header));
+	assert_true(gp_buffer_append(&header, "", 1));
+	size_t n = 0;
+	for (const char *s = header.data; (s = strstr(s, "\t\t{ ")) && n < max;
+	     s++) {
+		int kind, owner, a, b;
+		struct map_element *e = &out[n];
+		if (sscanf(s, "\t\t{ %d, %d, %d, %d, %d, %d, \"%95[^\"]\"",
+			   &kind, &owner, &a, &b, &e->common, &e->segment,
+			   e->label) != 7)
+			continue;
+		n++;
+	}
+	gp_buffer_finish(&header);
+	return n;
+}
+
+/* A point inside a convex part: the mean of its corners. */
+static void inside(const struct gp_polygon *poly, double *x, double *y)
+{
+	*x = *y = 0;
+	for (size_t i = 0; i < poly->outer.count; i++) {
+		*x += gp_mm(poly->outer.points[i].x);
+		*y += gp_mm(poly->outer.points[i].y);
+	}
+	*x /= (double)poly->outer.count;
+	*y /= (double)poly->outer.count;
+}
+
+struct png_read {
+	const unsigned char *data;
+	size_t size, at;
+};
+
+static cairo_status_t read_png(void *closure, unsigned char *data,
+			       unsigned int length)
+{
+	struct png_read *r = closure;
+	if (r->at + length > r->size)
+		return CAIRO_STATUS_READ_ERROR;
+	memcpy(data, r->data + r->at, length);
+	r->at += length;
+	return CAIRO_STATUS_SUCCESS;
+}
+
+/* Dark at glass point (x, y) mm of a preview PNG at dpi? */
+static bool dark_at(cairo_surface_t *image, struct gp_box g, double dpi,
+		    double x, double y)
+{
+	double s = dpi / 25.4;
+	int px = (int)(s * (x - gp_mm(g.x0)));
+	int py = (int)(s * (gp_mm(g.y1) - y));
+	int stride = cairo_image_surface_get_stride(image);
+	const unsigned char *row =
+		cairo_image_surface_get_data(image) + py * stride;
+	uint32_t v = ((const uint32_t *)row)[px];
+	int grey = (int)((v >> 16 & 255) + (v >> 8 & 255) + (v & 255)) / 3;
+	return grey < 100;
+}
+
+/* "clock=12:34" on the static timer: the digits' segments by the usual
+ * seven-segment forms (1: b c; 2: a b d e g; 3: a b c d g; 4: b c f g)
+ * and the colon after digit 2, looked up by their names in the firmware
+ * map glass-map.h; the preview PNG is dark exactly on the pixels whose
+ * (common, segment) pairs those are. */
+static void test_show_digits(void **state)
+{
+	struct fixture f;
+	load_file(&f, "../samples/timer-4digit-static.yaml", "show");
+	assert_true(gp_build_show(f.build, "clock=12:34", &f.diag));
+	static struct map_element map[512];
+	size_t n = read_map(f.build, map, 512);
+	static const char *const lit[4] = { "BC", "ABDEG", "ABCDG", "BCFG" };
+	int driven[64][2];
+	size_t count = 0;
+	for (size_t i = 0; i < n; i++) {
+		int digit;
+		char part[16];
+		bool on = strcmp(map[i].label, "COL") == 0;
+		if (sscanf(map[i].label, "%d%15s", &digit, part) == 2)
+			on = digit >= 1 && digit <= 4 && strlen(part) == 1 &&
+			     strchr(lit[digit - 1], part[0]);
+		if (on) {
+			driven[count][0] = map[i].common;
+			driven[count][1] = map[i].segment;
+			count++;
+		}
+	}
+	/* the colon is two pixels (its dots) on one pair */
+	assert_int_equal(count, 2 + 5 + 2 + 5 + 4);
+
+	struct gp_buffer png;
+	gp_buffer_init(&png);
+	const double dpi = 200;
+	assert_true(gp_show_png(f.build, f.build->show, dpi, &png, &f.diag));
+	struct png_read r = { (const unsigned char *)png.data, png.size, 0 };
+	cairo_surface_t *image =
+		cairo_image_surface_create_from_png_stream(read_png, &r);
+	assert_int_equal(cairo_surface_status(image), CAIRO_STATUS_SUCCESS);
+	cairo_surface_flush(image);
+	const struct gp_artwork *art = &f.build->art;
+	struct gp_box g = gp_box_union(f.design->front.box, f.design->back.box);
+	size_t dark = 0;
+	for (size_t i = 0; i < art->pixel_count; i++) {
+		const struct gp_pixel *px = &art->pixels[i];
+		int c = art->nets[px->common].number;
+		int s = art->nets[px->segment].number;
+		bool expected = false;
+		for (size_t k = 0; k < count; k++)
+			expected |= driven[k][0] == c && driven[k][1] == s;
+		double x, y;
+		inside(&px->shape, &x, &y);
+		bool seen = dark_at(image, g, dpi, x, y);
+		if (seen != expected)
+			fail_msg("pixel %zu (COM%d, SEG%d) at (%.2f, %.2f) is "
+				 "%s", i, c, s, x, y, seen ? "lit" : "dark");
+		dark += seen;
+	}
+	assert_true(dark >= count);
+	cairo_surface_destroy(image);
+	gp_buffer_finish(&png);
+
+	/* content the glass cannot show is an error naming it */
+	assert_false(gp_build_show(f.build, "clock=12.34", &f.diag));
+	assert_non_null(strstr(gp_diag_message(&f.diag, f.diag.count - 1),
+			       "digit 2 of row 'clock' has no point"));
+	assert_false(gp_build_show(f.build, "hours=12", &f.diag));
+	assert_false(gp_build_show(f.build, "clock=12345", &f.diag));
+	unload(&f);
+}
+
+/* Text in a dot matrix: "A" in the first cell of block 'reading' lights
+ * exactly the dots FreeType's black-and-white rendering of Liberation
+ * Mono's A sets (capitals over the rows above the last), at the pairs
+ * the block's map gives (common of its dot row, segment of its column);
+ * an icon by name lights its own pair. */
+static void test_show_text(void **state)
+{
+	struct fixture f;
+	load_file(&f, "../samples/tank-logger.yaml", "text");
+	assert_true(gp_build_show(f.build, "reading=A;rec", &f.diag));
+	const struct gp_block *b = &f.design->blocks[0];
+	const struct gp_block_nets *nets = &f.build->blocks[0];
+	/* FreeType, independently */
+	FT_Library library;
+	FT_Face face;
+	assert_int_equal(FT_Init_FreeType(&library), 0);
+	struct gp_font *font = gp_font_open("Liberation Mono", NULL, NULL,
+					    &f.diag);
+	assert_non_null(font);
+	assert_int_equal(FT_New_Face(library, gp_font_file(font),
+				     gp_font_face_index(font), &face), 0);
+	gp_font_destroy(font);
+	const TT_OS2 *os2 = FT_Get_Sfnt_Table(face, FT_SFNT_OS2);
+	long caps = b->dots_down - 1;
+	FT_UInt ppem = (FT_UInt)(caps * face->units_per_EM /
+				 (double)os2->sCapHeight + 0.5);
+	assert_int_equal(FT_Set_Pixel_Sizes(face, 0, ppem), 0);
+	assert_int_equal(FT_Load_Char(face, 'A', FT_LOAD_RENDER |
+					       FT_LOAD_TARGET_MONO), 0);
+	const FT_Bitmap *bm = &face->glyph->bitmap;
+	long top = caps - face->glyph->bitmap_top;
+	long left = (b->dots_across - (long)bm->width) / 2;
+	bool want[16][16] = { { false } };
+	int wanted = 0;
+	for (unsigned int y = 0; y < bm->rows; y++)
+		for (unsigned int x = 0; x < bm->width; x++)
+			if (bm->buffer[y * bm->pitch + x / 8] & (0x80 >> (x % 8))) {
+				long r = top + (long)y, c = left + (long)x;
+				if (r >= 0 && r < b->dots_down && c >= 0 &&
+				    c < b->dots_across) {
+					want[r][c] = true;
+					wanted++;
+				}
+			}
+	FT_Done_Face(face);
+	FT_Done_FreeType(library);
+	assert_true(wanted > 10);
+	const struct gp_show *show = f.build->show;
+	const struct gp_artwork *art = &f.build->art;
+	int lit_dots = 0;
+	for (size_t i = 0; i < art->pixel_count; i++) {
+		const struct gp_pixel *px = &art->pixels[i];
+		if (px->owner_kind == GP_OWNER_ICON) {
+			bool rec = strcmp(f.design->icons[px->owner].name, "rec") == 0;
+			if (show->lit[i] != rec)
+				fail_msg("icon %s wrongly %s",
+					 f.design->icons[px->owner].name,
+					 show->lit[i] ? "lit" : "dark");
+			continue;
+		}
+		if (px->owner_kind != GP_OWNER_BLOCK || px->owner != 0)
+			continue;
+		/* which dot of which cell, from the pairs of the map */
+		int row = px->common - nets->first_common;
+		int column = px->segment - nets->first_segment;
+		int r = row % (int)b->dots_down, line = row / (int)b->dots_down;
+		int cell = column / (int)b->dots_across;
+		int c = column % (int)b->dots_across;
+		bool expected = line == 0 && cell == 0 && want[r][c];
+		if (show->lit[i] != expected)
+			fail_msg("dot line %d cell %d row %d column %d is %s",
+				 line, cell, r, c, show->lit[i] ? "lit" : "dark");
+		lit_dots += show->lit[i];
+	}
+	assert_int_equal(lit_dots, wanted);
+	unload(&f);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -812,6 +1053,8 @@ int main(void)
 		cmocka_unit_test(test_reduced_scale_stated),
 		cmocka_unit_test(test_legend_colours),
 		cmocka_unit_test(test_overprint_checker),
+		cmocka_unit_test(test_show_digits),
+		cmocka_unit_test(test_show_text),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

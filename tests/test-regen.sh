@@ -123,6 +123,16 @@ check test $? -eq 2
 check grep -q "^glassplot: diff: --pdf /dev/full: not a plain file" "$work/err"
 check test -c /dev/full
 
+# -v gives the time of each stage; check runs no writers (no "writing"
+# stage) and writes nothing.
+"$tool" build "$plain" -o "$work/stages" -v >/dev/null 2>"$work/err"
+check test "$(grep -cE '^glassplot: (loading|layout|checks|writing): [0-9]+\.[0-9]{3} s$' "$work/err")" -eq 4
+mkdir "$work/empty"
+(cd "$work/empty" && "$tool" check "$plain" -v >/dev/null 2>"$work/err")
+check test "$(grep -cE '^glassplot: (loading|layout|checks): [0-9]+\.[0-9]{3} s$' "$work/err")" -eq 3
+check test "$(grep -c 'writing' "$work/err")" -eq 0
+check test -z "$(ls -A "$work/empty")"
+
 # An output folder that cannot be written: exit 2, one line, nothing kept.
 : >"$work/file-in-the-way"
 "$tool" build -q "$plain" -o "$work/file-in-the-way" 2>"$work/err"

@@ -13,6 +13,7 @@
 #include "gerbv-render.h"
 #include "geos.h"
 #include "route.h"
+#include "route-private.h"
 #include "units.h"
 
 #include <dirent.h>
@@ -913,6 +914,41 @@ static void maze_degenerate_window(void **state)
 	gp_maze_destroy(m);
 }
 
+/* A lead with a jog shorter than it is wide: its mitred outline folds
+ * over itself, which GEOS refuses ("Input geom 0 is invalid: Self-
+ * intersection ... difference failed", seen routing the pump sample).
+ * The outline must come out valid: GEOS takes it in an overlay, and its
+ * area is the lead's (length x width, the 45-degree jog counted along
+ * its centre line, within the corner slivers). */
+static void path_jog_outline_valid(void **state)
+{
+	(void)state;
+	const struct gp_point p[] = {
+		{ 25444628, 22375000 }, { 25444628, 22550000 },
+		{ 25426221, 22568407 }, { 25426221, 27500000 },
+	};
+	struct gp_polygon poly;
+	gp_polygon_init(&poly);
+	assert_true(gp_route_path_polygon(p, 4, 50000, &poly));
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_geos *geos = gp_geos_create(&diag);
+	struct gp_polyset set, merged;
+	gp_polyset_init(&set);
+	gp_polyset_init(&merged);
+	assert_true(gp_polyset_take(&set, &poly));
+	assert_true(gp_geos_union_set(geos, &set, &merged));
+	assert_int_equal(merged.count, 1);
+	assert_int_equal(diag.errors, 0);
+	double length = 0.175 + 0.018407 * 1.41421356 + 4.931593;
+	double area = gp_polygon_area_mm2(&merged.items[0]);
+	assert_true(fabs(area - length * 0.05) < 0.0005);
+	gp_polyset_finish(&set);
+	gp_polyset_finish(&merged);
+	gp_geos_destroy(geos);
+	gp_diag_finish(&diag);
+}
+
 /* --- errors with numbers --------------------------------------------------- */
 
 static void capacity_ledge_short(void **state)
@@ -933,6 +969,32 @@ static void capacity_ledge_short(void **state)
 	expect_error(text, "; it carries COM1-COM14, SEG1-SEG40; a pitch of "
 			   "0.919 mm with 0.459 mm pads would fit");
 	free(text);
+}
+
+/* A ledge too short says which other ledge has room: the segments'
+ * ledge at 1.5 mm pitch holds (49.2 - 0.75) / 1.5 + 1 = 33 of its 40
+ * pads; the commons' ledge on the right, 24 - 0.8 = 23.2 mm long at
+ * 0.6 mm, holds (23.2 - 0.3) / 0.6 + 1 = 39 pads and carries 14. */
+static void capacity_other_ledge(void **state)
+{
+	(void)state;
+	expect_error("glass: {part: T-4}\n"
+		     "front: {size: [50, 30]}\n"
+		     "back: {size: [54, 24], position: [0, 6]}\n"
+		     "viewing_area: {position: [6, 10], size: [38, 16]}\n"
+		     "rules: {edge_clearance: 0.4}\n"
+		     "blocks:\n"
+		     "  m: {origin: [13.125, 24], cells: [8, 2], dots: [5, 7],"
+		     " dot_size: [0.5, 0.55], dot_pitch: [0.55, 0.6],"
+		     " cell_pitch: 3, line_pitch: 6}\n"
+		     "ledges:\n"
+		     "  seg: {side: bottom, pitch: 1.5, pad_width: 0.75,"
+		     " carries: segments}\n"
+		     "  com: {side: right, pitch: 0.6, pad_length: 1.5,"
+		     " edge_clearance: 0.3, carries: commons, numbering: up}\n"
+		     "seal: {width: 1, distance: 0.5}\n",
+		     "ledge 'com' has room for 25 more pad(s) (name nets or "
+		     "elements in its 'carries')");
 }
 
 /* Ledges by element: the pump sample sends the character columns to the
@@ -997,6 +1059,10 @@ static void capacity_tracks(void **state)
 	expect_error(text, "ledge 'main': 14 leads (COM1 to COM14) pass the "
 			   "left of the seal outside it; they need 14 x (0.2 "
 			   "+ 0.1) = 4.2 mm but only 3.7 mm is free there");
+	/* 3.7 mm / 14 leads = 0.264 mm each, to the micrometre */
+	expect_error(text, "leads.width + leads.space of at most 0.264 mm "
+			   "would fit, or a ledge on the left could carry "
+			   "them");
 	free(text);
 }
 
@@ -1288,9 +1354,9 @@ static void csv_columns(void **state)
 	struct gp_buffer b;
 	gp_buffer_init(&b);
 	assert_true(gp_pins_csv(f.build, &b));
-	assert_non_null(strstr(b.data, "pin,ledge,x,y,net,role,drives\n"));
-	assert_non_null(strstr(b.data, ",COM1,common,block main line 1 row 1\n"));
-	assert_non_null(strstr(b.data, ",SEG6,segment,block main cell 2 column 1\n"));
+	assert_non_null(strstr(b.data, "pin,ledge,x,y,net,role,drives\r\n"));
+	assert_non_null(strstr(b.data, ",COM1,common,block main line 1 row 1\r\n"));
+	assert_non_null(strstr(b.data, ",SEG6,segment,block main cell 2 column 1\r\n"));
 	gp_buffer_finish(&b);
 	finish(&f);
 }
@@ -1313,8 +1379,10 @@ int main(void)
 		cmocka_unit_test(connection_mismatch_warned),
 		cmocka_unit_test(pads_pitch_budget),
 		cmocka_unit_test(maze_degenerate_window),
+		cmocka_unit_test(path_jog_outline_valid),
 		cmocka_unit_test(capacity_ledge_short),
 		cmocka_unit_test(route_carries_lists),
+		cmocka_unit_test(capacity_other_ledge),
 		cmocka_unit_test(capacity_tracks),
 		cmocka_unit_test(capacity_fan_out),
 		cmocka_unit_test(transfers_too_big),

@@ -23,6 +23,10 @@ int cmd_build(const struct tool_options *options)
 			gp_build_set_epoch(build, epoch);
 		gp_build_set_depfile(build, options->depfile);
 	}
+	if (build && options->show && !gp_build_show(build, options->show, diag)) {
+		gp_build_destroy(build);
+		build = NULL;
+	}
 	if (build && (!options->only ||
 		      gp_build_select(build, options->only, diag)) &&
 	    gp_build_write(build, options->output, diag)) {
@@ -35,7 +39,7 @@ int cmd_build(const struct tool_options *options)
 		if (options->json)
 			fputs(gp_build_summary_json(build), stdout);
 		else if (options->verbosity >= 0)
-			fputs(gp_build_summary(build), stdout);
+			tool_put(gp_build_summary(build), stdout);
 	}
 	if (design)
 		tool_print_diag(diag, options->verbosity);

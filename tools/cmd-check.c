@@ -22,7 +22,7 @@ int cmd_check(const struct tool_options *options)
 		if (options->json)
 			fputs(gp_build_check_json(build), stdout);
 		else if (options->verbosity >= 0 || status != EXIT_OK)
-			fputs(gp_build_check_text(build), stdout);
+			tool_put(gp_build_check_text(build), stdout);
 	}
 	if (design)
 		tool_print_diag(diag, options->verbosity);

@@ -26,7 +26,7 @@ int cmd_diff(const struct tool_options *o)
 		new_build ? gp_diff_create(old_build, new_build, diag) : NULL;
 	if (diff && (!o->pdf || gp_diff_write_pdf(diff, o->pdf, diag))) {
 		if (o->verbosity >= 0)
-			fputs(gp_diff_text(diff), stdout);
+			tool_put(gp_diff_text(diff), stdout);
 		status = gp_diff_identical(diff) ? EXIT_OK : EXIT_FINDINGS;
 	}
 	tool_print_diag(diag, o->verbosity);

@@ -19,7 +19,10 @@ int cmd_drive(const struct tool_options *options)
 				      &feasible, diag)
 			    : NULL;
 	if (text) {
-		fputs(text, stdout);
+		if (options->json)
+			fputs(text, stdout);
+		else
+			tool_put(text, stdout);
 		fflush(stdout);
 		status = feasible ? EXIT_OK : EXIT_FINDINGS;
 	}

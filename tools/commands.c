@@ -29,6 +29,24 @@ static const struct tool_option build_options[] = {
 	  "warnings count as errors for the exit status" },
 	{ OPTION_DEPFILE, 0, "depfile", "FILE", false, false,
 	  "write a make/ninja dependency file" },
+	{ OPTION_SHOW, 0, "show", "SPEC", false, false,
+	  "add a proof sheet of the glass lit with this\ncontent, e.g. "
+	  "--show 'clock=12:34;alarm'" },
+	QUIET,
+	VERBOSE,
+	HELP,
+	END,
+};
+
+static const struct tool_option preview_options[] = {
+	{ OPTION_SHOW, 0, "show", "SPEC", false, true,
+	  "the content: ROW=DIGITS, BLOCK=TEXT ('|' between\nlines) and "
+	  "icon names, separated by ';'" },
+	{ OPTION_OUTPUT, 'o', "output", "FILE.png", false, true,
+	  "the PNG to write" },
+	{ OPTION_DPI, 0, "dpi", "N", false, false,
+	  "dots per inch (default 300)" },
+	SET("digits.clock.pitch=9.5"),
 	QUIET,
 	VERBOSE,
 	HELP,
@@ -113,6 +131,18 @@ const struct tool_command tool_commands[] = {
 	  "Exit status: 0 the fluid can be switched, 1 no Vop can switch it "
 	  "at\nthis duty, 2 bad input or usage.",
 	  cmd_drive },
+	{ "preview", "write a PNG of the glass lit with given content",
+	  "DESCRIPTION --show SPEC -o FILE.png [options]",
+	  "Lays out the glass described in DESCRIPTION and writes a PNG of it\n"
+	  "as the viewer sees it lit with the content SPEC: the digits, text\n"
+	  "and icons given, through the (common, segment) pairs of the\n"
+	  "firmware map, so every pixel at a driven pair shows lit.  Text in\n"
+	  "a dot-matrix block is rasterised from Liberation Mono by FreeType,\n"
+	  "one character a cell.  'glassplot build --show SPEC' adds the same\n"
+	  "as a sheet of the proof.",
+	  "DESCRIPTION", 1, 1, preview_options,
+	  "Exit status: 0 ok, 2 bad input or usage.",
+	  cmd_preview },
 };
 
 const size_t tool_command_count =

@@ -8,14 +8,23 @@
 #include <time.h>
 #include <unistd.h>
 
+void tool_put(const char *text, FILE *file)
+{
+	char *safe = gp_text_for_terminal(text, true);
+	fputs(safe ? safe : "(out of memory)\n", file);
+	free(safe);
+}
+
 int tool_usage_error(const char *format, ...)
 {
 	va_list args;
 	va_start(args, format);
-	fputs("glassplot: ", stderr);
-	vfprintf(stderr, format, args);
-	fputc('\n', stderr);
+	char text[2048];
+	vsnprintf(text, sizeof(text), format, args);
 	va_end(args);
+	char *safe = gp_text_for_terminal(text, false);
+	fprintf(stderr, "glassplot: %s\n", safe ? safe : text);
+	free(safe);
 	return EXIT_BAD_INPUT;
 }
 
@@ -50,8 +59,10 @@ void tool_print_diag(const struct gp_diag *diag, int verbosity)
 				   : severity == GP_SEVERITY_WARNING ? "warning: "
 								     : "note: ";
 		const char *message = gp_diag_message(diag, i);
+		char *safe = gp_text_for_terminal(message, false);
 		fprintf(stderr, "%s%s%s\n", has_place(message) ? "" : "glassplot: ",
-			kind, message);
+			kind, safe ? safe : "(out of memory)");
+		free(safe);
 	}
 }
 
@@ -197,6 +208,17 @@ static int take(struct parse *parse, const struct tool_option *option,
 	case OPTION_STRICT: o->strict = true; break;
 	case OPTION_DEPFILE: o->depfile = value; break;
 	case OPTION_PDF: o->pdf = value; break;
+	case OPTION_SHOW: o->show = value; break;
+	case OPTION_DPI: {
+		char *end = NULL;
+		double dpi = strtod(value, &end);
+		if (*end || !(dpi >= 10 && dpi <= 2400))
+			return parse_error(parse, "'%s' takes dots per inch "
+					   "from 10 to 2400, not '%s'",
+					   spelling, value);
+		o->dpi = dpi;
+		break;
+	}
 	case OPTION_QUIET: o->verbosity = -1; break;
 	case OPTION_VERBOSE: o->verbosity = 1; break;
 	case OPTION_HELP:
@@ -252,10 +274,17 @@ static int parse_finish(struct parse *parse)
 				   c->operands);
 	for (const struct tool_option *o = c->options; o->long_name; o++)
 		if (o->required && !parse->given[o->id])
-			return parse_error(parse, "expected %s%c %s",
-					   o->short_name ? "-" : "--",
-					   o->short_name ? o->short_name : '-',
+		{
+			char name[64];
+			if (o->short_name)
+				snprintf(name, sizeof(name), "-%c",
+					 o->short_name);
+			else
+				snprintf(name, sizeof(name), "--%s",
+					 o->long_name);
+			return parse_error(parse, "expected %s %s", name,
 					   o->argument);
+		}
 	parse->options->description = parse->operands[0];
 	parse->options->second = parse->operand_count > 1 ? parse->operands[1]
 							   : NULL;

@@ -24,6 +24,8 @@ enum tool_option_id {
 	OPTION_STRICT,
 	OPTION_DEPFILE,
 	OPTION_PDF,
+	OPTION_SHOW,
+	OPTION_DPI,
 	OPTION_QUIET,
 	OPTION_VERBOSE,
 	OPTION_HELP,
@@ -54,6 +56,8 @@ struct tool_options {
 	const char *only;            /* --only KINDS, checked */
 	const char *depfile;
 	const char *pdf;
+	const char *show;            /* --show SPEC */
+	double dpi;                  /* --dpi, 0 when not given */
 };
 
 struct tool_command {
@@ -77,6 +81,9 @@ const struct tool_command *tool_find_command(const char *name);
  * returns EXIT_BAD_INPUT. */
 int tool_usage_error(const char *format, ...)
 	__attribute__((format(printf, 1, 2)));
+/* Writes text made from the user's names (a summary, a report) with its
+ * control and bidi characters made visible (gp_text_for_terminal). */
+void tool_put(const char *text, FILE *file);
 /* Prints each message of diag on stderr, one line each: with its place
  * when it has one, else through the same "glassplot: " prefix. */
 void tool_print_diag(const struct gp_diag *diag, int verbosity);
@@ -104,5 +111,6 @@ int cmd_build(const struct tool_options *options);
 int cmd_check(const struct tool_options *options);
 int cmd_diff(const struct tool_options *options);
 int cmd_drive(const struct tool_options *options);
+int cmd_preview(const struct tool_options *options);
 
 #endif

@@ -1,22 +1,10 @@
 #include "artwork.h"
 
+#include "array.h"
+
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-
-/* Grow an array held as (pointer, count, capacity) by one element. */
-static bool grow(void **items, size_t *capacity, size_t count, size_t size)
-{
-	if (count < *capacity)
-		return true;
-	size_t wanted = *capacity ? *capacity * 2 : 16;
-	void *grown = realloc(*items, wanted * size);
-	if (!grown)
-		return false;
-	*items = grown;
-	*capacity = wanted;
-	return true;
-}
 
 void gp_artwork_init(struct gp_artwork *art)
 {
@@ -40,8 +28,7 @@ void gp_artwork_finish(struct gp_artwork *art)
 int gp_artwork_add_net(struct gp_artwork *art, enum gp_net_kind kind,
 		       enum gp_plate plate)
 {
-	if (!grow((void **)&art->nets, &art->net_capacity, art->net_count,
-		  sizeof(*art->nets)))
+	if (!gp_array_reserve(art->nets, art->net_capacity, art->net_count + 1))
 		return -1;
 	int number = kind == GP_NET_COMMON ? ++art->common_count
 					   : ++art->segment_count;
@@ -59,8 +46,8 @@ struct gp_shape *gp_artwork_add_shape(struct gp_artwork *art,
 				      enum gp_layer layer, enum gp_role role,
 				      int net, struct gp_polygon *poly)
 {
-	if (!grow((void **)&art->shapes, &art->shape_capacity,
-		  art->shape_count, sizeof(*art->shapes)))
+	if (!gp_array_reserve(art->shapes, art->shape_capacity,
+			      art->shape_count + 1))
 		return NULL;
 	struct gp_shape *shape = &art->shapes[art->shape_count++];
 	memset(shape, 0, sizeof(*shape));
@@ -89,8 +76,8 @@ struct gp_shape *gp_artwork_add_box(struct gp_artwork *art,
 struct gp_pixel *gp_artwork_add_pixel(struct gp_artwork *art, int common,
 				      int segment, struct gp_box box)
 {
-	if (!grow((void **)&art->pixels, &art->pixel_capacity,
-		  art->pixel_count, sizeof(*art->pixels)))
+	if (!gp_array_reserve(art->pixels, art->pixel_capacity,
+			      art->pixel_count + 1))
 		return NULL;
 	struct gp_pixel *pixel = &art->pixels[art->pixel_count++];
 	memset(pixel, 0, sizeof(*pixel));

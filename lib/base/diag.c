@@ -1,5 +1,7 @@
 #include "diag.h"
 
+#include "array.h"
+
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -51,16 +53,9 @@ void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
 {
 	if (severity == GP_SEVERITY_ERROR)
 		diag->errors++;
-	if (diag->count == diag->capacity) {
-		size_t capacity = diag->capacity ? diag->capacity * 2 : 8;
-		struct gp_diag_entry *entries =
-			realloc(diag->entries, capacity * sizeof(*entries));
-		if (!entries) {
-			diag->lost = true;
-			return;
-		}
-		diag->entries = entries;
-		diag->capacity = capacity;
+	if (!gp_array_reserve(diag->entries, diag->capacity, diag->count + 1)) {
+		diag->lost = true;
+		return;
 	}
 	char *message = format_message(where, format, args);
 	if (!message) {

@@ -2,6 +2,7 @@
  * into rings.  See font.h. */
 #include "font.h"
 
+#include "array.h"
 #include "geos.h"
 
 #include <ft2build.h>
@@ -150,7 +151,7 @@ static bool resolve_pattern(struct gp_font *font, const char *name,
 	ok = true;
 	goto out;
 nomem:
-	gp_diag_error(diag, where, "out of memory looking up font '%s'", name);
+	gp_diag_oom(diag, where);
 out:
 	free(wanted);
 	if (match)
@@ -225,8 +226,7 @@ static bool open_face(struct gp_font *font, const char *name,
 			     font->face->style_name : "");
 	font->hb = hb_ft_font_create_referenced(font->face);
 	if (!font->family || !font->style || !font->hb)
-		return gp_diag_error(diag, where, "out of memory opening "
-				     "font '%s'", name);
+		return gp_diag_oom(diag, where);
 	hb_ft_font_set_load_flags(font->hb, LOAD_FLAGS);
 	font->cap_units = measure_cap_height(font->face);
 	return true;
@@ -238,7 +238,7 @@ struct gp_font *gp_font_open(const char *name, const char *base_dir,
 {
 	struct gp_font *font = calloc(1, sizeof(*font));
 	if (!font) {
-		gp_diag_error(diag, where, "out of memory opening a font");
+		gp_diag_oom(diag, where);
 		return NULL;
 	}
 	if (!name || !*name) {
@@ -249,7 +249,7 @@ struct gp_font *gp_font_open(const char *name, const char *base_dir,
 	if (strchr(name, '/')) {
 		font->file = join_path(base_dir, name);
 		if (!font->file) {
-			gp_diag_error(diag, where, "out of memory");
+			gp_diag_oom(diag, where);
 			goto fail;
 		}
 	} else if (!resolve_pattern(font, name, where, diag)) {
@@ -395,17 +395,10 @@ static void close_ring(struct builder *b)
 		return;
 	}
 	struct gp_glyph *g = b->glyph;
-	if (g->ring_count == g->ring_capacity) {
-		size_t capacity = g->ring_capacity ? g->ring_capacity * 2 : 4;
-		struct gp_ring *rings =
-			realloc(g->rings, capacity * sizeof(*rings));
-		if (!rings) {
-			b->failed = true;
-			gp_ring_finish(&b->ring);
-			return;
-		}
-		g->rings = rings;
-		g->ring_capacity = capacity;
+	if (!gp_array_reserve(g->rings, g->ring_capacity, g->ring_count + 1)) {
+		b->failed = true;
+		gp_ring_finish(&b->ring);
+		return;
 	}
 	g->rings[g->ring_count++] = b->ring;
 	gp_ring_init(&b->ring);
@@ -648,7 +641,7 @@ static bool shape_text(struct gp_font *font, const char *utf8,
 	hb_shape(font->hb, buffer, style->kerning ? NULL : &no_kern,
 		 style->kerning ? 0 : 1);
 	if (!hb_buffer_allocation_successful(buffer)) {
-		gp_diag_error(diag, where, "out of memory shaping text");
+		gp_diag_oom(diag, where);
 		goto out;
 	}
 	unsigned count = 0;
@@ -663,7 +656,7 @@ static bool shape_text(struct gp_font *font, const char *utf8,
 		}
 		struct gp_glyph *glyph;
 		if (!add_glyph(out, &glyph)) {
-			gp_diag_error(diag, where, "out of memory");
+			gp_diag_oom(diag, where);
 			goto out;
 		}
 		glyph->glyph = info[i].codepoint;

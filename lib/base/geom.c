@@ -1,5 +1,8 @@
 #include "geom.h"
 
+#include "array.h"
+#include "units.h"
+
 #include <stdlib.h>
 #include <string.h>
 
@@ -16,15 +19,8 @@ void gp_ring_finish(struct gp_ring *ring)
 
 bool gp_ring_push(struct gp_ring *ring, int64_t x, int64_t y)
 {
-	if (ring->count == ring->capacity) {
-		size_t capacity = ring->capacity ? ring->capacity * 2 : 8;
-		struct gp_point *points =
-			realloc(ring->points, capacity * sizeof(*points));
-		if (!points)
-			return false;
-		ring->points = points;
-		ring->capacity = capacity;
-	}
+	if (!gp_array_reserve(ring->points, ring->capacity, ring->count + 1))
+		return false;
 	ring->points[ring->count++] = (struct gp_point){ x, y };
 	return true;
 }
@@ -201,15 +197,8 @@ void gp_polyset_finish(struct gp_polyset *set)
 
 bool gp_polyset_take(struct gp_polyset *set, struct gp_polygon *poly)
 {
-	if (set->count == set->capacity) {
-		size_t capacity = set->capacity ? set->capacity * 2 : 4;
-		struct gp_polygon *items =
-			realloc(set->items, capacity * sizeof(*items));
-		if (!items)
-			return false;
-		set->items = items;
-		set->capacity = capacity;
-	}
+	if (!gp_array_reserve(set->items, set->capacity, set->count + 1))
+		return false;
 	set->items[set->count++] = *poly;
 	gp_polygon_init(poly);
 	return true;
@@ -240,6 +229,51 @@ struct gp_box gp_box_none(void)
 bool gp_box_is_empty(struct gp_box box)
 {
 	return box.x0 > box.x1 || box.y0 > box.y1;
+}
+
+struct gp_point gp_box_centre(struct gp_box b)
+{
+	return (struct gp_point){ b.x0 + (b.x1 - b.x0) / 2,
+				  b.y0 + (b.y1 - b.y0) / 2 };
+}
+
+struct gp_box gp_box_meet(struct gp_box a, struct gp_box b)
+{
+	return (struct gp_box){ a.x0 > b.x0 ? a.x0 : b.x0,
+				a.y0 > b.y0 ? a.y0 : b.y0,
+				a.x1 < b.x1 ? a.x1 : b.x1,
+				a.y1 < b.y1 ? a.y1 : b.y1 };
+}
+
+bool gp_box_has_area(struct gp_box b)
+{
+	return b.x0 < b.x1 && b.y0 < b.y1;
+}
+
+bool gp_box_inside(struct gp_box inner, struct gp_box outer)
+{
+	return inner.x0 >= outer.x0 && inner.x1 <= outer.x1 &&
+	       inner.y0 >= outer.y0 && inner.y1 <= outer.y1;
+}
+
+struct gp_box gp_box_grow(struct gp_box b, int64_t d)
+{
+	return gp_box_make(b.x0 - d, b.y0 - d, b.x1 + d, b.y1 + d);
+}
+
+double gp_box_mm2(struct gp_box b)
+{
+	return gp_box_has_area(b) ? gp_mm(b.x1 - b.x0) * gp_mm(b.y1 - b.y0) : 0;
+}
+
+bool gp_box_overlap(struct gp_box a, struct gp_box b)
+{
+	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
+}
+
+bool gp_box_touch(struct gp_box a, struct gp_box b)
+{
+	return a.x0 <= b.x1 && b.x0 <= a.x1 && a.y0 <= b.y1 && b.y0 <= a.y1;
 }
 
 struct gp_box gp_box_union(struct gp_box a, struct gp_box b)

@@ -74,5 +74,23 @@ static inline int64_t gp_box_width(struct gp_box b) { return b.x1 - b.x0; }
 static inline int64_t gp_box_height(struct gp_box b) { return b.y1 - b.y0; }
 /* An empty box for unions: x0 > x1. */
 struct gp_box gp_box_none(void);
+/* Centre, rounded toward x0 and y0. */
+struct gp_point gp_box_centre(struct gp_box b);
+/* The common part of a and b; empty (x0 > x1 or y0 > y1) when they are
+ * apart. */
+struct gp_box gp_box_meet(struct gp_box a, struct gp_box b);
+/* Wider than a line and taller than a point: x0 < x1 and y0 < y1. */
+bool gp_box_has_area(struct gp_box b);
+/* inner lies within outer (edges may coincide). */
+bool gp_box_inside(struct gp_box inner, struct gp_box outer);
+/* The box grown by d on every side (shrunk for d < 0, through
+ * gp_box_make, so the corners stay ordered). */
+struct gp_box gp_box_grow(struct gp_box b, int64_t d);
+/* Area in mm^2; 0 for a box without area. */
+double gp_box_mm2(struct gp_box b);
+/* Their insides overlap: sharing only an edge is not enough. */
+bool gp_box_overlap(struct gp_box a, struct gp_box b);
+/* They overlap or touch (share an edge or a corner). */
+bool gp_box_touch(struct gp_box a, struct gp_box b);
 
 #endif

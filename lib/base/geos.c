@@ -1,5 +1,7 @@
 #include "geos.h"
 
+#include "array.h"
+
 #include <geos_c.h>
 
 #include <math.h>
@@ -564,16 +566,9 @@ static bool sweep_rings(struct gp_geos *geos, const GEOSGeometry *g, double mx,
 			if (!GEOSCoordSeq_getXY_r(geos->ctx, seq, i, &qx, &qy))
 				return false;
 			if (i > 0) {
-				if (*count == *capacity) {
-					size_t c = *capacity ? *capacity * 2
-							     : 64;
-					GEOSGeometry **grown = realloc(
-						*parts, c * sizeof(**parts));
-					if (!grown)
-						return false;
-					*parts = grown;
-					*capacity = c;
-				}
+				if (!gp_array_reserve(*parts, *capacity,
+						      *count + 1))
+					return false;
 				GEOSGeometry *hex = swept_segment(
 					geos, px, py, qx, qy, mx, my);
 				if (!hex)
@@ -621,10 +616,8 @@ struct gp_geos_shape *gp_geos_shape_dilate_box(
 	if (!sweep_polygons(geos, base, (double)mx, (double)my, &parts, &count,
 			    &capacity))
 		goto fail;
-	GEOSGeometry **grown = realloc(parts, (count + 1) * sizeof(*parts));
-	if (!grown)
+	if (!gp_array_reserve(parts, capacity, count + 1))
 		goto fail;
-	parts = grown;
 	parts[count++] = base;
 	base = NULL;
 	all = collect(geos, GEOS_GEOMETRYCOLLECTION, parts, count);
@@ -1093,16 +1086,9 @@ static void on_pair(void *user, size_t item)
 	struct pair_list *list = user;
 	if (item <= list->current || list->failed)
 		return;
-	if (list->count == list->capacity) {
-		size_t c = list->capacity ? list->capacity * 2 : 64;
-		struct gp_index_pair *grown =
-			realloc(list->items, c * sizeof(*grown));
-		if (!grown) {
-			list->failed = true;
-			return;
-		}
-		list->items = grown;
-		list->capacity = c;
+	if (!gp_array_reserve(list->items, list->capacity, list->count + 1)) {
+		list->failed = true;
+		return;
 	}
 	list->items[list->count++] =
 		(struct gp_index_pair){ list->current, item };

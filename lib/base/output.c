@@ -2,6 +2,8 @@
 #define _GNU_SOURCE
 #include "output.h"
 
+#include "array.h"
+
 #include <dirent.h>
 #include <errno.h>
 #include <fcntl.h>
@@ -18,7 +20,7 @@ static int fail_after;   /* test hook: writes left before a failure */
 static int kill_at;      /* test hook: the step that kills the process */
 static int steps;        /* steps of the current commit */
 
-GP_EXPORT void gp_output_kill_at(int step)
+void gp_output_kill_at(int step)
 {
 	kill_at = step;
 }
@@ -31,7 +33,7 @@ static void step(void)
 		raise(SIGKILL);
 }
 
-GP_EXPORT void gp_output_fail_after(int writes)
+void gp_output_fail_after(int writes)
 {
 	fail_after = writes;
 }
@@ -76,15 +78,8 @@ struct gp_buffer *gp_output_add(struct gp_output_set *set, const char *name,
 				      name);
 			return NULL;
 		}
-	if (set->count == set->capacity) {
-		size_t capacity = set->capacity ? set->capacity * 2 : 8;
-		struct gp_output_file *files =
-			realloc(set->files, capacity * sizeof(*files));
-		if (!files)
-			goto oom;
-		set->files = files;
-		set->capacity = capacity;
-	}
+	if (!gp_array_reserve(set->files, set->capacity, set->count + 1))
+		goto oom;
 	struct gp_output_file *file = &set->files[set->count];
 	file->name = strdup(name);
 	if (!file->name)
@@ -93,7 +88,7 @@ struct gp_buffer *gp_output_add(struct gp_output_set *set, const char *name,
 	set->count++;
 	return &file->content;
 oom:
-	gp_diag_error(diag, NULL, "out of memory");
+	gp_diag_oom(diag, NULL);
 	return NULL;
 }
 
@@ -133,7 +128,7 @@ static char *write_temporary(const char *folder,
 {
 	char *path = malloc(strlen(folder) + strlen(file->name) + 16);
 	if (!path) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	sprintf(path, "%s/.%s.XXXXXX", folder, file->name);
@@ -195,7 +190,7 @@ static bool check_targets(const struct gp_output_set *set,
 			      S_ISDIR(st.st_mode);
 		free(path);
 		if (!path)
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 		if (in_way)
 			return gp_diag_error(diag, NULL,
 					     "%s/%s: a folder is in the way of "
@@ -217,7 +212,7 @@ struct commit_entry {
 
 static int fail_renames;  /* test hook: renames left before a failure */
 
-GP_EXPORT void gp_output_fail_rename_after(int renames)
+void gp_output_fail_rename_after(int renames)
 {
 	fail_renames = renames;
 }
@@ -243,7 +238,7 @@ static bool keep_backup(const char *folder, const char *name,
 	struct stat st;
 	bool ok = final && backup;
 	if (!ok)
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 	e->existed = ok && lstat(final, &st) == 0;
 	for (int attempt = 0; ok && e->existed && attempt < 100; attempt++) {
 		sprintf(backup, "%s/.%s.old%d", folder, name, attempt);
@@ -320,7 +315,7 @@ static bool commit_in_place(const struct gp_output_set *set,
 					      sizeof(*entries));
 	bool ok = entries && check_targets(set, folder, diag);
 	if (!entries)
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 	for (size_t i = 0; ok && i < set->count; i++) {
 		entries[i].temporary = write_temporary(folder, &set->files[i],
 						       diag);
@@ -345,7 +340,7 @@ static bool commit_in_place(const struct gp_output_set *set,
 
 static int commit_mode;  /* test hook: GP_OUTPUT_COMMIT_* */
 
-GP_EXPORT void gp_output_commit_mode(int mode)
+void gp_output_commit_mode(int mode)
 {
 	commit_mode = mode;
 }

@@ -43,13 +43,13 @@ bool gp_output_commit(const struct gp_output_set *set, const char *folder,
 
 /* Test hook: make the n-th low-level write of a commit fail (1-based;
  * 0 turns it off).  Used to prove that failures leave no partial files. */
-GP_EXPORT void gp_output_fail_after(int writes);
+void gp_output_fail_after(int writes);
 /* Test hook: make the n-th rename of a commit fail (1-based; 0 off). */
-GP_EXPORT void gp_output_fail_rename_after(int renames);
+void gp_output_fail_rename_after(int renames);
 
 /* Test hook: kill the process (SIGKILL) just before the n-th change a
  * commit makes on the disk (1-based; 0 off). */
-GP_EXPORT void gp_output_kill_at(int step);
+void gp_output_kill_at(int step);
 
 /* Test hook: how gp_output_commit puts the set in place. */
 enum {
@@ -58,6 +58,6 @@ enum {
 	GP_OUTPUT_COMMIT_RENAMES,   /* old folder renamed aside, new one in */
 	GP_OUTPUT_COMMIT_IN_PLACE,  /* file by file in the folder */
 };
-GP_EXPORT void gp_output_commit_mode(int mode);
+void gp_output_commit_mode(int mode);
 
 #endif

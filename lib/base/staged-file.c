@@ -48,7 +48,7 @@ bool gp_staged_file_write(struct gp_staged_file *file, const char *path,
 	file->temporary = temporary_name(path);
 	if (!file->path || !file->temporary) {
 		gp_staged_file_discard(file);
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	}
 	int fd = mkstemp(file->temporary);
 	bool ok = fd >= 0 && write_all(fd, data, size) &&

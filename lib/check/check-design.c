@@ -66,7 +66,7 @@ static bool check_drive(struct gp_build *build, struct gp_diag *diag)
 	};
 	gp_drive_advice(report, f.text, sizeof(f.text));
 	return gp_check_report_add(&build->checks, &f) ||
-	       gp_diag_error(diag, NULL, "out of memory");
+	       gp_diag_oom(diag, NULL);
 }
 
 bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
@@ -84,13 +84,25 @@ bool gp_build_check(struct gp_build *build, struct gp_diag *diag)
 	}
 	struct gp_geos *geos = gp_geos_create(diag);
 	if (!geos)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	gp_check_report_finish(&build->checks);
 	bool ok = gp_check_run(geos, &build->art, &limits, &build->checks,
 			       diag);
 	gp_geos_destroy(geos);
 	ok = ok && check_drive(build, diag);
 	build->checked = ok;
+	/* the reports, once: the accessors and report.txt/.json share them */
+	build->check_text.size = build->check_json.size = 0;
+	if (ok) {
+		gp_check_format_text(&build->checks, &build->art,
+				     build->design->part,
+				     build->design->revision,
+				     &build->check_text);
+		gp_check_format_json(&build->checks, &build->art,
+				     build->design->part,
+				     build->design->revision,
+				     &build->check_json);
+	}
 	if (ok)
 		gp_buffer_printf(&build->notes,
 				 "checks: %zu errors, %zu warnings, %zu pixels "
@@ -110,19 +122,13 @@ GP_EXPORT size_t gp_build_check_warnings(const struct gp_build *build)
 	return build->checks.warnings;
 }
 
-GP_EXPORT const char *gp_build_check_text(struct gp_build *build)
+GP_EXPORT const char *gp_build_check_text(const struct gp_build *build)
 {
-	build->check_text.size = 0;
-	gp_check_format_text(&build->checks, &build->art, build->design->part,
-			     build->design->revision, &build->check_text);
 	return build->check_text.data ? build->check_text.data : "";
 }
 
-GP_EXPORT const char *gp_build_check_json(struct gp_build *build)
+GP_EXPORT const char *gp_build_check_json(const struct gp_build *build)
 {
-	build->check_json.size = 0;
-	gp_check_format_json(&build->checks, &build->art, build->design->part,
-			     build->design->revision, &build->check_json);
 	return build->check_json.data ? build->check_json.data : "{}\n";
 }
 
@@ -131,7 +137,7 @@ GP_EXPORT int gp_build_check_status(const struct gp_build *build, bool strict)
 	return gp_check_exit_status(&build->checks, strict);
 }
 
-bool gp_build_add_check_reports(struct gp_build *build,
+bool gp_build_add_check_reports(const struct gp_build *build,
 				struct gp_output_set *set, struct gp_diag *diag)
 {
 	if (!gp_build_wants(build, GP_OUTPUT_REPORT) || !build->checked)
@@ -139,13 +145,12 @@ bool gp_build_add_check_reports(struct gp_build *build,
 	struct gp_buffer *text = gp_output_add(set, "report.txt", diag);
 	if (!text)
 		return false;
-	gp_check_format_text(&build->checks, &build->art, build->design->part,
-			     build->design->revision, text);
+	gp_buffer_append(text, build->check_text.data, build->check_text.size);
 	struct gp_buffer *json = gp_output_add(set, "report.json", diag);
 	if (!json)
 		return false;
-	gp_check_format_json(&build->checks, &build->art, build->design->part,
-			     build->design->revision, json);
-	return (!text->failed && !json->failed) ||
-	       gp_diag_error(diag, NULL, "out of memory");
+	gp_buffer_append(json, build->check_json.data, build->check_json.size);
+	return (!build->check_text.failed && !build->check_json.failed &&
+		!text->failed && !json->failed) ||
+	       gp_diag_oom(diag, NULL);
 }

@@ -1,5 +1,6 @@
 #include "check.h"
 
+#include "array.h"
 #include "patch.h"
 #include "units.h"
 
@@ -155,7 +156,7 @@ struct checker {
 static bool oom(struct checker *c)
 {
 	c->failed = true;
-	return gp_diag_error(c->diag, NULL, "checks: out of memory");
+	return gp_diag_oom(c->diag, NULL);
 }
 
 static bool is_ito(enum gp_layer layer)
@@ -337,30 +338,15 @@ static bool bigger_is_worse(enum gp_check_rule rule)
 static bool grow_findings(struct checker *c)
 {
 	struct gp_check_report *r = c->rep;
-	if (r->count < r->capacity)
-		return true;
-	size_t capacity = r->capacity ? r->capacity * 2 : 16;
-	struct gp_finding *items =
-		realloc(r->findings, capacity * sizeof(*items));
-	if (!items)
-		return oom(c);
-	r->findings = items;
-	r->capacity = capacity;
-	return true;
+	return gp_array_reserve(r->findings, r->capacity, r->count + 1) ||
+	       oom(c);
 }
 
 bool gp_check_report_add(struct gp_check_report *r,
 			 const struct gp_finding *f)
 {
-	if (r->count == r->capacity) {
-		size_t capacity = r->capacity ? r->capacity * 2 : 16;
-		struct gp_finding *items =
-			realloc(r->findings, capacity * sizeof(*items));
-		if (!items)
-			return false;
-		r->findings = items;
-		r->capacity = capacity;
-	}
+	if (!gp_array_reserve(r->findings, r->capacity, r->count + 1))
+		return false;
 	r->findings[r->count++] = *f;
 	if (f->severity == GP_SEVERITY_ERROR)
 		r->errors++;
@@ -444,41 +430,6 @@ static struct gp_finding finding(enum gp_check_rule rule,
 	f.pixel = -1;
 	f.shape = -1;
 	return f;
-}
-
-static struct gp_point box_centre(struct gp_box b)
-{
-	return (struct gp_point){ b.x0 + (b.x1 - b.x0) / 2,
-				  b.y0 + (b.y1 - b.y0) / 2 };
-}
-
-static struct gp_box box_meet(struct gp_box a, struct gp_box b)
-{
-	return (struct gp_box){ a.x0 > b.x0 ? a.x0 : b.x0,
-				a.y0 > b.y0 ? a.y0 : b.y0,
-				a.x1 < b.x1 ? a.x1 : b.x1,
-				a.y1 < b.y1 ? a.y1 : b.y1 };
-}
-
-static bool box_has_area(struct gp_box b)
-{
-	return b.x0 < b.x1 && b.y0 < b.y1;
-}
-
-static bool box_inside(struct gp_box inner, struct gp_box outer)
-{
-	return inner.x0 >= outer.x0 && inner.x1 <= outer.x1 &&
-	       inner.y0 >= outer.y0 && inner.y1 <= outer.y1;
-}
-
-static struct gp_box box_grow(struct gp_box b, int64_t d)
-{
-	return (struct gp_box){ b.x0 - d, b.y0 - d, b.x1 + d, b.y1 + d };
-}
-
-static double box_mm2(struct gp_box b)
-{
-	return box_has_area(b) ? gp_mm(b.x1 - b.x0) * gp_mm(b.y1 - b.y0) : 0;
 }
 
 /* --- the inside of the seal --------------------------------------------- */
@@ -600,12 +551,12 @@ static bool rect_overlap_settled(struct checker *c, const struct item *f,
 {
 	if (!f->rect || !b->rect || !c->inside_is_box)
 		return false;
-	struct gp_box m = box_meet(box_meet(f->box, b->box), c->inside_box);
-	if (!box_has_area(m))
+	struct gp_box m = gp_box_meet(gp_box_meet(f->box, b->box), c->inside_box);
+	if (!gp_box_has_area(m))
 		return true;
 	for (size_t p = first; p; p = c->pair_next[p - 1]) {
 		const struct gp_pixel *px = &c->art->pixels[p - 1];
-		if (px->shape.outer.count < 3 && box_inside(m, px->box))
+		if (px->shape.outer.count < 3 && gp_box_inside(m, px->box))
 			return true;
 	}
 	return false;
@@ -651,7 +602,7 @@ static void overlap_pair(struct checker *c, struct item *f, struct item *b)
 		if (area > c->lim->min_overlap_mm2) {
 			struct gp_finding fd = finding(
 				GP_CHECK_PARASITIC, GP_SEVERITY_ERROR, bnet,
-				fnet, box_centre(gp_geos_shape_bounds(left)),
+				fnet, gp_box_centre(gp_geos_shape_bounds(left)),
 				area, 0, GP_UNIT_MM2);
 			fd.shape = (int)f->shape;
 			add_finding(c, &fd);
@@ -672,15 +623,9 @@ struct query {
 static void on_found(void *user, size_t item)
 {
 	struct query *q = user;
-	if (q->count == q->capacity) {
-		size_t capacity = q->capacity ? q->capacity * 2 : 64;
-		size_t *grown = realloc(q->found, capacity * sizeof(*grown));
-		if (!grown) {
-			q->failed = true;
-			return;
-		}
-		q->found = grown;
-		q->capacity = capacity;
+	if (!gp_array_reserve(q->found, q->capacity, q->count + 1)) {
+		q->failed = true;
+		return;
 	}
 	q->found[q->count++] = item;
 }
@@ -703,8 +648,8 @@ static bool check_parasitic(struct checker *c)
 		int bnet = c->art->shapes[b->shape].net;
 		if (b->plate != GP_PLATE_BACK || bnet < 0)
 			continue;
-		struct gp_box where = box_meet(b->box, c->inside_box);
-		if (!box_has_area(where))
+		struct gp_box where = gp_box_meet(b->box, c->inside_box);
+		if (!gp_box_has_area(where))
 			continue;
 		q.count = 0;
 		if (!gp_geos_index_query(index, where, on_found, &q) ||
@@ -900,7 +845,7 @@ static void line_width_shape(struct checker *c, struct item *it)
 			double w = strip_width(area, polygon_perimeter(p));
 			if (w < (double)c->lim->min_line - 2 * SNAP_SLACK)
 				thin_finding(c, it, w,
-					     box_centre(gp_polygon_bounds(p)));
+					     gp_box_centre(gp_polygon_bounds(p)));
 		}
 	}
 	gp_polyset_finish(&pieces);
@@ -918,7 +863,7 @@ static bool check_line_width(struct checker *c)
 			int64_t narrow = w < h ? w : h;
 			if (narrow < c->lim->min_line)
 				thin_finding(c, it, (double)narrow,
-					     box_centre(it->box));
+					     gp_box_centre(it->box));
 		} else {
 			line_width_shape(c, it);
 		}
@@ -945,7 +890,7 @@ static size_t near_items(struct checker *c, int net, enum gp_plate plate,
 		const struct item *it = &c->items[c->net_items[i]];
 		const struct gp_shape *s = &c->art->shapes[it->shape];
 		if (it->plate != plate || !lit_role(plate, s->role) ||
-		    !box_has_area(box_meet(it->box, near)))
+		    !gp_box_has_area(gp_box_meet(it->box, near)))
 			continue;
 		if (n < max)
 			out[n] = c->net_items[i];
@@ -961,7 +906,7 @@ static void rect_lit(struct gp_box f, struct gp_box b, int64_t shift,
 		int64_t dx = (k % 3 - 1) * shift, dy = (k / 3 - 1) * shift;
 		struct gp_box moved = { b.x0 + dx, b.y0 + dy, b.x1 + dx,
 					b.y1 + dy };
-		lit[k] = box_mm2(box_meet(f, moved));
+		lit[k] = gp_box_mm2(gp_box_meet(f, moved));
 	}
 }
 
@@ -995,7 +940,7 @@ static bool pixel_lit(struct checker *c, size_t p, enum lit_mode mode,
 	if (!pixel_nets(c->art, px, &fnet, &bnet))
 		return false;
 	int64_t t = c->lim->registration;
-	struct gp_box near = box_grow(px->box, t + 1);
+	struct gp_box near = gp_box_grow(px->box, t + 1);
 	size_t fl[NEAR_MAX], bl[NEAR_MAX];
 	size_t nf = near_items(c, fnet, GP_PLATE_FRONT, near, fl, NEAR_MAX);
 	size_t nb = near_items(c, bnet, GP_PLATE_BACK, near, bl, NEAR_MAX);
@@ -1031,7 +976,7 @@ static double pixel_nominal_mm2(const struct gp_pixel *px)
 {
 	/* an icon's further parts (its other letters) count too */
 	if (px->shape.outer.count < 3)
-		return box_mm2(px->box);
+		return gp_box_mm2(px->box);
 	return gp_polygon_area_mm2(&px->shape) + gp_polyset_area_mm2(&px->more);
 }
 
@@ -1055,7 +1000,7 @@ static bool check_registration(struct checker *c)
 		pixel_nets(c->art, px, &fnet, &bnet);
 		struct gp_finding f = finding(
 			GP_CHECK_REGISTRATION, GP_SEVERITY_ERROR, px->common,
-			px->segment, box_centre(px->box), loss,
+			px->segment, gp_box_centre(px->box), loss,
 			c->lim->registration_loss, GP_UNIT_FRACTION);
 		f.pixel = (int)p;
 		f.detail = worst;
@@ -1143,7 +1088,7 @@ static struct gp_point net_place(struct checker *c, int net)
 {
 	if (c->net_first[net] == c->net_first[net + 1])
 		return (struct gp_point){ 0, 0 };
-	return box_centre(c->items[c->net_items[c->net_first[net]]].box);
+	return gp_box_centre(c->items[c->net_items[c->net_first[net]]].box);
 }
 
 static void check_electrical(struct checker *c)
@@ -1250,13 +1195,13 @@ static void check_connector(struct checker *c)
 		if (w < need) {
 			struct gp_finding f = finding(
 				GP_CHECK_CONNECTOR, GP_SEVERITY_ERROR, s->net,
-				GP_NET_NONE, box_centre(it->box), gp_mm(w),
+				GP_NET_NONE, gp_box_centre(it->box), gp_mm(w),
 				gp_mm(need), GP_UNIT_MM);
 			f.shape = (int)it->shape;
 			add_finding(c, &f);
 		}
 		int64_t gap = -1;
-		struct gp_point mid = box_centre(it->box);
+		struct gp_point mid = gp_box_centre(it->box);
 		if (prev && prev->box.y0 < it->box.y1 &&
 		    it->box.y0 < prev->box.y1) {
 			bool right = prev->box.x1 <= it->box.x0;
@@ -1311,7 +1256,7 @@ static void check_edges(struct checker *c)
 		}
 		if (worst < 0)
 			continue;
-		struct gp_point mid = box_centre(b);
+		struct gp_point mid = gp_box_centre(b);
 		struct gp_point place = {
 			worst == 0 ? b.x0 : worst == 1 ? b.x1 : mid.x,
 			worst == 2 ? b.y0 : worst == 3 ? b.y1 : mid.y
@@ -1334,7 +1279,7 @@ static void check_view(struct checker *c)
 		return;
 	for (size_t p = 0; p < c->art->pixel_count; p++) {
 		const struct gp_pixel *px = &c->art->pixels[p];
-		if (box_inside(px->box, v))
+		if (gp_box_inside(px->box, v))
 			continue;
 		struct gp_box b = px->box;
 		int64_t out = 0, d[4] = { v.x0 - b.x0, b.x1 - v.x1, v.y0 - b.y0,
@@ -1343,7 +1288,7 @@ static void check_view(struct checker *c)
 			out = d[i] > out ? d[i] : out;
 		struct gp_finding f = finding(
 			GP_CHECK_VIEW, GP_SEVERITY_WARNING, px->common,
-			px->segment, box_centre(b), gp_mm(out), 0, GP_UNIT_MM);
+			px->segment, gp_box_centre(b), gp_mm(out), 0, GP_UNIT_MM);
 		f.pixel = (int)p;
 		add_finding(c, &f);
 	}
@@ -1387,7 +1332,7 @@ static void check_seal(struct checker *c)
 			struct gp_finding f = finding(
 				GP_CHECK_SEAL, GP_SEVERITY_ERROR, s->net,
 				GP_NET_NONE,
-				box_centre(gp_geos_shape_bounds(m)),
+				gp_box_centre(gp_geos_shape_bounds(m)),
 				gp_geos_shape_area_mm2(c->geos, m), 0,
 				GP_UNIT_MM2);
 			f.shape = (int)it->shape;
@@ -1404,12 +1349,12 @@ static void check_seal(struct checker *c)
 		gp_geos_shape_destroy(c->geos, vs);
 	} else if (c->inside_is_box && !gp_box_is_empty(v) &&
 		   !gp_box_is_empty(c->lim->seal_inside)) {
-		view_inside = box_inside(v, c->inside_box);
+		view_inside = gp_box_inside(v, c->inside_box);
 	}
 	if (!view_inside) {
 		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
 					      GP_NET_NONE, GP_NET_NONE,
-					      box_centre(v), 0, 0,
+					      gp_box_centre(v), 0, 0,
 					      GP_UNIT_MM2);
 		add_finding(c, &f);
 	}
@@ -1417,12 +1362,12 @@ static void check_seal(struct checker *c)
 	for (size_t k = 0; k < c->item_count; k++) {
 		const struct item *it = &c->items[k];
 		const struct gp_shape *s = &c->art->shapes[it->shape];
-		struct gp_box m = box_meet(it->box, c->inside_box);
-		if (s->role != GP_ROLE_PAD || !box_has_area(m))
+		struct gp_box m = gp_box_meet(it->box, c->inside_box);
+		if (s->role != GP_ROLE_PAD || !gp_box_has_area(m))
 			continue;
 		struct gp_finding f = finding(GP_CHECK_SEAL, GP_SEVERITY_ERROR,
 					      s->net, GP_NET_NONE,
-					      box_centre(m), box_mm2(m), 0,
+					      gp_box_centre(m), gp_box_mm2(m), 0,
 					      GP_UNIT_MM2);
 		f.shape = (int)it->shape;
 		f.detail = 1;
@@ -1601,7 +1546,7 @@ bool gp_check_run(struct gp_geos *geos, const struct gp_artwork *art,
 			      sizeof(*report->nets));
 	report->net_count = art->net_count;
 	if (!report->nets)
-		return gp_diag_error(diag, NULL, "checks: out of memory");
+		return gp_diag_oom(diag, NULL);
 	bool ok = checker_init(&c, geos, art, limits, report, diag) &&
 		  run_checks(&c);
 	checker_finish(&c);

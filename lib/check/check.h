@@ -46,7 +46,7 @@ void gp_check_limits_from_design(struct gp_check_limits *limits,
 bool gp_build_check(struct gp_build *build, struct gp_diag *diag);
 struct gp_output_set;
 /* report.txt and report.json into set, when the build writes reports. */
-bool gp_build_add_check_reports(struct gp_build *build,
+bool gp_build_add_check_reports(const struct gp_build *build,
 				struct gp_output_set *set, struct gp_diag *diag);
 
 /* Vacuum permittivity, CODATA 2018 recommended value, F/m. */

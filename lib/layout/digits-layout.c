@@ -17,11 +17,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-static bool oom(struct gp_diag *diag)
-{
-	return gp_diag_error(diag, NULL, "out of memory");
-}
-
 static bool make_nets(struct gp_build *build, const struct gp_digits *row,
 		      struct gp_digit_row *out, struct gp_diag *diag)
 {
@@ -32,7 +27,7 @@ static bool make_nets(struct gp_build *build, const struct gp_digits *row,
 	out->common_count = row->duty;
 	for (int c = 0; c < row->duty; c++)
 		if (gp_artwork_add_net(art, GP_NET_COMMON, com_plate) < 0)
-			return oom(diag);
+			return gp_diag_oom(diag, NULL);
 	out->first_segment = (int)art->net_count;
 	for (size_t i = 0; i < out->unit_count; i++) {
 		struct gp_digit_unit *u = &out->units[i];
@@ -40,7 +35,7 @@ static bool make_nets(struct gp_build *build, const struct gp_digits *row,
 		u->first_line_net = first;
 		for (int l = 0; l < u->line_count; l++)
 			if (gp_artwork_add_net(art, GP_NET_SEGMENT, seg_plate) < 0)
-				return oom(diag);
+				return gp_diag_oom(diag, NULL);
 		for (int k = 0; k < u->part_count; k++) {
 			struct gp_digit_part *p = &u->parts[k];
 			p->common_net = out->first_common + p->common - 1;
@@ -79,12 +74,12 @@ static bool add_front(struct gp_build *build, size_t row_index,
 			for (int j = 0; j < p->poly_count; j++) {
 				if (!add_copy(art, layer, GP_ROLE_ELECTRODE,
 					      p->segment_net, &p->poly[j]))
-					return oom(diag);
+					return gp_diag_oom(diag, NULL);
 				struct gp_pixel *px = gp_artwork_add_pixel(
 					art, p->common_net, p->segment_net,
 					gp_polygon_bounds(&p->poly[j]));
 				if (!px || !gp_polygon_copy(&px->shape, &p->poly[j]))
-					return oom(diag);
+					return gp_diag_oom(diag, NULL);
 				/* a: digit from 0 (-1: the sign unit),
 				 * b: part, c: its polygon, d: unit */
 				px->owner_kind = GP_OWNER_DIGITS;
@@ -100,7 +95,7 @@ static bool add_front(struct gp_build *build, size_t row_index,
 			struct gp_digit_trace *tr = &u->traces[t];
 			if (!add_copy(art, layer, GP_ROLE_LEAD,
 				      first + tr->line - 1, &tr->poly))
-				return oom(diag);
+				return gp_diag_oom(diag, NULL);
 		}
 	}
 	return true;
@@ -363,7 +358,7 @@ done:
 	free(traces); /* borrowed polygons: only the array is ours */
 	groups_finish(&g);
 	if (!ok && diag->errors == 0)
-		oom(diag);
+		gp_diag_oom(diag, NULL);
 	return ok;
 }
 
@@ -475,7 +470,7 @@ done:
 	free(items);
 	free(pairs);
 	if (!ok && reported == 0 && diag->errors == 0)
-		oom(diag);
+		gp_diag_oom(diag, NULL);
 	return ok;
 }
 
@@ -575,7 +570,7 @@ static bool static_bus(struct gp_build *build, const struct gp_digits *row,
 	     gp_build_add_lead_end(build, net, GP_SIDE_RIGHT,
 				   (struct gp_point){ x1, bus_y }, w);
 	gp_polyset_finish(&set);
-	return ok || gp_diag_error(diag, NULL, "out of memory");
+	return ok || gp_diag_oom(diag, NULL);
 }
 
 /* --- the grid's commons ---------------------------------------------------------- */
@@ -757,7 +752,7 @@ static bool grid_back(struct gp_build *build, const struct gp_digits *row,
 	for (int k = 0; ok && k < 4; k++)
 		ok = gp_build_add_lead_end(build, out->first_common + k,
 					   GP_SIDE_RIGHT, prev.right[k], (int64_t)w);
-	return ok || gp_diag_error(diag, NULL, "out of memory");
+	return ok || gp_diag_oom(diag, NULL);
 }
 
 /* A banded row: its back links (inside the units and from unit to unit),
@@ -810,7 +805,7 @@ static bool offer_ends(struct gp_build *build, const struct gp_digits *row,
 		if (!gp_build_add_lead_end(build, out->ports[i].net,
 					   GP_SIDE_BOTTOM, out->ports[i].at,
 					   out->ports[i].width))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 	if (row->duty == 1)
 		return static_bus(build, row, out, diag);
 	if (gp_digits_grid(row))
@@ -831,7 +826,7 @@ static bool offer_ends(struct gp_build *build, const struct gp_digits *row,
 				best = sh->poly.outer.points[k];
 		best.y -= w;
 		if (!gp_build_add_lead_end(build, sh->net, GP_SIDE_TOP, best, w))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 	}
 	return true;
 }
@@ -928,7 +923,7 @@ bool gp_digits_layout(struct gp_build *build, struct gp_diag *diag)
 	struct gp_geos *geos = gp_geos_create(diag);
 	bool ok = build->digit_rows && geos;
 	if (!ok)
-		oom(diag);
+		gp_diag_oom(diag, NULL);
 	struct gp_digit_rules dr = {
 		.line = design->rules.min_line,
 		.space = design->rules.min_space,

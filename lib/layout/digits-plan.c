@@ -150,7 +150,7 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 		part->poly_count = 1;
 		if (!gp_dot_build(row->point_shape, row->point_size, fs->slant,
 				  c, tol, &part->poly[0]))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 		set_height(part);
 	}
 	if (row->colon_mask >> i & 1) {
@@ -168,8 +168,7 @@ static bool digit_unit(const struct gp_digits *row, long i, int64_t tol,
 			};
 			if (!gp_dot_build(row->colon_shape, row->colon_size,
 					  fs->slant, c, tol, &part->poly[k]))
-				return gp_diag_error(diag, NULL,
-						     "out of memory");
+				return gp_diag_oom(diag, NULL);
 		}
 		set_height(part);
 	}
@@ -1715,7 +1714,7 @@ static bool plan_unit(const struct gp_digits *row,
 	struct plan *p = calloc(1, sizeof(*p));
 	bool ok = false;
 	if (!p)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	p->row = row;
 	p->rules = rules;
 	p->unit = u;
@@ -1735,7 +1734,7 @@ static bool plan_unit(const struct gp_digits *row,
 	if (gp_digits_grid(row)) {
 		ok = grid_unit(p, out, index);
 		if (!ok)
-			gp_diag_error(diag, NULL, "out of memory");
+			gp_diag_oom(diag, NULL);
 		goto done;
 	}
 	if (gp_digits_banded(row)) {
@@ -1765,7 +1764,7 @@ static bool plan_unit(const struct gp_digits *row,
 		documented(row, u);
 	}
 	if (!make_traces(p, out, index)) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		goto done;
 	}
 	ok = true;
@@ -1967,7 +1966,7 @@ bool gp_digits_plan(const struct gp_digits *row,
 	size_t count = (size_t)row->count + (row->minus || row->one ? 1 : 0);
 	out->units = calloc(count, sizeof(*out->units));
 	if (!out->units)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	out->unit_count = count;
 	size_t k = 0;
 	if (row->minus || row->one) {

@@ -454,7 +454,7 @@ bool gp_figure_build(const struct gp_figure_spec *spec, struct gp_point origin,
 	for (size_t s = 0; s < count; s++) {
 		if (!polygon_of(&f, (int)s, origin, &out[s])) {
 			finish_segments(out, count);
-			return gp_diag_error(diag, where, "out of memory");
+			return gp_diag_oom(diag, where);
 		}
 		if (out[s].outer.count < 3 ||
 		    gp_polygon_area_mm2(&out[s]) < least) {

@@ -11,6 +11,8 @@
 #include "patch.h"
 #include "units.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -59,11 +61,6 @@ struct layout {
 	size_t slot_count, slot_capacity;
 };
 
-static bool oom(struct layout *l)
-{
-	return gp_diag_error(l->diag, NULL, "out of memory laying out icons");
-}
-
 static void fmt(char *buf, size_t size, int64_t nm)
 {
 	gp_format_mm_short(buf, size, nm);
@@ -98,7 +95,7 @@ static struct gp_font *font_for(struct layout *l, const struct gp_icon *icon)
 						     sizeof(*fonts));
 	if (!fonts) {
 		gp_font_destroy(font);
-		oom(l);
+		gp_diag_oom(l->diag, NULL);
 		return NULL;
 	}
 	l->fonts = fonts;
@@ -153,12 +150,6 @@ static void where_mm(char *buf, size_t size, struct gp_point p)
 static int64_t max64i(int64_t a, int64_t b) { return a > b ? a : b; }
 static int64_t min64i(int64_t a, int64_t b) { return a < b ? a : b; }
 
-static struct gp_point centre(struct gp_box b)
-{
-	return (struct gp_point){ b.x0 + (b.x1 - b.x0) / 2,
-				  b.y0 + (b.y1 - b.y0) / 2 };
-}
-
 static bool report_thin(struct layout *l, const struct gp_icon *icon,
 			const struct gp_polyset *thin)
 {
@@ -210,7 +201,7 @@ static bool check_space(struct layout *l, const struct gp_icon *icon,
 	struct gp_box *boxes = calloc(front->count ? front->count : 1,
 				      sizeof(*boxes));
 	if (!boxes)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	for (size_t i = 0; i < front->count; i++)
 		boxes[i] = gp_polygon_bounds(&front->items[i]);
 	bool ok = gp_geos_box_pairs(l->geos, boxes, front->count, space,
@@ -241,7 +232,7 @@ static bool check_space(struct layout *l, const struct gp_icon *icon,
 		for (size_t g = 0; ok && g < gaps.count; g++)
 			if ((*findings)++ < MAX_FINDINGS)
 				report_close(l, icon,
-					     centre(gp_polygon_bounds(
+					     gp_box_centre(gp_polygon_bounds(
 						     &gaps.items[g])),
 					     0, true);
 		gp_polyset_finish(&gaps);
@@ -432,7 +423,7 @@ static bool make_pair_table(struct layout *l)
 	l->pairs = malloc((art->pixel_count ? art->pixel_count : 1) *
 			  sizeof(*l->pairs));
 	if (!l->pairs)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	for (size_t k = 0; k < art->pixel_count; k++)
 		l->pairs[k] = pair_key(art->pixels[k].common,
 				       art->pixels[k].segment);
@@ -479,14 +470,8 @@ struct slot {
 
 static bool add_slot(struct layout *l, struct slot s)
 {
-	if (l->slot_count == l->slot_capacity) {
-		size_t n = l->slot_capacity ? 2 * l->slot_capacity : 32;
-		struct slot *grown = realloc(l->slots, n * sizeof(*grown));
-		if (!grown)
-			return oom(l);
-		l->slots = grown;
-		l->slot_capacity = n;
-	}
+	if (!gp_array_reserve(l->slots, l->slot_capacity, l->slot_count + 1))
+		return gp_diag_oom(l->diag, NULL);
 	l->slots[l->slot_count++] = s;
 	return true;
 }
@@ -587,7 +572,7 @@ static bool assign_slot(struct layout *l, size_t i)
 	w->segment = gp_artwork_add_net(&l->build->art, GP_NET_SEGMENT,
 					l->front_plate);
 	w->own_segment = true;
-	return w->segment >= 0 || oom(l);
+	return w->segment >= 0 || gp_diag_oom(l->diag, NULL);
 }
 
 /* Every icon's (common, segment) pair must light nothing else. */
@@ -751,7 +736,7 @@ static bool check_apart(struct layout *l)
 			struct gp_point at = { (pa.x + pb.x) / 2,
 					       (pa.y + pb.y) / 2 };
 			if (overlap)
-				at = centre(gp_box_make(
+				at = gp_box_centre(gp_box_make(
 					max64i(boxes[pairs[q].a].x0, boxes[pairs[q].b].x0),
 					max64i(boxes[pairs[q].a].y0, boxes[pairs[q].b].y0),
 					min64i(boxes[pairs[q].a].x1, boxes[pairs[q].b].x1),
@@ -764,7 +749,7 @@ static bool check_apart(struct layout *l)
 	free(items);
 	free(boxes);
 	if (!ok)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	return apart;
 }
 
@@ -824,7 +809,7 @@ static bool front_bridges(struct layout *l, size_t i)
 	struct gp_keepout keep = { front_of_others(l, i),
 				   l->design->rules.min_space };
 	if (!keep.shape)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	size_t missing = 0;
 	struct gp_point at = { 0, 0 };
 	bool ok = gp_bridges_join(l->geos, &w->front,
@@ -845,7 +830,7 @@ static bool make_groups(struct layout *l)
 	size_t n = l->design->icon_count;
 	l->group_net = calloc(n, sizeof(*l->group_net));
 	if (!l->group_net)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	for (size_t i = 0; i < n; i++) {
 		size_t g = 0;
 		while (g < l->group_count &&
@@ -857,7 +842,7 @@ static bool make_groups(struct layout *l)
 	}
 	l->patches = calloc(l->group_count, sizeof(*l->patches));
 	if (!l->patches)
-		return oom(l);
+		return gp_diag_oom(l->diag, NULL);
 	for (size_t g = 0; g < l->group_count; g++)
 		gp_polyset_init(&l->patches[g]);
 	return true;
@@ -952,23 +937,44 @@ static int64_t shift_reach(const struct gp_rules *r)
 
 /* Front ITO that is not icon i's: earlier stages' shapes, other icons'
  * electrodes and bridges. */
-static bool foreign_front(struct layout *l, size_t self,
+static bool copy_near(struct gp_polyset *dst, const struct gp_polyset *src,
+		      struct gp_box box);
+
+static bool box_meets(struct gp_box a, struct gp_box b)
+{
+	return !(a.x1 < b.x0 || a.x0 > b.x1 || a.y1 < b.y0 || a.y0 > b.y1);
+}
+
+/* Only what lies within box can change the margin given back near an
+ * icon's bridges: the rest is left out, which keeps the work per icon
+ * from growing with the whole glass. */
+static bool foreign_front(struct layout *l, size_t self, struct gp_box box,
 			  struct gp_polyset *out)
 {
-	if (!earlier_front(l, out))
-		return false;
+	const struct gp_artwork *art = &l->build->art;
+	enum gp_layer layer = gp_plate_ito_layer(l->front_plate);
+	for (size_t i = 0; i < art->shape_count; i++) {
+		const struct gp_shape *s = &art->shapes[i];
+		struct gp_polygon copy;
+		if (s->layer != layer || s->open_path ||
+		    !box_meets(gp_polygon_bounds(&s->poly), box))
+			continue;
+		if (!gp_polygon_copy(&copy, &s->poly) ||
+		    !gp_polyset_take(out, &copy))
+			return false;
+	}
 	for (size_t i = 0; i < l->design->icon_count; i++)
-		if (i != self && (!copy_into(out, &l->icons[i].front) ||
-				  !copy_into(out, &l->icons[i].bridges)))
+		if (i != self && (!copy_near(out, &l->icons[i].front, box) ||
+				  !copy_near(out, &l->icons[i].bridges, box)))
 			return false;
 	return true;
 }
 
-static bool other_patches_set(struct layout *l, size_t group,
+static bool other_patches_set(struct layout *l, size_t group, struct gp_box box,
 			      struct gp_polyset *out)
 {
 	for (size_t g = 0; g < l->group_count; g++)
-		if (g != group && !copy_into(out, &l->patches[g]))
+		if (g != group && !copy_near(out, &l->patches[g], box))
 			return false;
 	return true;
 }
@@ -995,16 +1001,24 @@ static bool reclaim_margin(struct layout *l, size_t i)
 	for (size_t k = 0; k < 10; k++)
 		gp_polyset_init(all[k]);
 	struct gp_polyset *patch = &l->patches[w->group];
+	/* what is wanted lies within reach of the bridges; what can take
+	 * from it within reach (or min_space) of that */
+	struct gp_box box = gp_box_none();
+	for (size_t k = 0; k < w->bridges.count; k++)
+		box = gp_box_union(box, gp_polygon_bounds(&w->bridges.items[k]));
+	int64_t grow = 2 * reach + r->min_space + r->chord_tolerance + 1000;
+	box = gp_box_make(box.x0 - grow, box.y0 - grow, box.x1 + grow,
+			  box.y1 + grow);
 	bool ok =
 		gp_geos_dilate_box(l->geos, &w->front, r->registration,
 				   r->registration, &ring) &&
 		gp_geos_offset(l->geos, &w->bridges, reach, GP_JOIN_ROUND,
 			       r->chord_tolerance, &near) &&
 		gp_geos_intersection(l->geos, &ring, &near, &want) &&
-		foreign_front(l, i, &foreign) &&
+		foreign_front(l, i, box, &foreign) &&
 		gp_geos_offset(l->geos, &foreign, reach, GP_JOIN_ROUND,
 			       r->chord_tolerance, &away) &&
-		other_patches_set(l, w->group, &others) &&
+		other_patches_set(l, w->group, box, &others) &&
 		gp_geos_offset(l->geos, &others, r->min_space, GP_JOIN_ROUND,
 			       r->chord_tolerance, &apart) &&
 		gp_geos_difference(l->geos, &want, &away, &step) &&
@@ -1072,7 +1086,7 @@ static bool make_patches(struct layout *l)
 	free(groups);
 	free(names);
 	gp_polyset_finish(&traces);
-	return ok || oom(l);
+	return ok || gp_diag_oom(l->diag, NULL);
 }
 
 /* The front plate's ITO but icon i's own electrode: what a back bridge of
@@ -1289,12 +1303,12 @@ static bool emit(struct layout *l)
 		    !add_set(l, &w->back_bridges, l->back_plate,
 			     GP_ROLE_BRIDGE, w->common) ||
 		    !add_pixel(l, i))
-			return oom(l);
+			return gp_diag_oom(l->diag, NULL);
 	}
 	for (size_t g = 0; g < l->group_count; g++)
 		if (!add_set(l, &l->patches[g], l->back_plate, GP_ROLE_PATCH,
 			     l->group_net[g]))
-			return oom(l);
+			return gp_diag_oom(l->diag, NULL);
 	return true;
 }
 
@@ -1334,7 +1348,7 @@ static bool offer_ends(struct layout *l, int net, const struct gp_polyset *set)
 		}
 		if (!gp_build_add_lead_end(l->build, net, (enum gp_side)side,
 					   best, width))
-			return oom(l);
+			return gp_diag_oom(l->diag, NULL);
 	}
 	return true;
 }
@@ -1421,7 +1435,7 @@ bool gp_icons_layout(struct gp_build *build, struct gp_diag *diag)
 		gp_polyset_init(&l.icons[i].back_bridges);
 	}
 	if (!ok)
-		oom(&l);
+		gp_diag_oom(l.diag, NULL);
 	ok = ok && make_all_fronts(&l) && assign_nets(&l) && check_apart(&l) &&
 	     make_groups(&l) && make_all_bridges(&l) && emit(&l) &&
 	     offer_all_ends(&l);

@@ -76,8 +76,7 @@ static bool add_commons(struct gp_build *build, size_t index,
 			    !gp_artwork_add_box(&build->art,
 						gp_plate_ito_layer(plate),
 						GP_ROLE_ELECTRODE, net, box))
-				return gp_diag_error(diag, &b->where,
-						     "out of memory");
+				return gp_diag_oom(diag, &b->where);
 		}
 	}
 	return true;
@@ -116,8 +115,7 @@ static bool add_segments(struct gp_build *build, size_t index,
 				if (!add_segment(build, b, g * span,
 						 g * span + span - 1, cell,
 						 col))
-					return gp_diag_error(diag, &b->where,
-							     "out of memory");
+					return gp_diag_oom(diag, &b->where);
 	return true;
 }
 
@@ -149,7 +147,7 @@ static bool add_pixels(struct gp_build *build, size_t index,
 			&build->art, common,
 			segment_net(b, nets, line, cell, col), box);
 		if (!pixel)
-			return gp_diag_error(diag, &b->where, "out of memory");
+			return gp_diag_oom(diag, &b->where);
 		pixel->owner_kind = GP_OWNER_BLOCK;
 		pixel->owner = (int)index;
 		pixel->a = (int)line;
@@ -183,7 +181,7 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag)
 	build->blocks = calloc(design->block_count ? design->block_count : 1,
 			       sizeof(*build->blocks));
 	if (!build->blocks)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	for (size_t i = 0; i < design->block_count; i++)
 		if (!add_commons(build, i, diag))
 			return false;

@@ -3,6 +3,7 @@
  * offer a lead end. */
 #include "stage.h"
 
+#include "array.h"
 #include "route-spec.h"
 
 #include <stdlib.h>
@@ -43,16 +44,8 @@ bool gp_build_add_lead_end(struct gp_build *build, int net,
 			   enum gp_side side, struct gp_point at,
 			   int64_t width)
 {
-	if (build->end_count == build->end_capacity) {
-		size_t wanted = build->end_capacity ? build->end_capacity * 2
-						    : 64;
-		struct gp_lead_end *grown =
-			realloc(build->ends, wanted * sizeof(*grown));
-		if (!grown)
-			return false;
-		build->ends = grown;
-		build->end_capacity = wanted;
-	}
+	if (!gp_array_reserve(build->ends, build->end_capacity, build->end_count + 1))
+		return false;
 	build->ends[build->end_count++] = (struct gp_lead_end){
 		.net = net, .side = side, .at = at, .width = width,
 	};

@@ -55,6 +55,8 @@ enum gp_output_kind {
 	GP_OUTPUT_ALL = (1 << 5) - 1,
 };
 
+struct gp_show;
+
 struct gp_build {
 	const struct gp_design *design;
 	struct gp_artwork art;
@@ -94,6 +96,9 @@ struct gp_build {
 	struct gp_check_report checks;
 	bool checked;
 	struct gp_buffer check_text, check_json;
+	/* content to preview lit (gp_build_show, lib/write/preview.h), or
+	 * NULL */
+	struct gp_show *show;
 	void (*progress)(const char *stage, void *data);
 	void *progress_data;
 };

@@ -283,7 +283,7 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 	design->blocks = calloc(node->count ? node->count : 1,
 				sizeof(*design->blocks));
 	if (!design->blocks)
-		return gp_diag_error(diag, &node->where, "out of memory");
+		return gp_diag_oom(diag, &node->where);
 	bool ok = true;
 	for (size_t i = 0; i < node->count; i++) {
 		struct gp_block *b = &design->blocks[i];

@@ -114,7 +114,7 @@ static bool read_assignment(struct gp_digits *row, const struct gp_node *node,
 		return false;
 	row->pairs = calloc(node->count ? node->count : 1, sizeof(*row->pairs));
 	if (!row->pairs)
-		return gp_diag_error(diag, &node->where, "out of memory");
+		return gp_diag_oom(diag, &node->where);
 	row->drive_where = node->where;
 	bool ok = true;
 	for (size_t i = 0; i < node->count; i++) {
@@ -277,7 +277,7 @@ bool gp_digits_read(struct gp_design *design, const struct gp_node *node,
 	design->digits = calloc(node->count ? node->count : 1,
 				sizeof(*design->digits));
 	if (!design->digits)
-		return gp_diag_error(diag, &node->where, "out of memory");
+		return gp_diag_oom(diag, &node->where);
 	bool ok = true;
 	for (size_t i = 0; i < node->count; i++) {
 		struct gp_digits *row = &design->digits[i];

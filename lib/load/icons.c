@@ -110,7 +110,7 @@ static bool read_points(struct gp_reader *r, struct gp_icon *icon)
 				     GP_MAX_ICON_POINTS);
 	icon->points = calloc(node->count, sizeof(*icon->points));
 	if (!icon->points)
-		return gp_diag_error(r->diag, &node->where, "out of memory");
+		return gp_diag_oom(r->diag, &node->where);
 	for (size_t i = 0; i < node->count; i++) {
 		const struct gp_node *p = node->items[i];
 		int64_t x, y;
@@ -704,15 +704,13 @@ static bool expand(struct gp_design *design, size_t at,
 			cell->points = malloc(first.point_count *
 					      sizeof(*cell->points));
 			if (!cell->points)
-				return gp_diag_error(diag, &a->node->where,
-						     "out of memory");
+				return gp_diag_oom(diag, &a->node->where);
 			memcpy(cell->points, first.points,
 			       first.point_count * sizeof(*cell->points));
 		}
 		cell->made_name = join_name(first.name, k + 1);
 		if (!cell->made_name)
-			return gp_diag_error(diag, &a->node->where,
-					     "out of memory");
+			return gp_diag_oom(diag, &a->node->where);
 		cell->name = cell->made_name;
 		place_cell(&first, a, k, cell);
 		if (a->commons) {
@@ -731,8 +729,7 @@ static bool expand(struct gp_design *design, size_t at,
 			/* one common: each cell a segment line of its own */
 			cell->made_segment = join_name(first.segment, k + 1);
 			if (!cell->made_segment)
-				return gp_diag_error(diag, &a->node->where,
-						     "out of memory");
+				return gp_diag_oom(diag, &a->node->where);
 			cell->segment = cell->made_segment;
 		} else if (!first.auto_slot && !a->commons &&
 			   first.segment_digits >= 0) {
@@ -773,7 +770,7 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 	size_t capacity = node->count ? node->count : 1;
 	design->icons = calloc(capacity, sizeof(*design->icons));
 	if (!design->icons)
-		return gp_diag_error(diag, &node->where, "out of memory");
+		return gp_diag_oom(diag, &node->where);
 	bool ok = true, arrays = false;
 	for (size_t i = 0; i < node->count; i++) {
 		struct array_spec a;
@@ -798,8 +795,7 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 			struct gp_icon *grown = realloc(design->icons,
 							need * sizeof(*grown));
 			if (!grown)
-				return gp_diag_error(diag, &node->where,
-						     "out of memory");
+				return gp_diag_oom(diag, &node->where);
 			memset(grown + capacity, 0,
 			       (need - capacity) * sizeof(*grown));
 			design->icons = grown;

@@ -163,7 +163,7 @@ struct gp_design *gp_design_from_spec(struct gp_spec *spec,
 	struct gp_design *design = calloc(1, sizeof(*design));
 	if (!design) {
 		gp_spec_destroy(spec);
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	design->spec = spec;

@@ -428,7 +428,7 @@ bool gp_routing_read(struct gp_design *design, struct gp_reader *r,
 		return true;
 	struct gp_routing *g = routing_create(design);
 	if (!g)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	design->routing = g;
 	bool ok = true;
 	if (nodes[0])

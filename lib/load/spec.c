@@ -1,5 +1,7 @@
 #include "spec.h"
 
+#include "escape.h"
+
 #include "units.h"
 
 #include <errno.h>
@@ -58,7 +60,7 @@ static bool convert_children(struct convert *c, struct gp_node *node,
 	if (ynode->type == YAML_MAPPING_NODE)
 		node->keys = calloc(count ? count : 1, sizeof(*node->keys));
 	if (!node->items || (ynode->type == YAML_MAPPING_NODE && !node->keys))
-		return gp_diag_error(c->diag, &node->where, "out of memory");
+		return gp_diag_oom(c->diag, &node->where);
 	for (size_t i = 0; i < count; i++) {
 		yaml_node_t *value, *key = NULL;
 		if (ynode->type == YAML_SEQUENCE_NODE) {
@@ -105,6 +107,33 @@ static bool check_map_keys(struct convert *c, struct gp_node *node)
 	return true;
 }
 
+/* Control characters (a YAML escape such as "\e" or "\x07" makes them)
+ * would reach the terminal, a CSV field, a Gerber string or a C comment
+ * raw: refused, as is text that is not UTF-8 (libyaml checks its input;
+ * this also covers "--set" values). */
+static bool printable(const char *text, const struct gp_where *where,
+		      struct gp_diag *diag)
+{
+	for (const char *p = text; *p;) {
+		uint32_t cp;
+		size_t n = gp_utf8_next(p, &cp);
+		if (n == 1 && cp >= 0x80)
+			return gp_diag_error(diag, where,
+					     "a value holds the byte 0x%02X "
+					     "at byte %zu, which is not UTF-8",
+					     (unsigned)cp, (size_t)(p - text) + 1);
+		if (gp_is_control(cp))
+			return gp_diag_error(diag, where,
+					     "a value holds the control "
+					     "character U+%04X at byte %zu; "
+					     "names and texts take printable "
+					     "characters only",
+					     (unsigned)cp, (size_t)(p - text) + 1);
+		p += n;
+	}
+	return true;
+}
+
 static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 				    int depth)
 {
@@ -127,7 +156,7 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 	}
 	struct gp_node *node = calloc(1, sizeof(*node));
 	if (!node) {
-		gp_diag_error(c->diag, &where, "out of memory");
+		gp_diag_oom(c->diag, &where);
 		return NULL;
 	}
 	node->where = where;
@@ -140,10 +169,12 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		node->text = strndup((const char *)ynode->data.scalar.value,
 				     ynode->data.scalar.length);
 		if (!node->text)
-			ok = gp_diag_error(c->diag, &where, "out of memory");
+			ok = gp_diag_oom(c->diag, &where);
 		else if (strlen(node->text) != ynode->data.scalar.length)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value contains a NUL character");
+		else if (!printable(node->text, &where, c->diag))
+			ok = false;
 		else if (ynode->data.scalar.length > GP_SPEC_MAX_SCALAR)
 			ok = gp_diag_error(c->diag, &where,
 					   "a value is %zu bytes long; the "
@@ -294,7 +325,7 @@ static bool prescan(const char *file, const char *data, size_t size,
 {
 	yaml_parser_t parser;
 	if (!yaml_parser_initialize(&parser)) {
-		gp_diag_error(diag, NULL, "%s: out of memory", file);
+		gp_diag_oom(diag, &(struct gp_where){ file, 0, 0 });
 		return false;
 	}
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
@@ -334,7 +365,7 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	if (!prescan(file, data, size, flat, diag))
 		return NULL;
 	if (!yaml_parser_initialize(&parser)) {
-		gp_diag_error(diag, NULL, "%s: out of memory", file);
+		gp_diag_oom(diag, &(struct gp_where){ file, 0, 0 });
 		return NULL;
 	}
 	yaml_parser_set_input_string(&parser, (const unsigned char *)data,
@@ -375,7 +406,7 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 	struct gp_spec *spec = calloc(1, sizeof(*spec));
 	if (!spec || !(spec->file = strdup(name))) {
 		free(spec);
-		gp_diag_error(diag, NULL, "%s: out of memory", name);
+		gp_diag_oom(diag, &(struct gp_where){ name, 0, 0 });
 		return NULL;
 	}
 	spec->root = parse_tree(spec->file, data, size, false,
@@ -507,8 +538,7 @@ static bool graft(struct gp_spec *spec, char *path, struct gp_node *value,
 			if (node->kind != GP_NODE_MAP)
 				break;
 			if (!add_key(node, part, value, where))
-				return gp_diag_error(diag, &where,
-						     "out of memory");
+				return gp_diag_oom(diag, &where);
 			return true;
 		}
 		if (!found || found->kind == GP_NODE_SCALAR) {
@@ -570,7 +600,7 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 	struct gp_where where = { remember(&spec->labels, &spec->label_count,
 					   label), 0, 0 };
 	if (!where.file)
-		return gp_diag_error(diag, NULL, "%s: out of memory", label);
+		return gp_diag_oom(diag, &(struct gp_where){ label, 0, 0 });
 	if (!check_path(assignment, (size_t)(equals - assignment), &where,
 			diag))
 		return false;
@@ -585,13 +615,13 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 	char *path = strndup(assignment, (size_t)(equals - assignment));
 	if (!path) {
 		node_destroy(value);
-		return gp_diag_error(diag, &where, "out of memory");
+		return gp_diag_oom(diag, &where);
 	}
 	bool ok = graft(spec, path, value, where, diag);
 	free(path);
 	if (ok && !remember(&spec->overrides, &spec->override_count,
 			    assignment))
-		return gp_diag_error(diag, &where, "out of memory");
+		return gp_diag_oom(diag, &where);
 	return ok;
 }
 

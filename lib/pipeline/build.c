@@ -1,5 +1,6 @@
 /* The pipeline: layout, routing and checks into a build; writers from it. */
 #include "build.h"
+#include "preview.h"
 
 #include "gerber.h"
 #include "output.h"
@@ -33,6 +34,8 @@ static void count_nets(const struct gp_artwork *art, size_t *commons,
 			(*segments)++;
 	}
 }
+
+static void write_summary_json(struct gp_build *build);
 
 static void write_summary(struct gp_build *build)
 {
@@ -134,7 +137,7 @@ static struct gp_build *build_new(
 {
 	struct gp_build *build = calloc(1, sizeof(*build));
 	if (!build) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	build->design = design;
@@ -187,6 +190,7 @@ GP_EXPORT struct gp_build *gp_build_create_with_progress(
 		return NULL;
 	}
 	write_summary(build);
+	write_summary_json(build);
 	return build;
 }
 
@@ -232,7 +236,7 @@ GP_EXPORT char *gp_drive_report_create(const struct gp_design *design,
 		gp_drive_format(&report, &out);
 	if (out.failed || !out.data) {
 		gp_buffer_finish(&out);
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	return out.data;
@@ -255,6 +259,7 @@ GP_EXPORT void gp_build_destroy(struct gp_build *build)
 	gp_digit_rows_free(build->digit_rows, build->design->digit_count);
 	free(build->ends);
 	free(build->pins);
+	gp_show_destroy(build->show);
 	free(build);
 }
 
@@ -365,7 +370,7 @@ static bool add_gerbers(const struct gp_build *build,
 	struct gp_gerber_pin *pins =
 		calloc(build->pin_count ? build->pin_count : 1, sizeof(*pins));
 	if (!pins)
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	for (size_t i = 0; i < build->pin_count; i++) {
 		const struct gp_pin *p = &build->pins[i];
 		pins[i] = (struct gp_gerber_pin){
@@ -431,14 +436,14 @@ static bool add_checksums(struct gp_output_set *set, struct gp_diag *diag)
 			G_CHECKSUM_SHA256, (const guchar *)f->content.data,
 			f->content.size);
 		if (!hex)
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 		gp_buffer_printf(out, "%s  %s\n", hex, f->name);
 		g_free(hex);
 	}
-	return !out->failed || gp_diag_error(diag, NULL, "out of memory");
+	return !out->failed || gp_diag_oom(diag, NULL);
 }
 
-bool gp_build_outputs(struct gp_build *build,
+bool gp_build_outputs(const struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag)
 {
@@ -447,6 +452,67 @@ bool gp_build_outputs(struct gp_build *build,
 	       gp_route_write(build, set, diag) &&
 	       gp_build_add_check_reports(build, set, diag) &&
 	       add_checksums(set, diag);
+}
+
+struct gp_outputs {
+	struct gp_output_set set;
+};
+
+GP_EXPORT struct gp_outputs *gp_build_render(const struct gp_build *build,
+					     struct gp_diag *diag)
+{
+	struct gp_outputs *outputs = calloc(1, sizeof(*outputs));
+	if (!outputs) {
+		gp_diag_oom(diag, NULL);
+		return NULL;
+	}
+	gp_output_set_init(&outputs->set);
+	if (!gp_build_outputs(build, &outputs->set, diag)) {
+		gp_outputs_destroy(outputs);
+		return NULL;
+	}
+	return outputs;
+}
+
+GP_EXPORT void gp_outputs_destroy(struct gp_outputs *outputs)
+{
+	if (!outputs)
+		return;
+	gp_output_set_finish(&outputs->set);
+	free(outputs);
+}
+
+GP_EXPORT size_t gp_outputs_count(const struct gp_outputs *outputs)
+{
+	return outputs->set.count;
+}
+
+GP_EXPORT const char *gp_outputs_name(const struct gp_outputs *outputs,
+				      size_t i)
+{
+	return i < outputs->set.count ? outputs->set.files[i].name : NULL;
+}
+
+GP_EXPORT const void *gp_outputs_data(const struct gp_outputs *outputs,
+				      size_t i, size_t *size)
+{
+	if (i >= outputs->set.count) {
+		*size = 0;
+		return NULL;
+	}
+	const struct gp_buffer *content = &outputs->set.files[i].content;
+	*size = content->size;
+	return content->data ? content->data : "";
+}
+
+GP_EXPORT const void *gp_outputs_find(const struct gp_outputs *outputs,
+				      const char *name, size_t *size)
+{
+	for (size_t i = 0; i < outputs->set.count; i++)
+		if (strcmp(outputs->set.files[i].name, name) == 0)
+			return gp_outputs_data(outputs, i, size);
+	*size = 0;
+	return NULL;
 }
 
 GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
@@ -471,6 +537,7 @@ GP_EXPORT bool gp_build_write(struct gp_build *build, const char *folder,
 				 set.files[i].name);
 	}
 	gp_output_set_finish(&set);
+	write_summary_json(build);
 	return ok;
 }
 
@@ -511,7 +578,9 @@ static json_object *plate_json(const struct gp_plate_spec *plate)
 	return o;
 }
 
-GP_EXPORT const char *gp_build_summary_json(struct gp_build *build)
+/* The summary as JSON into build->json: made when the build is and again
+ * after every gp_build_write (its list of files). */
+static void write_summary_json(struct gp_build *build)
 {
 	const struct gp_design *d = build->design;
 	json_object *o = json_object_new_object();
@@ -539,5 +608,9 @@ GP_EXPORT const char *gp_build_summary_json(struct gp_build *build)
 							 JSON_C_TO_STRING_NOSLASHESCAPE));
 	gp_buffer_puts(&build->json, "\n");
 	json_object_put(o);
+}
+
+GP_EXPORT const char *gp_build_summary_json(const struct gp_build *build)
+{
 	return build->json.data ? build->json.data : "{}\n";
 }

@@ -28,7 +28,7 @@ bool gp_depfile_stage(const struct gp_build *build,
  * writer is called from here, so that the outputs in memory and on disk
  * are the same set.  The fuzz
  * harness and tests use it to run the whole pipeline without a disk. */
-bool gp_build_outputs(struct gp_build *build,
+bool gp_build_outputs(const struct gp_build *build,
 		      struct gp_output_set *set,
 		      struct gp_diag *diag);
 

@@ -53,7 +53,7 @@ bool gp_depfile_stage(const struct gp_build *build,
 	gp_buffer_init(&text);
 	depfile_text(build, set, folder, &text);
 	bool ok = text.failed
-			  ? gp_diag_error(diag, NULL, "out of memory")
+			  ? gp_diag_oom(diag, NULL)
 			  : gp_staged_file_write(file, build->depfile,
 						 text.data, text.size, diag);
 	gp_buffer_finish(&text);

@@ -68,7 +68,7 @@ static struct gp_geos_shape *shape_of(struct gp_geos *geos,
 	struct gp_box b = gp_polygon_bounds(&s->poly);
 	int64_t h = s->line_width / 2;
 	return gp_geos_shape_from_box(
-		geos, gp_box_make(b.x0 - h, b.y0 - h, b.x1 + h, b.y1 + h));
+		geos, gp_box_grow(b, h));
 }
 
 static bool add_to_group(struct gp_geos *geos, struct group_list *list,
@@ -220,7 +220,7 @@ GP_EXPORT struct gp_diff *gp_diff_create(const struct gp_build *old,
 	struct gp_diff *diff = calloc(1, sizeof(*diff));
 	if (!diff || !(diff->geos = gp_geos_create(diag))) {
 		free(diff);
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	gp_buffer_init(&diff->text);

@@ -10,6 +10,83 @@
 
 /* --- shapes ------------------------------------------------------------------ */
 
+/* Orientation of c against the line a->b: -1, 0, +1.  In long double:
+ * exact for the few millimetres a lead's outline spans (products below
+ * 2^64 nm^2); a wrong answer for far larger shapes only costs a repair
+ * that was not needed. */
+static int turn(struct gp_point a, struct gp_point b, struct gp_point c)
+{
+	long double v = (long double)(b.x - a.x) * (long double)(c.y - a.y) -
+			(long double)(b.y - a.y) * (long double)(c.x - a.x);
+	return (v > 0) - (v < 0);
+}
+
+static bool on_segment(struct gp_point a, struct gp_point b, struct gp_point c)
+{
+	return c.x >= (a.x < b.x ? a.x : b.x) && c.x <= (a.x > b.x ? a.x : b.x) &&
+	       c.y >= (a.y < b.y ? a.y : b.y) && c.y <= (a.y > b.y ? a.y : b.y);
+}
+
+static bool segments_meet(struct gp_point a, struct gp_point b,
+			  struct gp_point c, struct gp_point d)
+{
+	int d1 = turn(c, d, a), d2 = turn(c, d, b);
+	int d3 = turn(a, b, c), d4 = turn(a, b, d);
+	if (d1 * d2 < 0 && d3 * d4 < 0)
+		return true;
+	return (d1 == 0 && on_segment(c, d, a)) ||
+	       (d2 == 0 && on_segment(c, d, b)) ||
+	       (d3 == 0 && on_segment(a, b, c)) ||
+	       (d4 == 0 && on_segment(a, b, d));
+}
+
+/* No two edges of the ring meet but neighbours at their shared corner. */
+static bool ring_simple(const struct gp_ring *ring)
+{
+	size_t n = ring->count;
+	for (size_t i = 0; i < n; i++) {
+		struct gp_point a = ring->points[i], b = ring->points[(i + 1) % n];
+		for (size_t j = i + 2; j < n; j++) {
+			if (i == 0 && j == n - 1)
+				continue;
+			if (segments_meet(a, b, ring->points[j],
+					  ring->points[(j + 1) % n]))
+				return false;
+		}
+	}
+	return true;
+}
+
+/* A jog shorter than the lead is wide folds the mitred outline over
+ * itself (GEOS then refuses it: "Self-intersection"); the outline is
+ * filled by the nonzero rule instead, which is the lead's area. */
+static bool repair_outline(struct gp_polygon *poly)
+{
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_geos *geos = gp_geos_create(&diag);
+	struct gp_polyset out;
+	gp_polyset_init(&out);
+	bool ok = geos && gp_geos_make_valid(geos, &poly->outer, 1,
+					     GP_FILL_NONZERO, &out) &&
+		  out.count > 0;
+	if (ok) {
+		/* one piece: the path is connected */
+		size_t best = 0;
+		for (size_t k = 1; k < out.count; k++)
+			if (gp_polygon_area_mm2(&out.items[k]) >
+			    gp_polygon_area_mm2(&out.items[best]))
+				best = k;
+		gp_polygon_finish(poly);
+		*poly = out.items[best];
+		gp_polygon_init(&out.items[best]);
+	}
+	gp_polyset_finish(&out);
+	gp_geos_destroy(geos);
+	gp_diag_finish(&diag);
+	return ok;
+}
+
 /* Outline of a path of straight segments of width w with mitred corners
  * (corners here are 45 or 90 degrees, so mitres stay short). */
 bool gp_route_path_polygon(const struct gp_point *p, size_t n, int64_t w,
@@ -46,6 +123,8 @@ bool gp_route_path_polygon(const struct gp_point *p, size_t n, int64_t w,
 	}
 	free(nx);
 	free(ny);
+	if (ok && !ring_simple(&poly->outer))
+		ok = repair_outline(poly);
 	if (ok)
 		gp_polygon_normalize(poly);
 	return ok;
@@ -147,7 +226,7 @@ static bool make_items(struct ledge_ctx *c)
 			n++;
 	c->items = calloc(n ? n : 1, sizeof(*c->items));
 	if (!c->items)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	int64_t cut = (c->out.x0 + c->out.x1) / 2;
 	for (size_t i = 0; i < r->net_count; i++) {
 		struct netstate *ns = &r->nets[i];
@@ -503,7 +582,7 @@ static bool fan_levels(struct ledge_ctx *c, size_t from, size_t to,
 	int dir = direction(&it[from]);
 	long *level = calloc(to - from, sizeof(*level));
 	if (!level)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	if (dir > 0) {
 		for (size_t i = to; i-- > from + 1;)
 			if (it[i - 1].pad + step > it[i].arrive)
@@ -573,8 +652,9 @@ static bool fan_out(struct ledge_ctx *c, int64_t y_gather, int64_t y_pad)
 }
 
 struct pathbuf {
-	struct gp_point p[16];
-	size_t n;
+	struct gp_point *p;
+	size_t n, cap;
+	bool lost;                /* out of memory */
 };
 
 static int sgn(int64_t v)
@@ -597,8 +677,17 @@ static void push(struct pathbuf *b, int64_t x, int64_t y)
 			return;
 		}
 	}
-	if (b->n < 16)
-		b->p[b->n++] = q;
+	if (b->n == b->cap) {
+		size_t cap = b->cap ? 2 * b->cap : 16;
+		struct gp_point *grown = realloc(b->p, cap * sizeof(*grown));
+		if (!grown) {
+			b->lost = true;
+			return;
+		}
+		b->p = grown;
+		b->cap = cap;
+	}
+	b->p[b->n++] = q;
 }
 
 static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
@@ -610,7 +699,7 @@ static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
 		struct netstate *ns = &r->nets[it->net];
 		int64_t ov = it->width / 2;   /* overlap into the wide part */
 		int64_t start_out = ns->ext;
-		struct pathbuf b = { .n = 0 };
+		struct pathbuf b = { .p = NULL };
 		switch (it->side) {
 		case GP_SIDE_BOTTOM:
 			push(&b, it->pos, c->out.y0 - start_out + ov);
@@ -646,8 +735,11 @@ static bool build_paths(struct ledge_ctx *c, int64_t y_pad_centre)
 		push(&b, it->pad, y_pad_centre);
 		for (size_t k = 0; k < b.n; k++)
 			b.p[k] = from_canon(c->l->side, b.p[k]);
-		if (!add_path(r, plate, it->net, b.p, b.n, it->width))
-			return gp_diag_error(r->diag, NULL, "out of memory");
+		bool ok = !b.lost &&
+			  add_path(r, plate, it->net, b.p, b.n, it->width);
+		free(b.p);
+		if (!ok)
+			return gp_diag_oom(r->diag, NULL);
 	}
 	return true;
 }
@@ -686,7 +778,7 @@ static bool check_planar(struct ledge_ctx *c)
 		if (!pads || !order) {
 			free(pads);
 			free(order);
-			return gp_diag_error(r->diag, NULL, "out of memory");
+			return gp_diag_oom(r->diag, NULL);
 		}
 		for (size_t k = 0; k < n; k++)
 			pads[k] = c->items[k].pad;
@@ -829,7 +921,7 @@ bool gp_route_ledge(struct route *r, int index)
 		if (!xs || !idx) {
 			free(xs);
 			free(idx);
-			ok = gp_diag_error(r->diag, NULL, "out of memory");
+			ok = gp_diag_oom(r->diag, NULL);
 			goto out;
 		}
 		for (size_t k = 0; k < c.count; k++) {
@@ -957,7 +1049,7 @@ static bool choose_ledges(struct route *r)
 	if (!ok) {
 		free(rank);
 		free(best);
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	}
 	for (size_t li = 0; li < g->ledge_count; li++) {
 		const struct gp_ledge *l = &r->ledges[li];
@@ -1048,7 +1140,7 @@ bool gp_route_assign_nets(struct route *r)
 		total += r->ledges[i].map ? r->ledges[i].map->count : r->net_count;
 	r->build->pins = calloc(total ? total : 1, sizeof(*r->build->pins));
 	if (!r->build->pins)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	for (size_t i = 0; i < r->net_count; i++)
 		r->nets[i].ledge = -1, r->nets[i].pin = -1;
 	bool any_map = false;

@@ -1,6 +1,8 @@
 /* The grid router (see maze.h). */
 #include "maze.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -438,14 +440,8 @@ struct heap {
 
 static bool heap_push(struct heap *h, uint32_t f, uint32_t k)
 {
-	if (h->n == h->cap) {
-		size_t cap = h->cap ? 2 * h->cap : 1024;
-		struct node *a = realloc(h->a, cap * sizeof(*a));
-		if (!a)
-			return false;
-		h->a = a;
-		h->cap = cap;
-	}
+	if (!gp_array_reserve(h->a, h->cap, h->n + 1))
+		return false;
 	size_t i = h->n++;
 	while (i > 0 && h->a[(i - 1) / 2].f > f) {
 		h->a[i] = h->a[(i - 1) / 2];
@@ -660,14 +656,8 @@ static bool push_pt(struct gp_maze_path *p, struct gp_point q, size_t *cap)
 	if (p->count && p->points[p->count - 1].x == q.x &&
 	    p->points[p->count - 1].y == q.y)
 		return true;
-	if (p->count == *cap) {
-		size_t c = *cap ? 2 * *cap : 16;
-		struct gp_point *a = realloc(p->points, c * sizeof(*a));
-		if (!a)
-			return false;
-		p->points = a;
-		*cap = c;
-	}
+	if (!gp_array_reserve(p->points, (*cap), p->count + 1))
+		return false;
 	p->points[p->count++] = q;
 	return true;
 }

@@ -23,6 +23,8 @@
 #include "route-private.h"
 #include "units.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -70,11 +72,6 @@ struct bundle {
 				   * failed */
 };
 
-static bool oom(struct bundle *b)
-{
-	return gp_diag_error(b->r->diag, NULL, "out of memory");
-}
-
 static void push_point(struct blead *l, int64_t x, int64_t y)
 {
 	if (l->n && l->pts[l->n - 1].x == x && l->pts[l->n - 1].y == y)
@@ -88,18 +85,12 @@ static void push_point(struct blead *l, int64_t x, int64_t y)
 static bool add_obstacle(struct bundle *b, struct gp_box box, int net,
 			 bool patch, size_t *cap)
 {
-	if (b->obs_count == *cap) {
-		size_t c = *cap ? 2 * *cap : 256;
-		struct bobst *o = realloc(b->obs, c * sizeof(*o));
-		if (!o)
-			return false;
-		b->obs = o;
-		*cap = c;
-	}
+	if (!gp_array_reserve(b->obs, (*cap), b->obs_count + 1))
+		return false;
 	struct gp_box q = box_map(box, b->l->side, true);
 	int64_t g = b->clear;
 	b->obs[b->obs_count++] = (struct bobst){
-		gp_box_make(q.x0 - g, q.y0 - g, q.x1 + g, q.y1 + g), q, net,
+		gp_box_grow(q, g), q, net,
 		patch };
 	return true;
 }
@@ -181,7 +172,7 @@ static bool collect_obstacles(struct bundle *b)
 			continue;
 		if (!add_polygon(b, &s->poly, s->net, s->role == GP_ROLE_PATCH,
 				 &cap))
-			return oom(b);
+			return gp_diag_oom(b->r->diag, NULL);
 	}
 	/* leads of nets that leave another way, and bundles done before */
 	for (size_t i = 0; i < r->net_count; i++) {
@@ -189,10 +180,10 @@ static bool collect_obstacles(struct bundle *b)
 		if (n->ledge < 0 || in_bundle(b, (int)i) || !n->decided)
 			continue;
 		if (!add_obstacle(b, n->corridor, (int)i, false, &cap))
-			return oom(b);
+			return gp_diag_oom(b->r->diag, NULL);
 		if (n->path_count >= 2 &&
 		    !add_polygon(b, &n->path_poly, (int)i, false, &cap))
-			return oom(b);
+			return gp_diag_oom(b->r->diag, NULL);
 	}
 	return true;
 }
@@ -357,7 +348,7 @@ static bool place(struct bundle *b, int64_t y, int64_t below, int64_t above,
 	if (!f || !g) {
 		free(f);
 		free(g);
-		return oom(b);
+		return gp_diag_oom(b->r->diag, NULL);
 	}
 	size_t nf = 0;
 	for (size_t i = 0; i < b->obs_count; i++) {
@@ -558,7 +549,7 @@ static bool sweep(struct bundle *b)
 	size_t n = 0;
 	int64_t *v = levels(b, &n);
 	if (!v)
-		return oom(b);
+		return gp_diag_oom(b->r->diag, NULL);
 	bool ok = true;
 	for (size_t i = 0; ok && i < n; i++) {
 		int64_t y = v[i];
@@ -593,7 +584,7 @@ bool gp_route_bundle(struct route *r, int index, int *culprit)
 	if (!b.leads || !b.order) {
 		free(b.leads);
 		free(b.order);
-		return oom(&b);
+		return gp_diag_oom(b.r->diag, NULL);
 	}
 	int64_t wmax = 0;
 	for (size_t i = 0; i < r->net_count; i++) {
@@ -635,7 +626,7 @@ bool gp_route_bundle(struct route *r, int index, int *culprit)
 		struct netstate *ns = &r->nets[bl->net];
 		struct gp_point *path = malloc((size_t)bl->n * sizeof(*path));
 		if (!path) {
-			ok = oom(&b);
+			ok = gp_diag_oom(b.r->diag, NULL);
 			break;
 		}
 		for (int q = 0; q < bl->n; q++)
@@ -648,7 +639,7 @@ bool gp_route_bundle(struct route *r, int index, int *culprit)
 		gp_polygon_init(&ns->path_poly);
 		if (bl->n >= 2 && !gp_route_path_polygon(path, (size_t)bl->n, bl->w,
 							 &ns->path_poly)) {
-			ok = oom(&b);
+			ok = gp_diag_oom(b.r->diag, NULL);
 			break;
 		}
 		/* the lead crosses the seal from where it arrives */

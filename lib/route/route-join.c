@@ -50,17 +50,6 @@ static struct gp_box set_bounds(const struct gp_polyset *s)
 	return b;
 }
 
-static struct gp_box clip(struct gp_box a, struct gp_box b)
-{
-	return gp_box_make(max64(a.x0, b.x0), max64(a.y0, b.y0),
-			   min64(a.x1, b.x1), min64(a.y1, b.y1));
-}
-
-static bool boxes_meet(struct gp_box a, struct gp_box b)
-{
-	return a.x0 <= b.x1 && b.x0 <= a.x1 && a.y0 <= b.y1 && b.y0 <= a.y1;
-}
-
 struct join {
 	struct route *r;
 	struct gp_geos *geos;
@@ -80,7 +69,7 @@ static void mark(struct join *j, struct gp_maze *m, struct gp_box window)
 	for (size_t i = 0; i < art->shape_count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
 		if (!is_ito(s->layer) || s->net == j->net || s->open_path ||
-		    !boxes_meet(gp_polygon_bounds(&s->poly), window))
+		    !gp_box_touch(gp_polygon_bounds(&s->poly), window))
 			continue;
 		enum gp_maze_layer layer = s->layer == mine ? GP_MAZE_SAME
 					   : s->role == GP_ROLE_PATCH
@@ -102,7 +91,7 @@ static void mark(struct join *j, struct gp_maze *m, struct gp_box window)
 		case GP_SIDE_LEFT: c.x1 = c.x0, c.x0 = in.x0; break;
 		default: c.x0 = c.x1, c.x1 = in.x1; break;
 		}
-		if (!gp_box_is_empty(c) && boxes_meet(c, window))
+		if (!gp_box_is_empty(c) && gp_box_touch(c, window))
 			gp_maze_mark_box(m, GP_MAZE_SHADOW, c);
 	}
 	for (size_t k = 0; k < j->pieces.count; k++)
@@ -126,8 +115,7 @@ static bool bus_clear(struct join *j, const struct gp_polygon *bus,
 	enum gp_layer mine = gp_plate_ito_layer(j->plate);
 	struct gp_box bb = gp_polygon_bounds(bus);
 	int64_t space = j->r->min_space;
-	struct gp_box near = gp_box_make(bb.x0 - space, bb.y0 - space,
-					 bb.x1 + space, bb.y1 + space);
+	struct gp_box near = gp_box_grow(bb, space);
 	/* what the bus adds: inside its own net's ITO it changes nothing */
 	struct gp_geos_shape *whole = gp_geos_shape_from_polygon(j->geos, bus);
 	struct gp_geos_shape *own =
@@ -144,7 +132,7 @@ static bool bus_clear(struct join *j, const struct gp_polygon *bus,
 		const struct gp_shape *s = &art->shapes[i];
 		if (!is_ito(s->layer) || s->net == j->net || s->open_path ||
 		    (s->layer != mine && s->role == GP_ROLE_PATCH) ||
-		    !boxes_meet(gp_polygon_bounds(&s->poly), near))
+		    !gp_box_touch(gp_polygon_bounds(&s->poly), near))
 			continue;
 		struct gp_geos_shape *o =
 			gp_geos_shape_from_polygon(j->geos, &s->poly);
@@ -171,14 +159,14 @@ static bool notch_round(struct join *j, const struct gp_polygon *bus)
 		j->plate == GP_PLATE_FRONT ? GP_PLATE_BACK : GP_PLATE_FRONT);
 	struct gp_box bb = gp_polygon_bounds(bus);
 	int64_t c = 2 * j->r->design->rules.registration;
-	bb = gp_box_make(bb.x0 - c, bb.y0 - c, bb.x1 + c, bb.y1 + c);
+	bb = gp_box_grow(bb, c);
 	bool ok = true;
 	size_t count = art->shape_count;
 	for (size_t i = 0; ok && i < count; i++) {
 		const struct gp_shape *s = &art->shapes[i];
 		if (s->layer == other && s->role == GP_ROLE_PATCH &&
 		    s->net != j->net &&
-		    boxes_meet(gp_polygon_bounds(&s->poly), bb))
+		    gp_box_touch(gp_polygon_bounds(&s->poly), bb))
 			ok = gp_route_notch(j->r, j->geos, i, bus, j->net);
 	}
 	return ok;
@@ -221,7 +209,7 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 		return true;
 	struct gp_maze *m = gp_maze_create(window, cell);
 	if (!m)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	mark(j, m, window);
 	struct gp_maze_rules mr = {
 		.width = width,
@@ -238,7 +226,7 @@ static bool one_bus(struct join *j, struct gp_box window, int64_t width,
 	bool ok = gp_maze_route(m, &mr, &path, found);
 	gp_maze_destroy(m);
 	if (!ok)
-		return gp_diag_error(r->diag, NULL, "out of memory");
+		return gp_diag_oom(r->diag, NULL);
 	if (!*found)
 		return true;
 	struct gp_polygon bus;
@@ -288,7 +276,7 @@ static bool nearest_box(struct join *j, struct gp_box *out)
 	gp_geos_shape_destroy(j->geos, a);
 	gp_geos_shape_destroy(j->geos, b);
 	gp_polyset_finish(&done);
-	return ok || gp_diag_error(j->r->diag, NULL, "out of memory");
+	return ok || gp_diag_oom(j->r->diag, NULL);
 }
 
 static bool join_pieces(struct join *j, size_t *left)
@@ -340,9 +328,8 @@ static bool join_pieces(struct join *j, size_t *left)
 		for (int round = 0; ok && !found && round < 2; round++) {
 			struct gp_box near = round ? set_bounds(&j->pieces) : close;
 			int64_t room = round ? 2 * JOIN_ROOM : JOIN_ROOM;
-			struct gp_box window = clip(
-				gp_box_make(near.x0 - room, near.y0 - room,
-					    near.x1 + room, near.y1 + room),
+			struct gp_box window = gp_box_meet(
+				gp_box_grow(near, room),
 				r->s_in);
 			if (round)
 				j->target = -1;

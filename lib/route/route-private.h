@@ -79,10 +79,11 @@ struct cand {
 
 struct netstate {
 	int ledge;                /* -1: not routed */
-	struct cand cands[16];
-	int cand_count;
+	/* every end the net may leave from, and per end: */
+	struct cand *cands;
+	int cand_count, cand_capacity;
 	int chosen;
-	int order[16];            /* free candidates, best first */
+	int *order;               /* free candidates, best first */
 	int usable, pick;
 	int first_hit;            /* what blocked the best one */
 	bool first_hit_plate;
@@ -92,11 +93,11 @@ struct netstate {
 	struct gp_box corridor;   /* electrode plate, real frame */
 	struct gp_box centre;     /* bounds of the net's electrodes */
 	int64_t ext;              /* narrow lead starts this far past the seal */
-	bool bend[16];            /* cands whose way to the seal is not
+	bool *bend;               /* cands whose way to the seal is not
 				   * straight but can go round (route-bundle.c) */
 	bool bundle;              /* leaves toward its ledge (route-bundle.c) */
 	bool no_bend;             /* going round failed: leave straight */
-	bool banned[16];          /* cands that failed going round */
+	bool *banned;             /* cands that failed going round */
 	bool decided;             /* corridor (and path) final */
 	struct gp_point *path;    /* a bundle lead inside the seal, to c->at */
 	size_t path_count;
@@ -126,6 +127,9 @@ static inline const char *net_name(const struct route *r, int net)
 {
 	return net >= 0 ? r->build->art.nets[net].name : "NC";
 }
+
+/* route.c: the description's place of a net's element, or NULL. */
+const struct gp_where *gp_route_net_where(const struct route *r, int net);
 
 /* Plate box and the other plate's box. */
 static inline struct gp_box plate_box(const struct gp_design *d, enum gp_plate p)

@@ -143,11 +143,39 @@ static bool is_block_net(const struct gp_build *b, int net, bool *common,
 	return false;
 }
 
-static void add_cand(struct netstate *n, enum gp_side side,
+/* Adds an end; the per-end arrays grow together.  False when out of
+ * memory (no end is dropped). */
+static bool add_cand(struct netstate *n, enum gp_side side,
 		     struct gp_point at, int64_t width)
 {
-	if (n->cand_count < 16)
-		n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
+	if (n->cand_count == n->cand_capacity) {
+		int cap = n->cand_capacity ? 2 * n->cand_capacity : 16;
+		struct cand *c = realloc(n->cands, (size_t)cap * sizeof(*c));
+		if (c)
+			n->cands = c;
+		int *o = c ? realloc(n->order, (size_t)cap * sizeof(*o)) : NULL;
+		if (o)
+			n->order = o;
+		bool *b = o ? realloc(n->bend, (size_t)cap * sizeof(*b)) : NULL;
+		if (b)
+			n->bend = b;
+		bool *x = b ? realloc(n->banned, (size_t)cap * sizeof(*x)) : NULL;
+		if (!x)
+			return false;
+		n->banned = x;
+		n->cand_capacity = cap;
+	}
+	n->bend[n->cand_count] = n->banned[n->cand_count] = false;
+	n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
+	return true;
+}
+
+static void free_cands(struct netstate *n)
+{
+	free(n->cands);
+	free(n->order);
+	free(n->bend);
+	free(n->banned);
 }
 
 /* The strip of a block net: its longest electrode (icons sharing the
@@ -172,12 +200,12 @@ static struct gp_box strip_box(const struct route *r, int net, bool common)
 }
 
 /* Ends of block strips come from the strips themselves. */
-static void block_cands(struct route *r, int net, struct netstate *n)
+static bool block_cands(struct route *r, int net, struct netstate *n)
 {
 	bool common = false;
 	int row = 0, rows = 1;
 	if (!is_block_net(r->build, net, &common, &row, &rows))
-		return;
+		return true;
 	struct gp_box b = strip_box(r, net, common);
 	if (gp_box_is_empty(b))
 		b = n->centre;
@@ -186,13 +214,12 @@ static void block_cands(struct route *r, int net, struct netstate *n)
 		n->block_common = true;
 		n->block_row = row;
 		n->block_rows = rows;
-		add_cand(n, GP_SIDE_LEFT, (struct gp_point){ b.x0, y }, h);
-		add_cand(n, GP_SIDE_RIGHT, (struct gp_point){ b.x1, y }, h);
-	} else {
-		int64_t x = (b.x0 + b.x1) / 2, w = b.x1 - b.x0;
-		add_cand(n, GP_SIDE_BOTTOM, (struct gp_point){ x, b.y0 }, w);
-		add_cand(n, GP_SIDE_TOP, (struct gp_point){ x, b.y1 }, w);
+		return add_cand(n, GP_SIDE_LEFT, (struct gp_point){ b.x0, y }, h) &&
+		       add_cand(n, GP_SIDE_RIGHT, (struct gp_point){ b.x1, y }, h);
 	}
+	int64_t x = (b.x0 + b.x1) / 2, w = b.x1 - b.x0;
+	return add_cand(n, GP_SIDE_BOTTOM, (struct gp_point){ x, b.y0 }, w) &&
+	       add_cand(n, GP_SIDE_TOP, (struct gp_point){ x, b.y1 }, w);
 }
 
 /* Any other electrode: leave from its outermost point on each side, or
@@ -220,7 +247,7 @@ static void consider(struct extreme *e, struct gp_point p, enum gp_side side,
 		e->p = p, e->box = box, e->found = true;
 }
 
-static void shape_cands(struct route *r, int net, struct netstate *n)
+static bool shape_cands(struct route *r, int net, struct netstate *n)
 {
 	const struct gp_artwork *art = &r->build->art;
 	enum gp_layer layer = gp_plate_ito_layer(art->nets[net].plate);
@@ -229,7 +256,7 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 		if (art->shapes[i].net == net && art->shapes[i].layer == layer)
 			b = gp_box_union(b, gp_polygon_bounds(&art->shapes[i].poly));
 	if (gp_box_is_empty(b))
-		return;
+		return true;
 	/* [side][0 whole, 1 first third, 2 last third] */
 	struct extreme e[GP_SIDE_COUNT][3];
 	memset(e, 0, sizeof(e));
@@ -289,9 +316,11 @@ static void shape_cands(struct route *r, int net, struct netstate *n)
 			case GP_SIDE_LEFT: p.x += depth; break;
 			default: p.x -= depth; break;
 			}
-			add_cand(n, order[k], p, w);
+			if (!add_cand(n, order[k], p, w))
+				return false;
 		}
 	}
+	return true;
 }
 
 static bool has_port(const struct route *r, int net)
@@ -435,32 +464,36 @@ static void net_centres(struct route *r)
 
 static bool collect_cands(struct route *r)
 {
-	for (size_t i = 0; i < r->build->end_count; i++) {
+	bool ok = true;
+	for (size_t i = 0; ok && i < r->build->end_count; i++) {
 		const struct gp_lead_end *e = &r->build->ends[i];
 		if (e->net >= 0 && (size_t)e->net < r->net_count)
-			add_cand(&r->nets[e->net], e->side, e->at, e->width);
+			ok = add_cand(&r->nets[e->net], e->side, e->at,
+				      e->width);
 	}
-	for (size_t i = 0; i < r->build->digit_row_count; i++) {
+	for (size_t i = 0; ok && i < r->build->digit_row_count; i++) {
 		const struct gp_digit_row *row = &r->build->digit_rows[i];
-		for (size_t k = 0; k < row->port_count; k++) {
+		for (size_t k = 0; ok && k < row->port_count; k++) {
 			const struct gp_digit_port *p = &row->ports[k];
 			if (p->net >= 0 && (size_t)p->net < r->net_count)
-				add_cand(&r->nets[p->net], GP_SIDE_BOTTOM,
-					 p->at, p->width);
+				ok = add_cand(&r->nets[p->net], GP_SIDE_BOTTOM,
+					      p->at, p->width);
 		}
 	}
-	for (size_t i = 0; i < r->net_count; i++)
+	for (size_t i = 0; ok && i < r->net_count; i++)
 		if (r->nets[i].cand_count == 0)
-			block_cands(r, (int)i, &r->nets[i]);
+			ok = block_cands(r, (int)i, &r->nets[i]);
 	/* every other net may also leave from its outer points (after the
 	 * ends its layout offered) */
-	for (size_t i = 0; i < r->net_count; i++) {
+	for (size_t i = 0; ok && i < r->net_count; i++) {
 		bool common = false;
 		int row, rows;
 		if (!is_block_net(r->build, (int)i, &common, &row, &rows) &&
 		    !has_port(r, (int)i))
-			shape_cands(r, (int)i, &r->nets[i]);
+			ok = shape_cands(r, (int)i, &r->nets[i]);
 	}
+	if (!ok)
+		return gp_diag_oom(r->diag, NULL);
 	set_reaches(r);
 	return true;
 }
@@ -521,11 +554,6 @@ static struct gp_box stub_box(const struct route *r, const struct netstate *n,
 	default:
 		return gp_box_make(a.x - c->reach, a.y - h0, a.x + length, a.y + h1);
 	}
-}
-
-static bool boxes_overlap(struct gp_box a, struct gp_box b)
-{
-	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
 }
 
 /* Squared distance between boxes, in nm^2 as double. */
@@ -615,7 +643,7 @@ static void hit_test(struct blocker *k, const struct gp_shape *s)
 		if (s->role == GP_ROLE_PATCH)
 			return;
 		struct gp_box inner = k->box;
-		if (!boxes_overlap(inner, k->r->s_in) || !boxes_overlap(b, inner))
+		if (!gp_box_overlap(inner, k->r->s_in) || !gp_box_overlap(b, inner))
 			return;
 		if (shape_is_box(s) || shape_overlaps(k, s, inner))
 			k->hit = s->net, k->plate_hit = true;
@@ -719,6 +747,38 @@ static bool worth_bending(const struct route *r, const struct netstate *n,
 	return aside <= (at.y - h.y1) / 2;
 }
 
+/* The description's place of the element a net belongs to (a block, a
+ * digit row, an icon), for routing messages; NULL when none. */
+const struct gp_where *gp_route_net_where(const struct route *r, int net)
+{
+	const struct gp_build *b = r->build;
+	const struct gp_design *d = r->design;
+	for (size_t i = 0; b->blocks && i < d->block_count; i++) {
+		const struct gp_block_nets *n = &b->blocks[i];
+		if ((net >= n->first_common &&
+		     net < n->first_common + n->common_count) ||
+		    (net >= n->first_segment &&
+		     net < n->first_segment + n->segment_count))
+			return &d->blocks[i].where;
+	}
+	for (size_t i = 0; i < b->digit_row_count; i++) {
+		const struct gp_digit_row *row = &b->digit_rows[i];
+		if ((net >= row->first_common &&
+		     net < row->first_common + row->common_count) ||
+		    (net >= row->first_segment &&
+		     net < row->first_segment + row->segment_count))
+			return &d->digits[i].where;
+	}
+	for (size_t i = 0; i < b->art.pixel_count; i++) {
+		const struct gp_pixel *px = &b->art.pixels[i];
+		if (px->owner_kind == GP_OWNER_ICON &&
+		    (px->common == net || px->segment == net) &&
+		    px->owner >= 0 && (size_t)px->owner < d->icon_count)
+			return &d->icons[px->owner].where;
+	}
+	return NULL;
+}
+
 /* Candidates of a net ranked, each either free of the shapes already
  * there or not; n->order[0..n->usable) are the free ones, best first:
  * by rank, a straight way before one that goes round, and of equal
@@ -732,7 +792,11 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 	n->transfer = plate != l->plate;
 	n->ext = r->g->transfers.outside ? transfer_zone(r) : 0;
 	struct blocker k = { .r = r, .geos = geos, .net = net, .plate = plate };
-	int key[16], order[16];
+	int *key = malloc((size_t)(n->cand_count ? n->cand_count : 1) *
+			  sizeof(*key));
+	int *order = n->order;
+	if (!key)
+		return gp_diag_oom(r->diag, NULL);
 	n->first_hit = -1;
 	int first_bad = -1, bad_key = 0;
 	for (int c = 0; c < n->cand_count; c++) {
@@ -743,7 +807,7 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 			narrow.width = gp_route_lead_width(r, n, cd);
 		k.all = down;
 		if (!blocked(r, index, &k, corridor_box(r, &narrow, n->ext)))
-			return false;
+			goto fail;
 		if (n->banned[c]) {
 			key[c] = -1;
 			continue;
@@ -760,7 +824,7 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 		k.all = false;
 		if (down && !blocked(r, index, &k,
 				     stub_box(r, n, cd, stub_length(r, n, cd))))
-			return false;
+			goto fail;
 		if (down && k.hit < 0 && !n->no_bend) {
 			n->bend[c] = true;
 			key[c] = worth_bending(r, n, cd, hits) ? 4 * rank + 2 + extra
@@ -785,27 +849,38 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 			order[j - 1] = t;
 		}
 	n->usable = m;
-	for (int c = 0; c < m; c++)
-		n->order[c] = order[c];
-	if (n->cand_count == 0)
-		return gp_diag_error(r->diag, NULL,
-				     "%s: net %s has no place to lead it out",
-				     r->design->spec->file, net_name(r, net));
+	free(key);
+	if (n->cand_count == 0) {
+		char x[32], y[32];
+		struct gp_box b = n->centre;
+		return gp_diag_error(r->diag, gp_route_net_where(r, net),
+				     "net %s (x %s, y %s mm) has no place to "
+				     "lead it out: its electrode offers no "
+				     "end; give it a ledge on another side or "
+				     "move it off the others", net_name(r, net),
+				     mm(x, (b.x0 + b.x1) / 2),
+				     mm(y, (b.y0 + b.y1) / 2));
+	}
 	if (n->usable == 0) {
 		char x[32], y[32];
 		const struct cand *c = &n->cands[first_bad];
 		return gp_diag_error(
-			r->diag, NULL,
-			"%s: the lead-out of %s from (%s, %s) mm towards the %s "
+			r->diag, gp_route_net_where(r, net),
+			"the lead-out of %s from (%s, %s) mm towards the %s "
 			"is blocked by %s on the %s plate, and so is every other "
-			"way out",
-			r->design->spec->file, net_name(r, net), mm(x, c->at.x),
+			"way out; move %s's element off %s's, or add a ledge on "
+			"another side",
+			net_name(r, net), mm(x, c->at.x),
 			mm(y, c->at.y), gp_side_name(c->side),
 			net_name(r, n->first_hit),
-			n->first_hit_plate ? "other" : "same");
+			n->first_hit_plate ? "other" : "same",
+			net_name(r, net), net_name(r, n->first_hit));
 	}
 	n->pick = 0;
 	return true;
+fail:
+	free(key);
+	return false;
 }
 
 /* What a chosen end occupies: its corridor on the electrode plate, and on
@@ -917,13 +992,13 @@ static bool clash(const struct route *r, const struct footprint *a,
 		double g = (double)shift_reach(r);
 		return box_gap2(a->box, b->box) < g * g;
 	}
-	if (!a->corridor || !b->corridor || !boxes_overlap(a->box, b->box))
+	if (!a->corridor || !b->corridor || !gp_box_overlap(a->box, b->box))
 		return false;
 	struct gp_box both = gp_box_make(max64(a->box.x0, b->box.x0),
 					 max64(a->box.y0, b->box.y0),
 					 min64(a->box.x1, b->box.x1),
 					 min64(a->box.y1, b->box.y1));
-	return boxes_overlap(both, r->s_in);
+	return gp_box_overlap(both, r->s_in);
 }
 
 /* Finds the first clash among the chosen ends; false on error. */
@@ -959,7 +1034,7 @@ static bool first_clash(struct route *r, struct gp_geos *geos, int *na,
 	free(pairs);
 	free(f);
 	free(boxes);
-	return ok || gp_diag_error(r->diag, NULL, "out of memory");
+	return ok || gp_diag_oom(r->diag, NULL);
 }
 
 /* Of two clashing nets, the one to take its next free end: the one now
@@ -1016,12 +1091,13 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
 		if (move < 0 || rounds-- == 0) {
 			char x[32], y[32];
 			return gp_diag_error(
-				r->diag, NULL,
-				"%s: the lead-outs of %s and %s come too close "
+				r->diag, gp_route_net_where(r, b),
+				"the lead-outs of %s and %s come too close "
 				"near (%s, %s) mm and neither has another way "
-				"out; move one of the elements",
-				r->design->spec->file, net_name(r, a),
-				net_name(r, b), mm(x, where.x0), mm(y, where.y0));
+				"out; move one of the elements, or narrow "
+				"'leads.width' and 'leads.space'",
+				net_name(r, a), net_name(r, b), mm(x, where.x0),
+				mm(y, where.y0));
 		}
 		r->nets[move].pick++;
 		set_choice(r, move);
@@ -1244,14 +1320,14 @@ static bool notch_patches(struct route *r, struct gp_geos *geos)
 			struct gp_box b = gp_polygon_bounds(&s->poly);
 			int64_t c = r->design->rules.registration * 2;
 			struct gp_box q = n->corridor;
-			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
-			if (boxes_overlap(b, q))
+			q = gp_box_grow(q, c);
+			if (gp_box_overlap(b, q))
 				ok = notch_one(r, geos, k, n->corridor, (int)i);
 			if (!ok || n->path_count < 2)
 				continue;
 			q = gp_polygon_bounds(&n->path_poly);
-			q = gp_box_make(q.x0 - c, q.y0 - c, q.x1 + c, q.y1 + c);
-			if (boxes_overlap(b, q))
+			q = gp_box_grow(q, c);
+			if (gp_box_overlap(b, q))
 				ok = gp_route_notch(r, geos, k, &n->path_poly,
 						    (int)i);
 		}
@@ -1273,7 +1349,7 @@ static bool check_paths(struct route *r, struct gp_geos *geos)
 		enum gp_layer mine = gp_plate_ito_layer(art->nets[i].plate);
 		struct gp_box bb = gp_polygon_bounds(&n->path_poly);
 		int64_t g = r->min_space;
-		bb = gp_box_make(bb.x0 - g, bb.y0 - g, bb.x1 + g, bb.y1 + g);
+		bb = gp_box_grow(bb, g);
 		/* what the lead adds outside its own net's ITO */
 		struct gp_polyset own;
 		gp_polyset_init(&own);
@@ -1304,7 +1380,7 @@ static bool check_paths(struct route *r, struct gp_geos *geos)
 			const struct gp_shape *s = &art->shapes[k];
 			if ((s->layer != GP_LAYER_FRONT_ITO &&
 			     s->layer != GP_LAYER_BACK_ITO) || s->net == (int)i ||
-			    s->net < 0 || !boxes_overlap(gp_polygon_bounds(&s->poly), bb) ||
+			    s->net < 0 || !gp_box_overlap(gp_polygon_bounds(&s->poly), bb) ||
 			    (s->layer != mine && s->role == GP_ROLE_PATCH))
 				continue;
 			struct gp_geos_shape *o = gp_geos_shape_from_polygon(geos, &s->poly);
@@ -1487,11 +1563,21 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 			      struct gp_geos *geos)
 {
 	struct gp_diag *diag = r->diag;
-	struct cand (*saved)[16] = malloc((r->net_count + 1) * sizeof(*saved));
-	if (!saved)
-		return gp_diag_error(diag, NULL, "out of memory");
-	for (size_t i = 0; i < r->net_count; i++)
-		memcpy(saved[i], r->nets[i].cands, sizeof(saved[i]));
+	struct cand **saved = calloc(r->net_count + 1, sizeof(*saved));
+	bool copied = saved != NULL;
+	for (size_t i = 0; copied && i < r->net_count; i++) {
+		size_t n = (size_t)r->nets[i].cand_count;
+		saved[i] = malloc((n ? n : 1) * sizeof(**saved));
+		copied = saved[i] != NULL;
+		if (copied && n)
+			memcpy(saved[i], r->nets[i].cands, n * sizeof(**saved));
+	}
+	if (!copied) {
+		for (size_t i = 0; saved && i < r->net_count; i++)
+			free(saved[i]);
+		free(saved);
+		return gp_diag_oom(diag, NULL);
+	}
 	bool ok = false;
 	for (size_t attempt = 0;; attempt++) {
 		struct gp_diag scratch;
@@ -1500,7 +1586,9 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		int culprit = -1;
 		for (size_t i = 0; i < r->net_count; i++) {
 			struct netstate *n = &r->nets[i];
-			memcpy(n->cands, saved[i], sizeof(saved[i]));
+			if (n->cand_count)
+				memcpy(n->cands, saved[i],
+				       (size_t)n->cand_count * sizeof(*n->cands));
 			free(n->path);
 			n->path = NULL;
 			n->path_count = 0;
@@ -1530,6 +1618,8 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		else
 			c->banned[c->chosen] = true;
 	}
+	for (size_t i = 0; i < r->net_count; i++)
+		free(saved[i]);
 	free(saved);
 	return ok;
 }
@@ -1560,7 +1650,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 	r.nets = calloc(r.net_count ? r.net_count : 1, sizeof(*r.nets));
 	bool ok = geos && r.nets;
 	if (!ok) {
-		gp_diag_error(diag, NULL, "out of memory");
+		gp_diag_oom(diag, NULL);
 		goto out;
 	}
 	if (!(ok = check_seal_fits(&r)))
@@ -1611,7 +1701,7 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 			gp_polygon_finish(&copy);
 		}
 		if (!ok)
-			gp_diag_error(diag, NULL, "out of memory");
+			gp_diag_oom(diag, NULL);
 	}
 	ok = ok && check_paths(&r, geos);
 	for (size_t i = 0; ok && i < g->ledge_count; i++)
@@ -1650,6 +1740,7 @@ out:
 	for (size_t i = 0; r.nets && i < r.net_count; i++) {
 		free(r.nets[i].path);
 		gp_polygon_finish(&r.nets[i].path_poly);
+		free_cands(&r.nets[i]);
 	}
 	free(r.nets);
 	return ok;

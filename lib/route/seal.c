@@ -21,17 +21,12 @@ static const char *mm(char *buf, int64_t nm)
 	return buf;
 }
 
-static struct gp_box grow(struct gp_box b, int64_t d)
-{
-	return gp_box_make(b.x0 - d, b.y0 - d, b.x1 + d, b.y1 + d);
-}
-
 void gp_seal_boxes(const struct gp_design *design, struct gp_box *inner,
 		   struct gp_box *outer)
 {
 	const struct gp_seal_spec *s = &design->routing->seal;
-	*inner = grow(design->viewing, s->distance);
-	*outer = grow(*inner, s->width);
+	*inner = gp_box_grow(design->viewing, s->distance);
+	*outer = gp_box_grow(*inner, s->width);
 }
 
 static bool add_outline(struct gp_build *build, enum gp_layer layer,
@@ -52,7 +47,7 @@ bool gp_outlines_layout(struct gp_build *build, struct gp_diag *diag)
 			 build->design->front.box) ||
 	    !add_outline(build, GP_LAYER_BACK_OUTLINE,
 			 build->design->back.box))
-		return gp_diag_error(diag, NULL, "out of memory");
+		return gp_diag_oom(diag, NULL);
 	return true;
 }
 
@@ -99,11 +94,6 @@ static bool port_box(const struct gp_design *d, struct gp_box in,
 	return true;
 }
 
-static bool boxes_meet(struct gp_box a, struct gp_box b)
-{
-	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
-}
-
 static bool add_seal(struct gp_build *build, struct gp_box in,
 		     struct gp_box out, struct gp_geos *geos,
 		     struct gp_diag *diag)
@@ -115,7 +105,7 @@ static bool add_seal(struct gp_build *build, struct gp_box in,
 	for (size_t i = 0; i < build->art.shape_count; i++) {
 		const struct gp_shape *s = &build->art.shapes[i];
 		if (s->layer == GP_LAYER_TRANSFER &&
-		    boxes_meet(gp_polygon_bounds(&s->poly), port))
+		    gp_box_overlap(gp_polygon_bounds(&s->poly), port))
 			return gp_diag_error(diag, &d->routing->seal.port_where,
 					     "the fill port lies over the "
 					     "transfer dots of %s; move the "
@@ -195,19 +185,19 @@ static bool check_mark(const struct gp_build *build, struct gp_box sq,
 		(f.x0 > b.x0 ? f.x0 : b.x0) + e, (f.y0 > b.y0 ? f.y0 : b.y0) + e,
 		(f.x1 < b.x1 ? f.x1 : b.x1) - e, (f.y1 < b.y1 ? f.y1 : b.y1) - e);
 	if (sq.x0 < both.x0 || sq.y0 < both.y0 || sq.x1 > both.x1 ||
-	    sq.y1 > both.y1 || boxes_meet(grow(sq, d->rules.min_space), out))
+	    sq.y1 > both.y1 || gp_box_overlap(gp_box_grow(sq, d->rules.min_space), out))
 		return gp_diag_error(diag, &m->where,
 				     "the alignment mark at (%s, %s) mm must "
 				     "lie outside the seal where both plates "
 				     "are, clear of their edges",
 				     mm(x, c.x), mm(y, c.y));
-	struct gp_box near = grow(sq, d->rules.min_space);
+	struct gp_box near = gp_box_grow(sq, d->rules.min_space);
 	for (size_t i = 0; i < build->art.shape_count; i++) {
 		const struct gp_shape *s = &build->art.shapes[i];
 		if (s->role == GP_ROLE_MARK || s->role == GP_ROLE_OUTLINE ||
 		    s->layer == GP_LAYER_SEAL || s->layer == GP_LAYER_TRANSFER)
 			continue;
-		if (boxes_meet(gp_polygon_bounds(&s->poly), near))
+		if (gp_box_overlap(gp_polygon_bounds(&s->poly), near))
 			return gp_diag_error(
 				diag, &m->where,
 				"the alignment mark at (%s, %s) mm comes "
@@ -272,7 +262,7 @@ static bool add_marks(struct gp_build *build, struct gp_box out,
 			return false;
 	for (size_t i = 0; i < count; i++)
 		if (!add_mark(build, at[i], m))
-			return gp_diag_error(diag, NULL, "out of memory");
+			return gp_diag_oom(diag, NULL);
 	return true;
 }
 
@@ -315,8 +305,8 @@ static bool add_text(struct gp_build *build, struct gp_box out,
 	enum gp_layer layer = gp_plate_ito_layer(t->plate);
 	struct gp_box plate = t->plate == GP_PLATE_FRONT ? d->front.box
 							 : d->back.box;
-	struct gp_box near = grow(bb, d->rules.min_space);
-	if (boxes_meet(near, out) || bb.x0 < plate.x0 + d->rules.edge_clearance ||
+	struct gp_box near = gp_box_grow(bb, d->rules.min_space);
+	if (gp_box_overlap(near, out) || bb.x0 < plate.x0 + d->rules.edge_clearance ||
 	    bb.y0 < plate.y0 + d->rules.edge_clearance ||
 	    bb.x1 > plate.x1 - d->rules.edge_clearance ||
 	    bb.y1 > plate.y1 - d->rules.edge_clearance) {
@@ -330,7 +320,7 @@ static bool add_text(struct gp_build *build, struct gp_box out,
 	for (size_t i = 0; ok && i < build->art.shape_count; i++) {
 		const struct gp_shape *s = &build->art.shapes[i];
 		if (s->layer == layer && s->role != GP_ROLE_OUTLINE &&
-		    boxes_meet(gp_polygon_bounds(&s->poly), near))
+		    gp_box_overlap(gp_polygon_bounds(&s->poly), near))
 			ok = gp_diag_error(diag, &t->where,
 					   "the part text at (%s, %s) mm comes "
 					   "within the minimum space of %s",

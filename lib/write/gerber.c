@@ -4,6 +4,7 @@
  * may be off by a subsection). */
 #include "gerber.h"
 
+#include "array.h"
 #include "font.h"
 #include "geos.h"
 #include "units.h"
@@ -673,15 +674,8 @@ void gp_gerber_contours_finish(struct gp_gerber_contours *list)
 static bool contours_push(struct gp_gerber_contours *list,
 			  struct gp_ring *ring)
 {
-	if (list->count == list->capacity) {
-		size_t capacity = list->capacity ? list->capacity * 2 : 4;
-		struct gp_ring *grown =
-			realloc(list->rings, capacity * sizeof(*grown));
-		if (!grown)
-			return false;
-		list->rings = grown;
-		list->capacity = capacity;
-	}
+	if (!gp_array_reserve(list->rings, list->capacity, list->count + 1))
+		return false;
 	list->rings[list->count++] = *ring;
 	return true;
 }
@@ -866,15 +860,8 @@ static long aperture_code(struct writer *w, enum aperture_kind kind,
 			return FIRST_D_CODE + (long)i;
 	if (!add)
 		return 0;
-	if (w->count == w->capacity) {
-		size_t capacity = w->capacity ? w->capacity * 2 : 8;
-		struct aperture *grown =
-			realloc(w->apertures, capacity * sizeof(*grown));
-		if (!grown)
-			return 0;
-		w->apertures = grown;
-		w->capacity = capacity;
-	}
+	if (!gp_array_reserve(w->apertures, w->capacity, w->count + 1))
+		return 0;
 	w->apertures[w->count] = (struct aperture){ kind, a, b, function };
 	return FIRST_D_CODE + (long)w->count++;
 }

@@ -3,6 +3,8 @@
 #include "pinmap.h"
 #include "route.h"
 
+#include "escape.h"
+#include "pintable.h"
 #include "stage.h"
 #include "units.h"
 
@@ -13,124 +15,41 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* Pins in number order. */
-static int compare_pins(const void *a, const void *b)
-{
-	const struct gp_pin *x = *(const struct gp_pin *const *)a;
-	const struct gp_pin *y = *(const struct gp_pin *const *)b;
-	return (x->number > y->number) - (x->number < y->number);
-}
-
-static const struct gp_pin **sorted_pins(const struct gp_build *build)
-{
-	const struct gp_pin **list =
-		malloc((build->pin_count ? build->pin_count : 1) *
-		       sizeof(*list));
-	if (!list)
-		return NULL;
-	for (size_t i = 0; i < build->pin_count; i++)
-		list[i] = &build->pins[i];
-	qsort(list, build->pin_count, sizeof(*list), compare_pins);
-	return list;
-}
-
-/* What a net drives, in words: "block main line 1 row 3". */
-static void describe_net(const struct gp_build *build, int net, char *out,
-			 size_t size)
-{
-	const struct gp_design *d = build->design;
-	snprintf(out, size, "%s", "");
-	for (size_t i = 0; i < d->block_count; i++) {
-		const struct gp_block *b = &d->blocks[i];
-		const struct gp_block_nets *n = &build->blocks[i];
-		if (b->commons_from < 0 && net >= n->first_common &&
-		    net < n->first_common + n->common_count) {
-			long row = net - n->first_common;
-			size_t used = (size_t)snprintf(
-				out, size, "block %s line %ld row %ld", b->name,
-				row / b->dots_down + 1, row % b->dots_down + 1);
-			for (size_t k = 0; k < d->block_count && used < size;
-			     k++)
-				if (d->blocks[k].commons_from == (int)i)
-					used += (size_t)snprintf(
-						out + used, size - used,
-						" and block %s",
-						d->blocks[k].name);
-			return;
-		}
-		if (net >= n->first_segment &&
-		    net < n->first_segment + n->segment_count) {
-			long s = net - n->first_segment;
-			long col = s % b->dots_across;
-			long cell = s / b->dots_across % b->cells;
-			long group = s / b->dots_across / b->cells;
-			if (b->share_segments)
-				snprintf(out, size,
-					 "block %s cell %ld column %ld",
-					 b->name, cell + 1, col + 1);
-			else
-				snprintf(out, size,
-					 "block %s line %ld cell %ld column %ld",
-					 b->name, group + 1, cell + 1, col + 1);
-			return;
-		}
-	}
-	/* digits and icons: from their pixels */
-	const struct gp_artwork *art = &build->art;
-	size_t count = 0;
-	const struct gp_pixel *first = NULL;
-	for (size_t i = 0; i < art->pixel_count; i++) {
-		const struct gp_pixel *p = &art->pixels[i];
-		if (p->common == net || p->segment == net) {
-			if (!first)
-				first = p;
-			count++;
-		}
-	}
-	if (!first)
-		return;
-	if (first->owner_kind == GP_OWNER_DIGITS) {
-		if (count == 1)
-			gp_digits_pixel_label(build, first, out, size);
-		else
-			snprintf(out, size, "%zu pixels of digits %s", count,
-				 d->digits[first->owner].name);
-		return;
-	}
-	static const char *const kinds[] = { "block", "digits", "icon" };
-	const char *kind = first->owner_kind >= 0 && first->owner_kind < 3
-				   ? kinds[first->owner_kind]
-				   : "element";
-	if (count == 1)
-		snprintf(out, size, "%s %d item %d %d", kind, first->owner + 1,
-			 first->a + 1, first->b + 1);
-	else
-		snprintf(out, size, "%zu pixels of %s %d", count, kind,
-			 first->owner + 1);
-}
-
 bool gp_pins_csv(const struct gp_build *build, struct gp_buffer *out)
 {
-	const struct gp_pin **pins = sorted_pins(build);
+	const struct gp_pin **pins = gp_pins_in_order(build);
 	if (!pins)
 		return false;
-	gp_buffer_printf(out, "pin,ledge,x,y,net,role,drives\n");
+	struct gp_buffer drives;
+	gp_buffer_init(&drives);
+	gp_buffer_puts(out, "pin,ledge,x,y,net,role,drives\r\n");
 	for (size_t i = 0; i < build->pin_count; i++) {
 		const struct gp_pin *p = pins[i];
-		char x[32], y[32], drives[256];
+		char x[32], y[32];
 		gp_format_mm(x, sizeof(x), p->centre.x);
 		gp_format_mm(y, sizeof(y), p->centre.y);
 		const struct gp_net *net =
 			p->net >= 0 ? &build->art.nets[p->net] : NULL;
-		describe_net(build, p->net, drives, sizeof(drives));
-		gp_buffer_printf(out, "%d,%s,%s,%s,%s,%s,%s\n", p->number,
-				 build->ledges[p->ledge].name, x, y,
-				 net ? net->name : "NC",
-				 !net ? "none"
-				 : net->kind == GP_NET_COMMON ? "common"
-							      : "segment",
-				 drives);
+		drives.size = 0;
+		gp_net_drives(build, p->net, &drives);
+		gp_buffer_append(&drives, "", 1);
+		const char *fields[] = {
+			build->ledges[p->ledge].name, x, y,
+			net ? net->name : "NC",
+			!net ? "none"
+			: net->kind == GP_NET_COMMON ? "common"
+						     : "segment",
+			drives.data ? drives.data : "",
+		};
+		gp_buffer_printf(out, "%d", p->number);
+		for (size_t f = 0; f < sizeof(fields) / sizeof(fields[0]); f++) {
+			gp_buffer_puts(out, ",");
+			gp_escape_csv(out, fields[f]);
+		}
+		gp_buffer_puts(out, "\r\n");
 	}
+	out->failed |= drives.failed;
+	gp_buffer_finish(&drives);
 	free(pins);
 	return !out->failed;
 }
@@ -147,6 +66,28 @@ static void identifier(const char *name, char *out, size_t size, bool upper)
 						  : tolower((unsigned char)*c))
 				   : '_';
 	out[n] = '\0';
+}
+
+/* The identifier of block index; a block whose name maps to the same
+ * identifier as an earlier one's ("a-b", "a_b") gets its number
+ * appended, so that no two functions share a name. */
+static void block_identifier(const struct gp_build *build, size_t index,
+			     char *out, size_t size)
+{
+	const struct gp_design *d = build->design;
+	char mine[128], other[128];
+	identifier(d->blocks[index].name, mine, sizeof(mine), false);
+	bool taken = false;
+	for (size_t i = 0; i < d->block_count && !taken; i++) {
+		if (i == index)
+			continue;
+		identifier(d->blocks[i].name, other, sizeof(other), false);
+		taken = strcmp(mine, other) == 0 && i < index;
+	}
+	if (taken)
+		snprintf(out, size, "%s_%zu", mine, index + 1);
+	else
+		snprintf(out, size, "%s", mine);
 }
 
 static int net_number(const struct gp_build *build, int net)
@@ -184,16 +125,18 @@ static void block_function(const struct gp_build *build, struct gp_buffer *o,
 {
 	const struct gp_block *b = &build->design->blocks[index];
 	const struct gp_block_nets *n = &build->blocks[index];
-	char id[128];
-	identifier(b->name, id, sizeof(id), false);
+	char id[160];
+	block_identifier(build, index, id, sizeof(id));
 	long groups = b->share_segments ? 1 : b->lines;
+	gp_buffer_puts(o, "/* Block '");
+	gp_escape_c_comment(o, b->name);
 	gp_buffer_printf(o,
-			 "/* Block '%s': %ld line(s) of %ld cell(s), %ld x %ld "
+			 "': %ld line(s) of %ld cell(s), %ld x %ld "
 			 "dots each.\n * line, cell, row and column count from 0 "
 			 "at the top left. */\n"
 			 "static inline bool %s_%s_dot(int line, int cell, int "
 			 "row, int column,\n\t\t\t\tstruct %s_drive *out)\n{\n",
-			 b->name, b->lines, b->cells, b->dots_across,
+			 b->lines, b->cells, b->dots_across,
 			 b->dots_down, p, id, p);
 	gp_buffer_printf(o, "\tstatic const unsigned short common[%ld][%ld] = {\n",
 			 b->lines, b->dots_down);
@@ -255,7 +198,9 @@ static void element_table(const struct gp_build *build, struct gp_buffer *o,
 			 "struct %s_element {\n\tint kind;   /* 1 digit segment, 2 icon */\n"
 			 "\tint owner;  /* digit row or icon, from 0 */\n"
 			 "\tint a, b;   /* digit and segment (digits), 0 (icons) */\n"
-			 "\tint common, segment;\n};\n\n"
+			 "\tint common, segment;\n"
+			 "\tconst char *name;  /* as in pin-matrix.csv: \"2DP\", "
+			 "\"COL\", an icon's name */\n};\n\n"
 			 "static inline bool %s_element(int i, struct %s_drive *out,\n"
 			 "\t\t\t\tstruct %s_element *what)\n{\n"
 			 "\tstatic const struct %s_element table[%zu] = {\n",
@@ -264,15 +209,14 @@ static void element_table(const struct gp_build *build, struct gp_buffer *o,
 		const struct gp_pixel *x = &art->pixels[i];
 		if (x->owner_kind == GP_OWNER_BLOCK)
 			continue;
-		char what[128] = "";
-		if (x->owner_kind == GP_OWNER_DIGITS)
-			gp_digits_pixel_label(build, x, what, sizeof(what));
-		gp_buffer_printf(o, "\t\t{ %d, %d, %d, %d, %d, %d },%s%s%s\n",
+		char what[192];
+		gp_pixel_label(build, x, what, sizeof(what));
+		gp_buffer_printf(o, "\t\t{ %d, %d, %d, %d, %d, %d, \"",
 				 x->owner_kind, x->owner, x->a, x->b,
 				 net_number(build, x->common),
-				 net_number(build, x->segment),
-				 what[0] ? " /* " : "", what,
-				 what[0] ? " */" : "");
+				 net_number(build, x->segment));
+		gp_escape_c_string(o, what);
+		gp_buffer_puts(o, "\" },\n");
 	}
 	gp_buffer_printf(o,
 			 "\t};\n\tif (i < 0 || i >= %zu)\n\t\treturn false;\n"
@@ -291,8 +235,12 @@ bool gp_firmware_header(const struct gp_build *build, struct gp_buffer *o)
 	char p[96], up[96];
 	identifier(d->part, p, sizeof(p), false);
 	identifier(d->part, up, sizeof(up), true);
+	gp_buffer_puts(o, "/* Firmware map of glass ");
+	gp_escape_c_comment(o, d->part);
+	gp_buffer_puts(o, " revision ");
+	gp_escape_c_comment(o, d->revision);
 	gp_buffer_printf(o,
-			 "/* Firmware map of glass %s revision %s, generated by "
+			 ", generated by "
 			 "glassplot %s.\n"
 			 " * Do not edit: regenerate it from the description.\n"
 			 " *\n"
@@ -307,7 +255,7 @@ bool gp_firmware_header(const struct gp_build *build, struct gp_buffer *o)
 			 "#define %s_PINS %zu\n\n"
 			 "struct %s_drive {\n\tint common, segment;\n"
 			 "\tint common_pin, segment_pin;\n};\n\n",
-			 d->part, d->revision, GP_VERSION, up, up, up,
+			 GP_VERSION, up, up, up,
 			 build->art.common_count, up, build->art.segment_count,
 			 up, build->pin_count, p);
 	pin_function(build, o, p, GP_NET_COMMON, "common");
@@ -337,6 +285,11 @@ bool gp_route_write(const struct gp_build *build, struct gp_output_set *set,
 		if (!csv || !gp_pins_csv(build, csv))
 			return gp_diag_error(diag, NULL,
 					     "pins.csv: cannot write it");
+		struct gp_buffer *matrix =
+			gp_output_add(set, "pin-matrix.csv", diag);
+		if (!matrix || !gp_pin_matrix_csv(build, matrix))
+			return gp_diag_error(diag, NULL,
+					     "pin-matrix.csv: cannot write it");
 	}
 	if (!gp_build_wants(build, GP_OUTPUT_FIRMWARE))
 		return true;

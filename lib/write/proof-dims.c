@@ -637,7 +637,7 @@ static void add_note(struct detail *d, const char *format, ...)
 
 static struct gp_box around(struct gp_box b, int64_t m)
 {
-	return gp_box_make(b.x0 - m, b.y0 - m, b.x1 + m, b.y1 + m);
+	return gp_box_grow(b, m);
 }
 
 static void detail_cell(const struct gp_build *build, struct detail *d)

@@ -8,6 +8,7 @@
  * cells and sheets show it. */
 #include "proof-internal.h"
 
+#include "preview.h"
 #include "units.h"
 
 #include <stdio.h>
@@ -260,23 +261,34 @@ void proof_pin1(struct proof *p, const struct proof_view *v)
 
 /* --- dot-matrix cells ------------------------------------------------------ */
 
+/* One line of a block's cells (paper mm at scale s, origin at the first
+ * cell's top-left dot corner): all dots (parity < 0) or the dots whose
+ * (row + column) parity, counted on from the first cell, is parity. */
 static cairo_surface_t *cell_surface(const struct gp_block *b, double s,
-				     int parity, struct rgb lit)
+				     int parity, int count, struct rgb lit)
 {
-	int64_t cw = (b->dots_across - 1) * b->dot_pitch_x + b->dot_width;
 	int64_t ch = (b->dots_down - 1) * b->dot_pitch_y + b->dot_height;
-	cairo_rectangle_t extents = { 0, 0, s * gp_mm(cw), s * gp_mm(ch) };
+	int64_t cw = (b->dots_across - 1) * b->dot_pitch_x + b->dot_width;
+	cairo_rectangle_t extents = {
+		0, 0, s * gp_mm((count - 1) * b->cell_pitch + cw),
+		s * gp_mm(ch)
+	};
 	cairo_surface_t *surface = cairo_recording_surface_create(
 		CAIRO_CONTENT_COLOR_ALPHA, &extents);
 	cairo_t *cr = cairo_create(surface);
-	for (long row = 0; row < b->dots_down; row++)
-		for (long col = 0; col < b->dots_across; col++)
-			if (parity < 0 || (row + col) % 2 == parity)
+	for (int cell = 0; cell < count; cell++)
+		for (long row = 0; row < b->dots_down; row++)
+			for (long col = 0; col < b->dots_across; col++) {
+				long k = row + col + cell * b->dots_across;
+				if (parity >= 0 && k % 2 != parity)
+					continue;
 				cairo_rectangle(cr,
-						s * gp_mm(col * b->dot_pitch_x),
+						s * gp_mm(cell * b->cell_pitch +
+							  col * b->dot_pitch_x),
 						s * gp_mm(row * b->dot_pitch_y),
 						s * gp_mm(b->dot_width),
 						s * gp_mm(b->dot_height));
+			}
 	cairo_set_source_rgb(cr, lit.r, lit.g, lit.b);
 	cairo_fill(cr);
 	cairo_destroy(cr);
@@ -294,9 +306,10 @@ bool proof_cells_create(struct proof *p)
 		struct proof_cells *c = &p->cells[i];
 		c->scale = p->view.s;
 		struct rgb lit = lit_colours[negative(p)];
-		c->all = cell_surface(b, c->scale, -1, lit);
-		c->even = cell_surface(b, c->scale, 0, lit);
-		c->odd = cell_surface(b, c->scale, 1, lit);
+		int count = (int)b->cells;
+		c->all = cell_surface(b, c->scale, -1, count, lit);
+		c->even = cell_surface(b, c->scale, 0, count, lit);
+		c->odd = cell_surface(b, c->scale, 1, count, lit);
 		if (cairo_surface_status(c->all) || cairo_surface_status(c->even) ||
 		    cairo_surface_status(c->odd))
 			return false;
@@ -317,24 +330,22 @@ void proof_cells_destroy(struct proof *p)
 	p->cells = NULL;
 }
 
+/* One paint per line of cells (each line's dots a form the PDF holds
+ * once), not one per cell. */
 static void block_pixels(struct proof *p, const struct proof_view *v,
 			 size_t index, bool checkerboard)
 {
 	const struct gp_block *b = &p->design->blocks[index];
 	const struct proof_cells *c = &p->cells[index];
-	for (long line = 0; line < b->lines; line++)
-		for (long cell = 0; cell < b->cells; cell++) {
-			cairo_surface_t *s = c->all;
-			if (checkerboard)
-				s = (line * b->dots_down +
-				     cell * b->dots_across) % 2
-					    ? c->odd
-					    : c->even;
-			struct gp_point q = gp_block_dot(b, line, cell, 0, 0);
-			cairo_set_source_surface(p->cr, s, proof_x(v, q.x),
-						 proof_y(v, q.y));
-			cairo_paint(p->cr);
-		}
+	for (long line = 0; line < b->lines; line++) {
+		cairo_surface_t *s = c->all;
+		if (checkerboard)
+			s = (line * b->dots_down) % 2 ? c->odd : c->even;
+		struct gp_point q = gp_block_dot(b, line, 0, 0, 0);
+		cairo_set_source_surface(p->cr, s, proof_x(v, q.x),
+					 proof_y(v, q.y));
+		cairo_paint(p->cr);
+	}
 }
 
 void proof_pixels(struct proof *p, const struct proof_view *v,
@@ -482,7 +493,68 @@ void proof_sheet_lit(struct proof *p, bool checkerboard)
 	proof_pixels(p, v, checkerboard);
 	proof_viewing_area(p, v);
 	proof_plate_outlines(p, v, true, true);
-	if (checkerboard)
+	if (!checkerboard)
 		proof_cautions(p);
+	proof_end_sheet(p);
+}
+
+/* The glass lit with the content of --show: every pixel whose (common,
+ * segment) pair the content drives. */
+void proof_sheet_show(struct proof *p)
+{
+	const struct gp_show *show = p->build->show;
+	/* as large as the sheet holds (ISO 5455 enlargements), for a
+	 * reviewer to read it like the glass in the hand */
+	static const int enlargements[] = { 10, 5, 2, 1 };
+	static const char *const scales[] = { "10:1", "5:1", "2:1", "1:1" };
+	double x0, y0, x1, y1;
+	proof_area(p, &x0, &y0, &x1, &y1);
+	y0 = PROOF_TOP + 2 * proof_line_pitch(PROOF_LETTER);
+	struct gp_box g = gp_box_union(p->design->front.box,
+				       p->design->back.box);
+	double gw = gp_mm(gp_box_width(g)), gh = gp_mm(gp_box_height(g));
+	size_t k = 0;
+	while (k + 1 < 4 && (enlargements[k] * gw > x1 - x0 ||
+			     enlargements[k] * gh > y1 - y0))
+		k++;
+	struct proof_view view = { .s = enlargements[k] };
+	if (view.s * gw > x1 - x0 || view.s * gh > y1 - y0)
+		view = p->view;   /* reduced, as the overview */
+	else {
+		view.ox = (x0 + x1 - view.s * gw) / 2 - view.s * gp_mm(g.x0);
+		view.oy = (y0 + y1 - view.s * gh) / 2 + view.s * gp_mm(g.y1);
+		p->sheet_scale = scales[k];
+	}
+	const struct proof_view *v = &view;
+	char title[160];
+	snprintf(title, sizeof(title), "Lit preview: %s", show->spec);
+	proof_begin_sheet(p, title);
+	note(p, "The glass as the viewer sees it with this content, lit "
+		"through the (common, segment) pairs of the firmware map "
+		"(glass-map.h).");
+	proof_set_colour(p, glass_colour, 1.0);
+	proof_add_box(p, v, p->design->front.box);
+	proof_add_box(p, v, p->design->back.box);
+	cairo_fill(p->cr);
+	proof_set_colour(p, lcd_colours[negative(p)], 1.0);
+	proof_add_box(p, v, p->design->viewing);
+	cairo_fill(p->cr);
+	cairo_new_path(p->cr);
+	for (size_t i = 0; i < show->pixel_count; i++) {
+		if (!show->lit[i])
+			continue;
+		const struct gp_pixel *px = &p->art->pixels[i];
+		if (px->shape.outer.count)
+			proof_add_polygon(p, v, &px->shape);
+		else
+			proof_add_box(p, v, px->box);
+		for (size_t n = 0; n < px->more.count; n++)
+			proof_add_polygon(p, v, &px->more.items[n]);
+	}
+	proof_set_colour(p, lit_colours[negative(p)], 1.0);
+	cairo_set_fill_rule(p->cr, CAIRO_FILL_RULE_WINDING);
+	cairo_fill(p->cr);
+	proof_viewing_area(p, v);
+	proof_plate_outlines(p, v, true, true);
 	proof_end_sheet(p);
 }

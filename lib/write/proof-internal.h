@@ -5,6 +5,7 @@
 #ifndef GP_PROOF_INTERNAL_H
 #define GP_PROOF_INTERNAL_H
 
+#include "pintable.h"
 #include "proof.h"
 
 #include <cairo.h>
@@ -48,9 +49,9 @@ struct proof_legend_item {
 extern const struct proof_legend_item proof_overview_legend[];
 extern const int proof_overview_legend_count;
 
-/* One block's dots as cairo recording surfaces, each covering one cell
- * (origin at the cell's top-left dot corner, paper mm at the view scale):
- * all dots, and the two halves of a dot checkerboard. */
+/* One block's dots as cairo recording surfaces, each covering one line
+ * of cells (origin at the first cell's top-left dot corner, paper mm at
+ * the view scale): all dots, and the two halves of a dot checkerboard. */
 struct proof_cells {
 	cairo_surface_t *all, *even, *odd;
 	double scale;
@@ -76,12 +77,12 @@ struct proof {
 	cairo_surface_t *layers[GP_LAYER_COUNT];
 	struct proof_net_use *use;  /* one per net */
 	int *pin_order;             /* net indices in pin table order */
-	struct gp_buffer pins_csv;  /* pins.csv, when routed */
-	const char **pin_lines;     /* its rows, header excluded */
+	/* pin-matrix.csv's rows, when routed */
+	struct gp_pin_matrix matrix;
+	bool has_matrix;
 	/* The title block's scale for the current sheet ("as shown", "10:1")
 	 * when not the overview's; reset by proof_begin_sheet. */
 	const char *sheet_scale;
-	size_t pin_line_count;
 };
 
 /* --- paper, text and primitives (proof.c) ------------------------------ */
@@ -194,6 +195,7 @@ void proof_pin1(struct proof *p, const struct proof_view *v);
 void proof_sheet_overview(struct proof *p);
 void proof_sheet_layers(struct proof *p);
 void proof_sheet_lit(struct proof *p, bool checkerboard);
+void proof_sheet_show(struct proof *p);
 
 /* --- placing dimensions (proof-place.c) --------------------------------- */
 /* Paper rectangle, mm, y down. */
@@ -287,7 +289,8 @@ void proof_cautions(struct proof *p);
 bool proof_net_use_create(struct proof *p);
 bool proof_pins_create(struct proof *p);
 void proof_pins_destroy(struct proof *p);
-/* "block main line 1 row 3", describing what a net drives. */
+/* What a net drives (gp_net_drives) and its pixel count:
+ * "block main line 1 row 3 (80 pixels)". */
 void proof_net_drives(const struct proof *p, int net, char *buffer,
 		      size_t size);
 

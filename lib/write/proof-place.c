@@ -10,6 +10,7 @@
  * out, and drawing translates it unchanged. */
 #include "proof-internal.h"
 
+#include "array.h"
 #include "units.h"
 
 #include <math.h>
@@ -38,14 +39,8 @@ static struct proof_rect grow(struct proof_rect r, double d)
 static bool push_rect(struct proof_rect **items, size_t *count,
 		      size_t *capacity, struct proof_rect r)
 {
-	if (*count == *capacity) {
-		size_t n = *capacity ? 2 * *capacity : 32;
-		struct proof_rect *grown = realloc(*items, n * sizeof(**items));
-		if (!grown)
-			return false;
-		*items = grown;
-		*capacity = n;
-	}
+	if (!gp_array_reserve(*items, *capacity, *count + 1))
+		return false;
 	(*items)[(*count)++] = r;
 	return true;
 }

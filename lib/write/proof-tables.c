@@ -63,39 +63,25 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 		snprintf(buffer, size, "no pixels");
 		return;
 	}
-	const struct gp_pixel *px = &p->art->pixels[u->first_pixel];
-	bool common = p->art->nets[net].kind == GP_NET_COMMON;
-	char what[96];
-	switch (px->owner_kind) {
-	case GP_OWNER_BLOCK: {
-		const struct gp_block *b = &p->design->blocks[px->owner];
-		if (common)
-			snprintf(what, sizeof(what), "block %s line %d row %d",
-				 b->name, px->a + 1, px->c + 1);
-		else if (b->share_segments || b->lines == 1)
-			snprintf(what, sizeof(what), "block %s cell %d col %d",
-				 b->name, px->b + 1, px->d + 1);
-		else
-			snprintf(what, sizeof(what),
-				 "block %s line %d cell %d col %d", b->name,
-				 px->a + 1, px->b + 1, px->d + 1);
-		break;
-	}
-	case GP_OWNER_DIGITS:
-		snprintf(what, sizeof(what), "digit row %d, digit %d",
-			 px->owner + 1, px->a);
-		break;
-	default:
-		snprintf(what, sizeof(what), "icon %d", px->owner + 1);
-		break;
-	}
-	snprintf(buffer, size, "%s (%ld pixel%s)", what, u->pixels,
+	struct gp_buffer what;
+	gp_buffer_init(&what);
+	gp_net_drives(p->build, net, &what);
+	snprintf(buffer, size, "%.*s (%ld pixel%s)", (int)what.size,
+		 what.data ? what.data : "", u->pixels,
 		 u->pixels == 1 ? "" : "s");
+	gp_buffer_finish(&what);
 }
 
 /* --- table layout -------------------------------------------------------------- */
 
 #define MAX_COLUMNS 8
+/* The pin matrix is lettered at 2.5 mm capitals (ISO 3098's least
+ * height): Liberation Sans at 3.7 mm (caps 0.69 em), whose widest capitals take 0.72 em. */
+#define MATRIX_SIZE 3.7
+#define MATRIX_ROW 5.0
+#define MATRIX_TOP 20.0
+#define CELL_CHAR (0.73 * MATRIX_SIZE)
+#define TABLE_GAP 4.0      /* between columns of a table on one sheet */
 
 struct table {
 	const char *const *header;
@@ -108,19 +94,10 @@ struct table {
 static const char *const net_header[] = { "Pin", "Net", "Plate", "Kind",
 					  "Drives" };
 static const double net_widths[] = { 12, 16, 14, 18, 66 };
-/* With routing: pins.csv's columns. */
-static const char *const pin_header[] = { "Pin", "Ledge", "x", "y", "Net",
-					  "Role", "Drives" };
-static const double pin_widths[] = { 11, 16, 20, 20, 15, 16, 66 };
 
-static struct table pin_table(const struct gp_build *build)
+static struct table net_table(void)
 {
-	struct table t;
-	bool pins = build->pin_count > 0;
-	t.header = pins ? pin_header : net_header;
-	t.widths = pins ? pin_widths : net_widths;
-	t.columns = pins ? 7 : 5;
-	t.width = 0;
+	struct table t = { net_header, net_widths, 5, 0 };
 	for (int i = 0; i < t.columns; i++)
 		t.width += t.widths[i];
 	return t;
@@ -132,7 +109,7 @@ static void table_capacity(const struct gp_proof_plan *plan, double width,
 	double w = plan->paper_w - 2 * PROOF_MARGIN - 8;
 	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
 		   TABLE_TOP - ROW_H;
-	*columns = (int)((w + 4) / (width + 4));
+	*columns = (int)((w + TABLE_GAP) / (width + TABLE_GAP));
 	if (*columns < 1)
 		*columns = 1;
 	*rows = (int)(h / ROW_H);
@@ -140,20 +117,91 @@ static void table_capacity(const struct gp_proof_plan *plan, double width,
 		*rows = 1;
 }
 
-static size_t pin_rows(const struct gp_build *build)
+/* The pin matrix on paper: Pin, Net, then a band of commons; a glass with
+ * more commons than one sheet holds across gets a band per set of
+ * sheets.  Columns of pins side by side where they fit. */
+struct matrix_layout {
+	double pin_w, net_w, com_w;
+	size_t band;              /* commons per band */
+	size_t bands;
+	int rows, columns;        /* pins per table column, columns a sheet */
+	int sheets_per_band;
+};
+
+static double text_width(const char *text)
 {
-	return build->pin_count ? build->pin_count : build->art.net_count;
+	size_t n = 0;
+	for (const char *c = text; *c; c++)
+		n += ((unsigned char)*c & 0xc0) != 0x80;
+	return (double)n * CELL_CHAR + 2.5;
+}
+
+static void matrix_layout(const struct gp_pin_matrix *m,
+			  const struct gp_build *build,
+			  const struct gp_proof_plan *plan,
+			  struct matrix_layout *l)
+{
+	double usable = plan->paper_w - 2 * PROOF_MARGIN - 8;
+	l->pin_w = text_width("0000");
+	l->net_w = text_width("SEG000");
+	l->com_w = text_width("COM00");
+	for (size_t r = 0; r < m->rows; r++) {
+		const struct gp_pin *pin = m->pins[r];
+		if (pin->net >= 0) {
+			double w = text_width(build->art.nets[pin->net].name);
+			if (w > l->net_w)
+				l->net_w = w;
+		}
+		for (size_t k = 0; k < m->commons; k++) {
+			double w = text_width(gp_pin_matrix_cell(m, r, k));
+			if (w > l->com_w)
+				l->com_w = w;
+		}
+	}
+	double room = usable - l->pin_w - l->net_w;
+	if (l->com_w > room && room > 0)
+		l->com_w = room;
+	l->band = room > 0 ? (size_t)(room / l->com_w) : 1;
+	if (l->band < 1)
+		l->band = 1;
+	if (l->band > m->commons && m->commons > 0)
+		l->band = m->commons;
+	l->bands = m->commons ? (m->commons + l->band - 1) / l->band : 1;
+	/* bands of even width: 16 commons in two bands of 8, not 13 and 3 */
+	if (l->bands > 1)
+		l->band = (m->commons + l->bands - 1) / l->bands;
+	double width = l->pin_w + l->net_w + (double)l->band * l->com_w;
+	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
+		   MATRIX_TOP - MATRIX_ROW;
+	l->columns = (int)((usable + TABLE_GAP) / (width + TABLE_GAP));
+	if (l->columns < 1)
+		l->columns = 1;
+	l->rows = (int)(h / MATRIX_ROW);
+	if (l->rows < 1)
+		l->rows = 1;
+	size_t per = (size_t)l->rows * (size_t)l->columns;
+	l->sheets_per_band =
+		m->rows ? (int)((m->rows + per - 1) / per) : 1;
 }
 
 int proof_pin_sheet_count(const struct gp_build *build,
 			  const struct gp_proof_plan *plan)
 {
-	int rows, columns;
-	struct table t = pin_table(build);
-	table_capacity(plan, t.width, &rows, &columns);
-	size_t per = (size_t)rows * (size_t)columns;
-	size_t n = pin_rows(build);
-	return n ? (int)((n + per - 1) / per) : 1;
+	if (!build->pin_count) {
+		int rows, columns;
+		struct table t = net_table();
+		table_capacity(plan, t.width, &rows, &columns);
+		size_t per = (size_t)rows * (size_t)columns;
+		size_t n = build->art.net_count;
+		return n ? (int)((n + per - 1) / per) : 1;
+	}
+	struct gp_pin_matrix m;
+	if (!gp_pin_matrix_init(&m, build))
+		return 1;
+	struct matrix_layout l;
+	matrix_layout(&m, build, plan, &l);
+	gp_pin_matrix_finish(&m);
+	return (int)l.bands * l.sheets_per_band;
 }
 
 static void table_row(struct proof *p, double x, double y,
@@ -191,59 +239,27 @@ static void net_row(struct proof *p, const struct table *t, double x,
 	table_row(p, x, y, t, cells, false);
 }
 
-/* One line of pins.csv: six fields, then the rest (what the net drives,
- * which may hold commas). */
-static void csv_row(struct proof *p, const struct table *t, double x,
-		    double y, const char *line)
-{
-	char copy[512];
-	snprintf(copy, sizeof(copy), "%s", line);
-	const char *cells[7] = { "", "", "", "", "", "", "" };
-	char *c = copy;
-	for (int i = 0; i < 7 && c; i++) {
-		cells[i] = c;
-		char *comma = i < 6 ? strchr(c, ',') : NULL;
-		if (comma)
-			*comma = '\0';
-		c = comma ? comma + 1 : NULL;
-	}
-	table_row(p, x, y, t, cells, false);
-}
-
 bool proof_pins_create(struct proof *p)
 {
-	gp_buffer_init(&p->pins_csv);
 	if (!p->build->pin_count)
 		return true;
-	if (!gp_pins_csv(p->build, &p->pins_csv) || !p->pins_csv.data)
-		return false;
-	/* lines after the header, NUL-terminated in place */
-	p->pin_lines = calloc(p->build->pin_count, sizeof(*p->pin_lines));
-	if (!p->pin_lines)
-		return false;
-	char *line = strchr(p->pins_csv.data, '\n');
-	while (line && *++line && p->pin_line_count < p->build->pin_count) {
-		p->pin_lines[p->pin_line_count++] = line;
-		line = strchr(line, '\n');
-		if (line)
-			*line = '\0';
-	}
-	return true;
+	p->has_matrix = gp_pin_matrix_init(&p->matrix, p->build);
+	return p->has_matrix;
 }
 
 void proof_pins_destroy(struct proof *p)
 {
-	free(p->pin_lines);
-	gp_buffer_finish(&p->pins_csv);
+	if (p->has_matrix)
+		gp_pin_matrix_finish(&p->matrix);
+	p->has_matrix = false;
 }
 
-void proof_sheets_pins(struct proof *p)
+static void sheets_nets(struct proof *p)
 {
 	int rows, columns;
-	struct table t = pin_table(p->build);
+	struct table t = net_table();
 	table_capacity(&p->plan, t.width, &rows, &columns);
-	bool pins = p->build->pin_count > 0;
-	size_t n = pins ? p->pin_line_count : p->art->net_count, next = 0;
+	size_t n = p->art->net_count, next = 0;
 	for (int sheet = 0; sheet < p->plan.pin_sheets; sheet++) {
 		char title[64];
 		snprintf(title, sizeof(title), "Pin table (%d of %d)",
@@ -253,27 +269,100 @@ void proof_sheets_pins(struct proof *p)
 		proof_area(p, &x0, &y0, &x1, &y1);
 		proof_font(p, 2.3, false);
 		proof_text(p, x0, y0 + 11, ALIGN_LEFT,
-			   pins ? "Pins in order: the same data as pins.csv "
-				  "(pad centres x, y in mm)."
-				: "No pins in this artwork (nothing routed): "
-				  "the nets in their numbering order.");
+			   "No pins in this artwork (nothing routed): the "
+			   "nets in their numbering order.");
 		for (int c = 0; c < columns && next < n; c++) {
-			double x = x0 + c * (t.width + 4);
+			double x = x0 + c * (t.width + TABLE_GAP);
 			double y = y0 + TABLE_TOP;
 			table_row(p, x, y, &t, t.header, true);
 			y += ROW_H;
 			table_rule(p, x, y, t.width);
 			for (int r = 0; r < rows && next < n; r++, next++) {
-				if (pins)
-					csv_row(p, &t, x, y, p->pin_lines[next]);
-				else
-					net_row(p, &t, x, y,
-						p->pin_order[next]);
+				net_row(p, &t, x, y, p->pin_order[next]);
 				y += ROW_H;
 			}
 		}
 		proof_end_sheet(p);
 	}
+}
+
+/* One row of the matrix: pin, net, the band's cells. */
+static void matrix_row(struct proof *p, const struct matrix_layout *l,
+		       double x, double y, size_t row, size_t first,
+		       size_t count, bool header)
+{
+	const struct gp_pin_matrix *m = &p->matrix;
+	proof_font(p, MATRIX_SIZE, header);
+	cairo_set_source_rgb(p->cr, 0, 0, 0);
+	double base = y + MATRIX_ROW - 1.2;
+	if (header) {
+		proof_text(p, x + 1, base, ALIGN_LEFT, "Pin");
+		proof_text(p, x + l->pin_w + 1, base, ALIGN_LEFT, "Net");
+	} else {
+		const struct gp_pin *pin = m->pins[row];
+		proof_textf(p, x + 1, base, ALIGN_LEFT, "%d", pin->number);
+		proof_text(p, x + l->pin_w + 1, base, ALIGN_LEFT,
+			   pin->net >= 0 ? p->art->nets[pin->net].name : "NC");
+	}
+	double cx = x + l->pin_w + l->net_w;
+	for (size_t k = first; k < first + count; k++, cx += l->com_w) {
+		if (header)
+			proof_textf(p, cx + 1, base, ALIGN_LEFT, "COM%zu",
+				    k + 1);
+		else
+			proof_text(p, cx + 1, base, ALIGN_LEFT,
+				   gp_pin_matrix_cell(m, row, k));
+	}
+}
+
+static void sheets_matrix(struct proof *p)
+{
+	const struct gp_pin_matrix *m = &p->matrix;
+	struct matrix_layout l;
+	matrix_layout(m, p->build, &p->plan, &l);
+	int sheet = 0;
+	for (size_t band = 0; band < l.bands; band++) {
+		size_t first = band * l.band;
+		size_t count = m->commons - first < l.band ? m->commons - first
+							   : l.band;
+		double width = l.pin_w + l.net_w + (double)count * l.com_w;
+		size_t next = 0;
+		for (int s = 0; s < l.sheets_per_band; s++) {
+			char title[64];
+			snprintf(title, sizeof(title), "Pin matrix (%d of %d)",
+				 ++sheet, p->plan.pin_sheets);
+			proof_begin_sheet(p, title);
+			double x0, y0, x1, y1;
+			proof_area(p, &x0, &y0, &x1, &y1);
+			proof_font(p, MATRIX_SIZE, false);
+			proof_textf(p, x0, y0 + 12, ALIGN_LEFT,
+				    "What lights where each pin crosses COM%zu "
+				    "to COM%zu; as pin-matrix.csv.",
+				    first + 1, first + count);
+			for (int c = 0; c < l.columns && next < m->rows; c++) {
+				double x = x0 + c * (width + TABLE_GAP);
+				double y = y0 + MATRIX_TOP;
+				matrix_row(p, &l, x, y, 0, first, count, true);
+				y += MATRIX_ROW;
+				table_rule(p, x, y, width);
+				for (int r = 0; r < l.rows && next < m->rows;
+				     r++, next++) {
+					matrix_row(p, &l, x, y, next, first,
+						   count, false);
+					y += MATRIX_ROW;
+				}
+			}
+			proof_end_sheet(p);
+		}
+	}
+}
+
+void proof_sheets_pins(struct proof *p)
+{
+	if (p->has_matrix)
+		sheets_matrix(p);
+	else
+		sheets_nets(p);
 }
 
 /* --- the drive and ordering spec ------------------------------------------------ */

@@ -226,7 +226,8 @@ static void plan_sheets(struct proof *p, struct gp_proof_plan *plan)
 	plan->sheet_spec = sheet;
 	sheet += plan->spec_sheets;
 	plan->sheet_lit = sheet;
-	plan->lit_sheets = build->design->block_count ? 2 : 1;
+	plan->lit_sheets = (build->design->block_count ? 2 : 1) +
+			   (build->show != NULL);
 	sheet += plan->lit_sheets;
 	plan->sheet_count = sheet - 1;
 }
@@ -751,8 +752,10 @@ static void draw_sheets(struct proof *p)
 	proof_sheets_pins(p);
 	proof_sheets_spec(p);
 	proof_sheet_lit(p, false);
-	if (p->plan.lit_sheets > 1)
+	if (p->design->block_count)
 		proof_sheet_lit(p, true);
+	if (p->build->show)
+		proof_sheet_show(p);
 }
 
 static void proof_finish(struct proof *p)
