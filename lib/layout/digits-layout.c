@@ -769,7 +769,7 @@ static bool band_back(struct gp_build *build, struct gp_digit_row *out,
 			if (!add_copy(&build->art, layer, GP_ROLE_BRIDGE,
 				      out->first_common + u->backs[k].common - 1,
 				      &u->backs[k].poly))
-				return oom(diag);
+				return gp_diag_oom(diag, NULL);
 	}
 	struct gp_figure_frame fr;
 	gp_figure_frame(&build->design->digits[0].figure, &fr);
@@ -789,7 +789,7 @@ static bool band_back(struct gp_build *build, struct gp_digit_row *out,
 			if (!gp_build_add_lead_end(build, out->first_common + c,
 						   end ? GP_SIDE_RIGHT : GP_SIDE_LEFT,
 						   at, (int64_t)u->lead))
-				return oom(diag);
+				return gp_diag_oom(diag, NULL);
 		}
 	}
 	return true;
