@@ -43,6 +43,12 @@ GP_EXPORT size_t gp_diag_error_count(const struct gp_diag *diag);
 GP_EXPORT const char *gp_diag_message(const struct gp_diag *diag, size_t i);
 GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
 					    size_t i);
+/* The i-th message's stable code ("unknown-key"; see glassplot help
+ * messages), "" for a message that has none, NULL past the end. */
+GP_EXPORT const char *gp_diag_code(const struct gp_diag *diag, size_t i);
+/* The registry: code and meaning of the n-th message kind (from 0), NULL
+ * past the last. */
+GP_EXPORT const char *gp_message_code_at(size_t n, const char **meaning);
 
 /* --- loading a description --------------------------------------------- */
 /* Reads a description file and applies overrides ("key.path=value", in

@@ -29,13 +29,13 @@ def include_arrows(libdir):
     home = {}
     for room in rooms_in(libdir):
         for name in os.listdir(os.path.join(libdir, room)):
-            if name.endswith('.h'):
+            if name.endswith(('.h', '.def')):
                 home[name] = room
     bad = []
     for room in rooms_in(libdir):
         folder = os.path.join(libdir, room)
         for name in sorted(os.listdir(folder)):
-            if not name.endswith(('.c', '.h')):
+            if not name.endswith(('.c', '.h', '.def')):
                 continue
             text = open(os.path.join(folder, name), encoding='utf-8').read()
             for header in INCLUDE.findall(text):

@@ -1,11 +1,14 @@
 #!/bin/sh
 # Every broken description in errors/ must give exactly its expected error
-# line(s) on stderr, exit status 2, and write nothing.  NAME.args, when
+# line(s) on stderr, exit status 2, and write nothing.  An expected line
+# "FILE:LINE:COL: [code]" matches on place and message code only
+# (match-messages.py); a whole line must match word for word.  NAME.args, when
 # present, holds extra command-line arguments, one a line (--set ...).
 # usage: run-errors.sh GLASSPLOT ERRORS_DIR
 set -u
 tool=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
 dir=$2
+match=$(cd "$(dirname "$0")" && pwd)/match-messages.py
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 passed=0
@@ -25,9 +28,10 @@ for input in *.yaml; do
 	if [ "$status" -ne 2 ]; then
 		echo "FAIL $name: exit status $status, expected 2"
 		failed=$((failed + 1))
-	elif ! cmp -s "$work/stderr" "$name.expected"; then
+	elif ! python3 "$match" "$name.expected" "$work/stderr" \
+		>"$work/diff"; then
 		echo "FAIL $name: messages differ"
-		diff "$name.expected" "$work/stderr" | sed 's/^/    /'
+		cat "$work/diff"
 		failed=$((failed + 1))
 	elif [ -e "$work/out" ] || [ -s "$work/stdout" ]; then
 		echo "FAIL $name: something was written"

@@ -3,12 +3,23 @@
 
 #include <string.h>
 
-/* "glassplot help [COMMAND]" */
+/* "glassplot help messages": the registry of message codes. */
+static int print_messages(void)
+{
+	const char *meaning;
+	for (size_t i = 0; gp_message_code_at(i, &meaning); i++)
+		printf("%-22s %s\n", gp_message_code_at(i, NULL), meaning);
+	return EXIT_OK;
+}
+
+/* "glassplot help [COMMAND | messages]" */
 static int help(int argc, char **argv)
 {
 	if (argc > 3)
 		return tool_usage_error("help: expected at most one COMMAND; "
 					"see 'glassplot --help'");
+	if (argc == 3 && strcmp(argv[2], "messages") == 0)
+		return print_messages();
 	const struct tool_command *command =
 		argc == 3 ? tool_find_command(argv[2]) : NULL;
 	if (argc == 3 && !command)

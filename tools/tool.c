@@ -59,9 +59,12 @@ void tool_print_diag(const struct gp_diag *diag, int verbosity)
 				   : severity == GP_SEVERITY_WARNING ? "warning: "
 								     : "note: ";
 		const char *message = gp_diag_message(diag, i);
+		const char *code = gp_diag_code(diag, i);
 		char *safe = gp_text_for_terminal(message, false);
-		fprintf(stderr, "%s%s%s\n", has_place(message) ? "" : "glassplot: ",
-			kind, safe ? safe : "(out of memory)");
+		fprintf(stderr, "%s%s%s%s%s%s\n",
+			has_place(message) ? "" : "glassplot: ", kind,
+			safe ? safe : "(out of memory)", *code ? " [" : "", code,
+			*code ? "]" : "");
 		free(safe);
 	}
 }
@@ -89,7 +92,8 @@ void tool_print_help(const struct tool_command *command, FILE *out)
 {
 	if (!command) {
 		fputs("usage: glassplot COMMAND [options] DESCRIPTION\n"
-		      "       glassplot help [COMMAND] | --help | --version\n\n"
+		      "       glassplot help [COMMAND | messages] | --help | "
+		      "--version\n\n"
 		      "Electrode artwork for custom passive LCD glass.\n\n"
 		      "commands:\n",
 		      out);

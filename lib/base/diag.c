@@ -48,8 +48,30 @@ static char *format_message(const struct gp_where *where, const char *format,
 	return message;
 }
 
+static const struct {
+	const char *code;
+	const char *meaning;
+} messages[GP_MSG_COUNT] = {
+	[GP_MSG_NONE] = { "", "" },
+#define GP_MESSAGE(name, code, meaning) [GP_MSG_##name] = { code, meaning },
+#include "messages.def"
+#undef GP_MESSAGE
+};
+
+const char *gp_message_code(enum gp_message message)
+{
+	return message < GP_MSG_COUNT ? messages[message].code : "";
+}
+
+const char *gp_message_meaning(enum gp_message message)
+{
+	return message < GP_MSG_COUNT ? messages[message].meaning : "";
+}
+
+/* The one funnel every message passes through. */
 void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
-		 const struct gp_where *where, const char *format, va_list args)
+		 enum gp_message code, const struct gp_where *where,
+		 const char *format, va_list args)
 {
 	if (severity == GP_SEVERITY_ERROR)
 		diag->errors++;
@@ -63,7 +85,7 @@ void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
 		return;
 	}
 	diag->entries[diag->count++] =
-		(struct gp_diag_entry){ severity, message };
+		(struct gp_diag_entry){ severity, code, message };
 }
 
 bool gp_diag_error(struct gp_diag *diag, const struct gp_where *where,
@@ -71,7 +93,7 @@ bool gp_diag_error(struct gp_diag *diag, const struct gp_where *where,
 {
 	va_list args;
 	va_start(args, format);
-	gp_diag_add(diag, GP_SEVERITY_ERROR, where, format, args);
+	gp_diag_add(diag, GP_SEVERITY_ERROR, GP_MSG_NONE, where, format, args);
 	va_end(args);
 	return false;
 }
@@ -81,7 +103,8 @@ void gp_diag_warning(struct gp_diag *diag, const struct gp_where *where,
 {
 	va_list args;
 	va_start(args, format);
-	gp_diag_add(diag, GP_SEVERITY_WARNING, where, format, args);
+	gp_diag_add(diag, GP_SEVERITY_WARNING, GP_MSG_NONE, where, format,
+		    args);
 	va_end(args);
 }
 
@@ -90,8 +113,46 @@ void gp_diag_note(struct gp_diag *diag, const struct gp_where *where,
 {
 	va_list args;
 	va_start(args, format);
-	gp_diag_add(diag, GP_SEVERITY_NOTE, where, format, args);
+	gp_diag_add(diag, GP_SEVERITY_NOTE, GP_MSG_NONE, where, format, args);
 	va_end(args);
+}
+
+bool gp_diag_fail(struct gp_diag *diag, enum gp_message code,
+		  const struct gp_where *where, const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, GP_SEVERITY_ERROR, code, where, format, args);
+	va_end(args);
+	return false;
+}
+
+void gp_diag_warn(struct gp_diag *diag, enum gp_message code,
+		  const struct gp_where *where, const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, GP_SEVERITY_WARNING, code, where, format, args);
+	va_end(args);
+}
+
+static void add(struct gp_diag *diag, enum gp_severity severity,
+		enum gp_message code, const struct gp_where *where,
+		const char *format, ...) __attribute__((format(printf, 5, 6)));
+
+static void add(struct gp_diag *diag, enum gp_severity severity,
+		enum gp_message code, const struct gp_where *where,
+		const char *format, ...)
+{
+	va_list args;
+	va_start(args, format);
+	gp_diag_add(diag, severity, code, where, format, args);
+	va_end(args);
+}
+
+void gp_diag_copy(struct gp_diag *diag, const struct gp_diag_entry *entry)
+{
+	add(diag, entry->severity, entry->code, NULL, "%s", entry->message);
 }
 
 GP_EXPORT struct gp_diag *gp_diag_create(void)
@@ -125,6 +186,11 @@ GP_EXPORT const char *gp_diag_message(const struct gp_diag *diag, size_t i)
 	return i < diag->count ? diag->entries[i].message : NULL;
 }
 
+GP_EXPORT const char *gp_diag_code(const struct gp_diag *diag, size_t i)
+{
+	return i < diag->count ? gp_message_code(diag->entries[i].code) : NULL;
+}
+
 GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
 					    size_t i)
 {
@@ -133,5 +199,14 @@ GP_EXPORT enum gp_severity gp_diag_severity(const struct gp_diag *diag,
 
 bool gp_diag_oom(struct gp_diag *diag, const struct gp_where *where)
 {
-	return gp_diag_error(diag, where, "out of memory");
+	return gp_diag_fail(diag, GP_MSG_OUT_OF_MEMORY, where, "out of memory");
+}
+
+GP_EXPORT const char *gp_message_code_at(size_t n, const char **meaning)
+{
+	if (n + 1 >= GP_MSG_COUNT)
+		return NULL;
+	if (meaning)
+		*meaning = messages[n + 1].meaning;
+	return messages[n + 1].code;
 }

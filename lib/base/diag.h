@@ -17,8 +17,23 @@ struct gp_where {
 	int col;
 };
 
+/* The stable message codes, one per kind of description error or warning,
+ * from the one registry messages.def (GP_MSG_NONE: not yet given one). */
+enum gp_message {
+	GP_MSG_NONE,
+#define GP_MESSAGE(name, code, meaning) GP_MSG_##name,
+#include "messages.def"
+#undef GP_MESSAGE
+	GP_MSG_COUNT
+};
+
+/* The code ("unknown-key") and meaning of a message; "" for GP_MSG_NONE. */
+const char *gp_message_code(enum gp_message message);
+const char *gp_message_meaning(enum gp_message message);
+
 struct gp_diag_entry {
 	enum gp_severity severity;
+	enum gp_message code;
 	char *message; /* whole line, "FILE:LINE:COL: text" when placed */
 };
 
@@ -45,11 +60,22 @@ void gp_diag_warning(struct gp_diag *diag, const struct gp_where *where,
 void gp_diag_note(struct gp_diag *diag, const struct gp_where *where,
 		  const char *format, ...)
 	__attribute__((format(printf, 3, 4)));
+/* Record an error or a warning with its stable code; gp_diag_fail returns
+ * false like gp_diag_error. */
+bool gp_diag_fail(struct gp_diag *diag, enum gp_message code,
+		  const struct gp_where *where, const char *format, ...)
+	__attribute__((format(printf, 4, 5)));
+void gp_diag_warn(struct gp_diag *diag, enum gp_message code,
+		  const struct gp_where *where, const char *format, ...)
+	__attribute__((format(printf, 4, 5)));
+/* Record a copy of another diag's entry, with its severity and code. */
+void gp_diag_copy(struct gp_diag *diag, const struct gp_diag_entry *entry);
 /* The one out-of-memory error, "out of memory" (at where, which may be
  * NULL); returns false like gp_diag_error. */
 bool gp_diag_oom(struct gp_diag *diag, const struct gp_where *where);
 void gp_diag_add(struct gp_diag *diag, enum gp_severity severity,
-		 const struct gp_where *where, const char *format, va_list args)
-	__attribute__((format(printf, 4, 0)));
+		 enum gp_message code, const struct gp_where *where,
+		 const char *format, va_list args)
+	__attribute__((format(printf, 5, 0)));
 
 #endif

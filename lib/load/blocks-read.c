@@ -52,15 +52,17 @@ static bool read_dot_pitch(struct gp_reader *r, struct gp_block *b)
 	const struct gp_node *pitch_node = gp_read_node(r, "dot_pitch", false);
 	const struct gp_node *gap_node = gp_read_node(r, "dot_gap", false);
 	if (pitch_node && gap_node)
-		return gp_diag_error(r->diag, &gap_node->where,
-				     "give either 'dot_pitch' or 'dot_gap' "
-				     "in %s, not both",
-				     r->what);
+		return gp_diag_fail(r->diag, GP_MSG_EXCLUSIVE_KEYS,
+				    &gap_node->where,
+				    "give either 'dot_pitch' or 'dot_gap' "
+				    "in %s, not both",
+				    r->what);
 	if (!pitch_node && !gap_node)
-		return gp_diag_error(r->diag, &r->map->where,
-				     "missing required key 'dot_pitch' (or "
-				     "'dot_gap') in %s",
-				     r->what);
+		return gp_diag_fail(r->diag, GP_MSG_MISSING_ONE_OF,
+				    &r->map->where,
+				    "missing required key 'dot_pitch' (or "
+				    "'dot_gap') in %s",
+				    r->what);
 	if (pitch_node) {
 		if (!gp_read_size_pair(r, "dot_pitch", true, pitch))
 			return false;
@@ -70,8 +72,9 @@ static bool read_dot_pitch(struct gp_reader *r, struct gp_block *b)
 		if (!gp_read_pair(r, "dot_gap", true, gap))
 			return false;
 		if (gap[0] < 0 || gap[1] < 0)
-			return gp_diag_error(r->diag, &gap_node->where,
-					     "'dot_gap' must not be negative");
+			return gp_diag_fail(r->diag, GP_MSG_OUT_OF_RANGE,
+					    &gap_node->where,
+					    "'dot_gap' must not be negative");
 		b->dot_pitch_x = b->dot_width + gap[0];
 		b->dot_pitch_y = b->dot_height + gap[1];
 	}
@@ -88,16 +91,15 @@ static bool read_counts(struct gp_reader *r, struct gp_block *b)
 	b->dots_across = dots[0];
 	b->dots_down = dots[1];
 	if (ok && b->cells * b->lines > GP_MAX_CELLS)
-		return gp_diag_error(r->diag, &r->map->where,
-				     "%s has %ld cells; the limit is %d",
-				     r->what, b->cells * b->lines,
-				     GP_MAX_CELLS);
+		return gp_diag_fail(r->diag, GP_MSG_OVER_LIMIT, &r->map->where,
+				    "%s has %ld cells; the limit is %d",
+				    r->what, b->cells * b->lines, GP_MAX_CELLS);
 	if (ok && b->dots_across * b->dots_down > GP_MAX_DOTS_PER_CELL)
-		return gp_diag_error(r->diag, &r->map->where,
-				     "%s has %ld dots per cell; the limit is "
-				     "%d",
-				     r->what, b->dots_across * b->dots_down,
-				     GP_MAX_DOTS_PER_CELL);
+		return gp_diag_fail(r->diag, GP_MSG_OVER_LIMIT, &r->map->where,
+				    "%s has %ld dots per cell; the limit is "
+				    "%d",
+				    r->what, b->dots_across * b->dots_down,
+				    GP_MAX_DOTS_PER_CELL);
 	return ok;
 }
 
@@ -145,31 +147,30 @@ static bool check_block(const struct gp_block *b, struct gp_diag *diag)
 				   across ? b->dot_width : b->dot_height);
 		gp_format_mm_short(c, sizeof(c),
 				   across ? b->dot_pitch_x : b->dot_pitch_y);
-		return gp_diag_error(diag, &b->where,
-				     "block '%s': dot %s %s mm is larger "
-				     "than the dot pitch %s mm",
-				     b->name, across ? "width" : "height", a,
-				     c);
+		return gp_diag_fail(diag, GP_MSG_TOO_LARGE, &b->where,
+				    "block '%s': dot %s %s mm is larger "
+				    "than the dot pitch %s mm",
+				    b->name, across ? "width" : "height", a, c);
 	}
 	if (b->cells > 1 && cell_width(b) >= b->cell_pitch) {
 		gp_format_mm_short(a, sizeof(a), cell_width(b));
 		gp_format_mm_short(c, sizeof(c), b->cell_pitch);
-		return gp_diag_error(diag, &b->where,
-				     "block '%s': a cell is %s mm wide but "
-				     "the cell pitch is %s mm; cells would "
-				     "touch (expected a pitch larger than "
-				     "the cell)",
-				     b->name, a, c);
+		return gp_diag_fail(diag, GP_MSG_TOO_LARGE, &b->where,
+				    "block '%s': a cell is %s mm wide but "
+				    "the cell pitch is %s mm; cells would "
+				    "touch (expected a pitch larger than "
+				    "the cell)",
+				    b->name, a, c);
 	}
 	if (b->lines > 1 && gp_block_cell_height(b) >= b->line_pitch) {
 		gp_format_mm_short(a, sizeof(a), gp_block_cell_height(b));
 		gp_format_mm_short(c, sizeof(c), b->line_pitch);
-		return gp_diag_error(diag, &b->where,
-				     "block '%s': a cell is %s mm high but "
-				     "the line pitch is %s mm; lines would "
-				     "touch (expected a pitch larger than "
-				     "the cell)",
-				     b->name, a, c);
+		return gp_diag_fail(diag, GP_MSG_TOO_LARGE, &b->where,
+				    "block '%s': a cell is %s mm high but "
+				    "the line pitch is %s mm; lines would "
+				    "touch (expected a pitch larger than "
+				    "the cell)",
+				    b->name, a, c);
 	}
 	return true;
 }
@@ -192,10 +193,10 @@ static bool check_fits(const struct gp_design *design,
 	gp_format_mm_short(y0, sizeof(y0), e.y0);
 	gp_format_mm_short(x1, sizeof(x1), e.x1);
 	gp_format_mm_short(y1, sizeof(y1), e.y1);
-	return gp_diag_error(diag, &b->where,
-			     "block '%s' spans x %s..%s, y %s..%s mm, which "
-			     "does not fit where the two plates overlap",
-			     b->name, x0, x1, y0, y1);
+	return gp_diag_fail(diag, GP_MSG_OUTSIDE_OVERLAP, &b->where,
+			    "block '%s' spans x %s..%s, y %s..%s mm, which "
+			    "does not fit where the two plates overlap",
+			    b->name, x0, x1, y0, y1);
 }
 
 static int find_block(const struct gp_design *design, size_t before,
@@ -220,12 +221,12 @@ static bool resolve_shared_commons(struct gp_design *design, size_t index,
 			names[i] = design->blocks[i].name;
 		const char *near = gp_nearest_word(from->text, names,
 						   design->block_count);
-		return gp_diag_error(diag, &from->where,
-				     "'share_commons_with' names '%s', which "
-				     "is not a block given before '%s'%s%s%s",
-				     from->text, b->name,
-				     near ? "; did you mean '" : "",
-				     near ? near : "", near ? "'?" : "");
+		return gp_diag_fail(diag, GP_MSG_UNKNOWN_NAME, &from->where,
+				    "'share_commons_with' names '%s', which "
+				    "is not a block given before '%s'%s%s%s",
+				    from->text, b->name,
+				    near ? "; did you mean '" : "",
+				    near ? near : "", near ? "'?" : "");
 	}
 	const struct gp_block *o = &design->blocks[owner];
 	if (o->commons_from >= 0)
@@ -234,12 +235,12 @@ static bool resolve_shared_commons(struct gp_design *design, size_t index,
 	    o->origin.y != b->origin.y || o->dot_height != b->dot_height ||
 	    o->dot_pitch_y != b->dot_pitch_y ||
 	    (b->lines > 1 && o->line_pitch != b->line_pitch))
-		return gp_diag_error(diag, &from->where,
-				     "block '%s' cannot share the commons of "
-				     "'%s': expected the same origin y, "
-				     "lines, dot rows, dot height and pitches "
-				     "down",
-				     b->name, o->name);
+		return gp_diag_fail(diag, GP_MSG_CANNOT_SHARE, &from->where,
+				    "block '%s' cannot share the commons of "
+				    "'%s': expected the same origin y, "
+				    "lines, dot rows, dot height and pitches "
+				    "down",
+				    b->name, o->name);
 	b->commons_from = owner;
 	return true;
 }
@@ -260,14 +261,15 @@ static bool check_totals(const struct gp_design *design,
 			(size_t)(b->dots_across * b->dots_down);
 	}
 	if (nets > GP_MAX_NETS)
-		return gp_diag_error(diag, &node->where,
-				     "the blocks need %zu commons and "
-				     "segments; the limit is %d",
-				     nets, GP_MAX_NETS);
+		return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, &node->where,
+				    "the blocks need %zu commons and "
+				    "segments; the limit is %d",
+				    nets, GP_MAX_NETS);
 	if (dots > GP_MAX_PIXELS)
-		return gp_diag_error(diag, &node->where,
-				     "the blocks have %zu dots; the limit is "
-				     "%d", dots, GP_MAX_PIXELS);
+		return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, &node->where,
+				    "the blocks have %zu dots; the limit is "
+				    "%d",
+				    dots, GP_MAX_PIXELS);
 	return true;
 }
 
@@ -277,9 +279,9 @@ bool gp_blocks_read(struct gp_design *design, const struct gp_node *node,
 	if (!gp_node_expect_map(node, diag))
 		return false;
 	if (node->count > GP_MAX_BLOCKS)
-		return gp_diag_error(diag, &node->where,
-				     "%zu blocks; the limit is %d",
-				     node->count, GP_MAX_BLOCKS);
+		return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, &node->where,
+				    "%zu blocks; the limit is %d", node->count,
+				    GP_MAX_BLOCKS);
 	design->blocks = calloc(node->count ? node->count : 1,
 				sizeof(*design->blocks));
 	if (!design->blocks)

@@ -58,10 +58,10 @@ bool gp_figure_check(const struct gp_figure_spec *s, const char *what,
 {
 	char a[32], b[32];
 	if (s->slant < -30 || s->slant > 30)
-		return gp_diag_error(diag, where,
-				     "%s: slant %g degrees is out of range "
-				     "(expected -30 to 30)",
-				     what, s->slant);
+		return gp_diag_fail(diag, GP_MSG_OUT_OF_RANGE, where,
+				    "%s: slant %g degrees is out of range "
+				    "(expected -30 to 30)",
+				    what, s->slant);
 	double sec = 1 / cos(s->slant * PI / 180.0);
 	/* across: two upright strokes and a middle bar at least a stroke
 	 * long with a gap each side; 14 and 16 segments: three uprights and
@@ -74,11 +74,11 @@ bool gp_figure_check(const struct gp_figure_spec *s, const char *what,
 	if ((double)s->width < need_w) {
 		gp_format_mm_short(a, sizeof(a), s->width);
 		gp_format_mm_short(b, sizeof(b), (int64_t)ceil(need_w));
-		return gp_diag_error(diag, where,
-				     "%s: width %s mm leaves no room for the "
-				     "middle segment; expected at least %s "
-				     "mm for this stroke, gap and slant",
-				     what, a, b);
+		return gp_diag_fail(diag, GP_MSG_TOO_SMALL, where,
+				    "%s: width %s mm leaves no room for the "
+				    "middle segment; expected at least %s "
+				    "mm for this stroke, gap and slant",
+				    what, a, b);
 	}
 	/* down: three bars and two uprights at least a stroke long; a
 	 * diagonal needs half as much again */
@@ -87,10 +87,10 @@ bool gp_figure_check(const struct gp_figure_spec *s, const char *what,
 	if (s->height < need_h) {
 		gp_format_mm_short(a, sizeof(a), s->height);
 		gp_format_mm_short(b, sizeof(b), need_h);
-		return gp_diag_error(diag, where,
-				     "%s: height %s mm is too small for the "
-				     "stroke and gap; expected at least %s mm",
-				     what, a, b);
+		return gp_diag_fail(diag, GP_MSG_TOO_SMALL, where,
+				    "%s: height %s mm is too small for the "
+				    "stroke and gap; expected at least %s mm",
+				    what, a, b);
 	}
 	return true;
 }

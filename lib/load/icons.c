@@ -54,10 +54,12 @@ static bool read_rotation(struct gp_reader *r, struct gp_icon *icon)
 	if (!gp_node_int(node, r->diag, 0, 270, &rotation))
 		return r->ok = false;
 	if (rotation % 90 != 0)
-		return r->ok = gp_diag_error(r->diag, &node->where,
-					     "'rotate' must be 0, 90, 180 or "
-					     "270 (degrees anticlockwise), got "
-					     "%ld", rotation);
+		return r->ok = gp_diag_fail(r->diag, GP_MSG_UNKNOWN_CHOICE,
+					    &node->where,
+					    "'rotate' must be 0, 90, 180 or "
+					    "270 (degrees anticlockwise), got "
+					    "%ld",
+					    rotation);
 	icon->rotation = (int)rotation;
 	return true;
 }
@@ -77,13 +79,16 @@ static bool read_text(struct gp_reader *r, struct gp_icon *icon,
 	const struct gp_node *cap = gp_read_node(r, "cap_height", false);
 	const struct gp_node *em = gp_read_node(r, "em_size", false);
 	if (cap && em)
-		ok = gp_diag_error(r->diag, &em->where,
-				   "give either 'cap_height' or 'em_size' in "
-				   "%s, not both", r->what);
+		ok = gp_diag_fail(r->diag, GP_MSG_EXCLUSIVE_KEYS, &em->where,
+				  "give either 'cap_height' or 'em_size' in "
+				  "%s, not both",
+				  r->what);
 	else if (!cap && !em)
-		ok = gp_diag_error(r->diag, &r->map->where,
-				   "missing required key 'cap_height' (or "
-				   "'em_size') in %s", r->what);
+		ok = gp_diag_fail(r->diag, GP_MSG_MISSING_ONE_OF,
+				  &r->map->where,
+				  "missing required key 'cap_height' (or "
+				  "'em_size') in %s",
+				  r->what);
 	else
 		ok &= gp_read_size(r, cap ? "cap_height" : "em_size", true,
 				   cap ? &s->cap_height : &s->em_size);
@@ -104,10 +109,10 @@ static bool read_points(struct gp_reader *r, struct gp_icon *icon)
 		return false;
 	if (node->kind != GP_NODE_SEQUENCE || node->count < 3 ||
 	    node->count > GP_MAX_ICON_POINTS)
-		return gp_diag_error(r->diag, &node->where,
-				     "'points' must be a list of 3 to %d "
-				     "corners [x, y] in millimetres",
-				     GP_MAX_ICON_POINTS);
+		return gp_diag_fail(r->diag, GP_MSG_WRONG_COUNT, &node->where,
+				    "'points' must be a list of 3 to %d "
+				    "corners [x, y] in millimetres",
+				    GP_MAX_ICON_POINTS);
 	icon->points = calloc(node->count, sizeof(*icon->points));
 	if (!icon->points)
 		return gp_diag_oom(r->diag, &node->where);
@@ -115,9 +120,10 @@ static bool read_points(struct gp_reader *r, struct gp_icon *icon)
 		const struct gp_node *p = node->items[i];
 		int64_t x, y;
 		if (p->kind != GP_NODE_SEQUENCE || p->count != 2)
-			return gp_diag_error(r->diag, &p->where,
-					     "each point must be a pair [x, y] "
-					     "in millimetres");
+			return gp_diag_fail(r->diag, GP_MSG_NOT_A_PAIR,
+					    &p->where,
+					    "each point must be a pair [x, y] "
+					    "in millimetres");
 		if (!gp_node_length(p->items[0], r->diag, &x) ||
 		    !gp_node_length(p->items[1], r->diag, &y))
 			return false;
@@ -139,24 +145,28 @@ static bool check_shape(struct gp_reader *r, const struct gp_icon *icon)
 		if (2 * icon->radius > small) {
 			gp_format_mm_short(a, sizeof(a), icon->radius);
 			gp_format_mm_short(b, sizeof(b), small / 2);
-			return gp_diag_error(r->diag, w, "%s: 'radius' %s mm is "
-					     "more than half the smaller side "
-					     "(%s mm)", r->what, a, b);
+			return gp_diag_fail(r->diag, GP_MSG_TOO_LARGE, w,
+					    "%s: 'radius' %s mm is "
+					    "more than half the smaller side "
+					    "(%s mm)",
+					    r->what, a, b);
 		}
 		break;
 	case GP_ICON_RING:
 		if (2 * icon->line >= icon->diameter)
-			return gp_diag_error(r->diag, w, "%s: 'width' must be "
-					     "less than half the 'diameter'",
-					     r->what);
+			return gp_diag_fail(r->diag, GP_MSG_TOO_LARGE, w,
+					    "%s: 'width' must be "
+					    "less than half the 'diameter'",
+					    r->what);
 		break;
 	case GP_ICON_ARROW:
 		if (icon->line >= icon->size[1] || icon->head >= icon->size[0])
-			return gp_diag_error(r->diag, w, "%s: the 'shaft' must "
-					     "be narrower than the head width "
-					     "(size[1]) and the 'head' shorter "
-					     "than the length (size[0])",
-					     r->what);
+			return gp_diag_fail(r->diag, GP_MSG_TOO_LARGE, w,
+					    "%s: the 'shaft' must "
+					    "be narrower than the head width "
+					    "(size[1]) and the 'head' shorter "
+					    "than the length (size[0])",
+					    r->what);
 		break;
 	default:
 		break;
@@ -214,9 +224,10 @@ static bool reject_other_keys(struct gp_reader *r, const struct gp_icon *icon)
 			asked |= strcmp(r->known[i], key) == 0;
 		if (!icon_key || asked)
 			continue;
-		ok = gp_diag_error(r->diag, &r->map->keys[k]->where,
-				   "'%s' does not apply to a %s icon (%s)", key,
-				   kind_name(icon->kind), r->what);
+		ok = gp_diag_fail(r->diag, GP_MSG_KEY_DOES_NOT_APPLY,
+				  &r->map->keys[k]->where,
+				  "'%s' does not apply to a %s icon (%s)", key,
+				  kind_name(icon->kind), r->what);
 		gp_read_node(r, key, false);
 	}
 	return ok;
@@ -260,11 +271,11 @@ static bool digits_row(const struct gp_design *design, const char *name,
 	     i++)
 		names[n++] = design->digits[i].name;
 	const char *near = n ? gp_nearest_word(name, names, n) : NULL;
-	return gp_diag_error(diag, where,
-			     "%s names digit row '%s', which is not described "
-			     "in 'digits'%s%s%s", what, name,
-			     near ? "; did you mean '" : "", near ? near : "",
-			     near ? "'?" : "");
+	return gp_diag_fail(diag, GP_MSG_UNKNOWN_NAME, where,
+			    "%s names digit row '%s', which is not described "
+			    "in 'digits'%s%s%s",
+			    what, name, near ? "; did you mean '" : "",
+			    near ? near : "", near ? "'?" : "");
 }
 
 /* common: {digits: NAME, common: N}: common N (from 1) of a digit row. */
@@ -286,10 +297,10 @@ static bool read_digits_common(struct gp_icon *icon,
 		return false;
 	const struct gp_digits *d = &design->digits[row];
 	if (index > d->duty)
-		return gp_diag_error(diag, &node->where,
-				     "%s: digit row '%s' has %d common(s) (duty "
-				     "1/%d); common %ld is outside", what, name,
-				     d->duty, d->duty, index);
+		return gp_diag_fail(diag, GP_MSG_OUTSIDE_ELEMENT, &node->where,
+				    "%s: digit row '%s' has %d common(s) (duty "
+				    "1/%d); common %ld is outside",
+				    what, name, d->duty, d->duty, index);
 	icon->common_digits = row;
 	icon->common_index = (int)index;
 	return true;
@@ -305,10 +316,11 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 	icon->common_block = -1;
 	if (node->kind == GP_NODE_SCALAR) {
 		if (!*node->text)
-			return gp_diag_error(diag, &node->where,
-					     "'common' is empty; expected a "
-					     "name, {block, line, row} or "
-					     "{digits, common}");
+			return gp_diag_fail(diag, GP_MSG_EMPTY_VALUE,
+					    &node->where,
+					    "'common' is empty; expected a "
+					    "name, {block, line, row} or "
+					    "{digits, common}");
 		icon->common = node->text;
 		return true;
 	}
@@ -327,16 +339,17 @@ static bool read_common(struct gp_icon *icon, const struct gp_design *design,
 		return false;
 	int b = find_block(design, block);
 	if (b < 0)
-		return gp_diag_error(diag, &node->where,
-				     "%s names block '%s', which is not "
-				     "described in 'blocks'", what, block);
+		return gp_diag_fail(diag, GP_MSG_UNKNOWN_NAME, &node->where,
+				    "%s names block '%s', which is not "
+				    "described in 'blocks'",
+				    what, block);
 	const struct gp_block *blk = &design->blocks[b];
 	if (line > blk->lines || row > blk->dots_down)
-		return gp_diag_error(diag, &node->where,
-				     "%s: block '%s' has %ld line(s) of %ld "
-				     "dot rows; line %ld row %ld is outside",
-				     what, block, blk->lines, blk->dots_down,
-				     line, row);
+		return gp_diag_fail(diag, GP_MSG_OUTSIDE_ELEMENT, &node->where,
+				    "%s: block '%s' has %ld line(s) of %ld "
+				    "dot rows; line %ld row %ld is outside",
+				    what, block, blk->lines, blk->dots_down,
+				    line, row);
 	icon->common_block = b;
 	icon->common_row = (line - 1) * blk->dots_down + (row - 1);
 	return true;
@@ -351,9 +364,10 @@ static bool read_segment(struct gp_icon *icon, const struct gp_design *design,
 	icon->segment_where = node->where;
 	if (node->kind == GP_NODE_SCALAR) {
 		if (!*node->text)
-			return gp_diag_error(diag, &node->where,
-					     "'segment' is empty; expected a "
-					     "name or {digits, digit, line}");
+			return gp_diag_fail(diag, GP_MSG_EMPTY_VALUE,
+					    &node->where,
+					    "'segment' is empty; expected a "
+					    "name or {digits, digit, line}");
 		icon->segment = node->text;
 		return true;
 	}
@@ -374,11 +388,11 @@ static bool read_segment(struct gp_icon *icon, const struct gp_design *design,
 	const struct gp_digits *d = &design->digits[row];
 	bool sign = d->minus || d->one;
 	if (digit > d->count || (digit == 0 && !sign))
-		return gp_diag_error(diag, &node->where,
-				     "%s: digit row '%s' has digits 1 to %ld%s; "
-				     "digit %ld is outside", what, name,
-				     d->count, sign ? " and the sign unit 0" : "",
-				     digit);
+		return gp_diag_fail(diag, GP_MSG_OUTSIDE_ELEMENT, &node->where,
+				    "%s: digit row '%s' has digits 1 to %ld%s; "
+				    "digit %ld is outside",
+				    what, name, d->count,
+				    sign ? " and the sign unit 0" : "", digit);
 	icon->segment_digits = row;
 	icon->segment_digit = (int)digit;
 	icon->segment_line = (int)line;
@@ -393,10 +407,12 @@ static bool read_slot(struct gp_reader *r, struct gp_icon *icon)
 		return true;
 	icon->slot_where = slot->where;
 	if (slot->kind != GP_NODE_SCALAR || strcmp(slot->text, "auto") != 0)
-		return r->ok = gp_diag_error(r->diag, &slot->where,
-					     "'slot' of %s must be 'auto' (let "
-					     "glassplot choose its common and "
-					     "segment)", r->what);
+		return r->ok = gp_diag_fail(r->diag, GP_MSG_UNKNOWN_CHOICE,
+					    &slot->where,
+					    "'slot' of %s must be 'auto' (let "
+					    "glassplot choose its common and "
+					    "segment)",
+					    r->what);
 	icon->auto_slot = true;
 	return true;
 }
@@ -430,18 +446,19 @@ static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
 	const struct gp_node *segment =
 		gp_read_node(r, "segment", !given && !a->segments);
 	if ((common && a->commons) || (segment && a->segments))
-		return gp_diag_error(diag, common && a->commons
-						   ? &a->commons->where
-						   : &a->segments->where,
-				     "give either '%s' or '%s' in %s, not both",
-				     common && a->commons ? "common" : "segment",
-				     common && a->commons ? "commons"
-							  : "segments",
-				     r->what);
+		return gp_diag_fail(
+			diag, GP_MSG_EXCLUSIVE_KEYS,
+			common && a->commons ? &a->commons->where
+					     : &a->segments->where,
+			"give either '%s' or '%s' in %s, not both",
+			common && a->commons ? "common" : "segment",
+			common && a->commons ? "commons" : "segments", r->what);
 	if (given && (a->commons || a->segments))
-		return gp_diag_error(diag, &icon->slot_where,
-				     "give either 'slot: auto' or the cells' "
-				     "nets in %s, not both", r->what);
+		return gp_diag_fail(diag, GP_MSG_EXCLUSIVE_KEYS,
+				    &icon->slot_where,
+				    "give either 'slot: auto' or the cells' "
+				    "nets in %s, not both",
+				    r->what);
 	if (!given && !common && !segment && a->commons && a->segments)
 		return true;
 	if (!given && !common && a->commons)
@@ -449,10 +466,11 @@ static bool read_nets(struct gp_reader *r, struct gp_icon *icon,
 	if (!given && !segment && a->segments)
 		return common && read_common(icon, design, common, diag);
 	if (given && (common || segment))
-		return gp_diag_error(diag, common ? &common->where
-						  : &segment->where,
-				     "give either 'slot: auto' or 'common' and "
-				     "'segment' in %s, not both", r->what);
+		return gp_diag_fail(diag, GP_MSG_EXCLUSIVE_KEYS,
+				    common ? &common->where : &segment->where,
+				    "give either 'slot: auto' or 'common' and "
+				    "'segment' in %s, not both",
+				    r->what);
 	if (given)
 		return true;
 	bool ok = common && read_common(icon, design, common, diag);
@@ -481,11 +499,14 @@ static bool read_array(struct gp_reader *parent, struct array_spec *a)
 		ok &= gp_read_length(&r, "pitch", true, &a->pitch);
 		ok &= gp_read_int(&r, "direction", false, 0, 270, &a->direction);
 		if (ok && a->direction % 90 != 0)
-			ok = gp_diag_error(parent->diag, &a->node->where,
-					   "%s: 'direction' must be 0, 90, 180 "
-					   "or 270 (degrees anticlockwise from "
-					   "+x); use 'centre' and 'angle' for an "
-					   "arc", what);
+			ok = gp_diag_fail(
+				parent->diag, GP_MSG_UNKNOWN_CHOICE,
+				&a->node->where,
+				"%s: 'direction' must be 0, 90, 180 "
+				"or 270 (degrees anticlockwise from "
+				"+x); use 'centre' and 'angle' for an "
+				"arc",
+				what);
 	}
 	return gp_reader_end(&r) && ok;
 }
@@ -521,11 +542,15 @@ static bool read_icon(struct gp_icon *icon, const struct gp_design *design,
 	const struct gp_node *text = gp_read_node(&r, "text", false);
 	const struct gp_node *shape = gp_read_node(&r, "shape", false);
 	if (text && shape) {
-		ok = gp_diag_error(diag, &shape->where, "give either 'text' or "
-				   "'shape' in %s, not both", what);
+		ok = gp_diag_fail(diag, GP_MSG_EXCLUSIVE_KEYS, &shape->where,
+				  "give either 'text' or "
+				  "'shape' in %s, not both",
+				  what);
 	} else if (!text && !shape) {
-		ok = gp_diag_error(diag, &node->where, "missing 'text' or "
-				   "'shape' in %s", what);
+		ok = gp_diag_fail(diag, GP_MSG_MISSING_ONE_OF, &node->where,
+				  "missing 'text' or "
+				  "'shape' in %s",
+				  what);
 	} else {
 		ok = (text ? read_text(&r, icon, text)
 			   : read_shape(&r, icon)) && ok;
@@ -603,12 +628,13 @@ static bool check_pairs(const struct gp_design *design, struct gp_diag *diag)
 			char common[160], segment[160];
 			describe_common(design, b, common, sizeof(common));
 			describe_segment(design, b, segment, sizeof(segment));
-			ok = gp_diag_error(diag, &b->common_where,
-					   "icons '%s' (line %d) and '%s' both "
-					   "use %s with %s; each icon needs its "
-					   "own (common, segment) pair",
-					   a->name, a->where.line, b->name,
-					   common, segment);
+			ok = gp_diag_fail(diag, GP_MSG_PAIR_TAKEN,
+					  &b->common_where,
+					  "icons '%s' (line %d) and '%s' both "
+					  "use %s with %s; each icon needs its "
+					  "own (common, segment) pair",
+					  a->name, a->where.line, b->name,
+					  common, segment);
 			break;
 		}
 	}
@@ -626,9 +652,10 @@ static bool check_text_total(const struct gp_design *design,
 			total += strlen(design->icons[i].text);
 	if (total <= GP_MAX_ICON_TEXT)
 		return true;
-	return gp_diag_error(diag, &node->where,
-			     "the icons have %zu bytes of text in all; the "
-			     "limit is %d", total, GP_MAX_ICON_TEXT);
+	return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, &node->where,
+			    "the icons have %zu bytes of text in all; the "
+			    "limit is %d",
+			    total, GP_MAX_ICON_TEXT);
 }
 
 static char *join_name(const char *base, long k)
@@ -669,14 +696,15 @@ static bool list_item(const struct gp_node *list, long count, long k,
 		      const char **out)
 {
 	if (list->kind != GP_NODE_SEQUENCE || (long)list->count != count)
-		return gp_diag_error(diag, &list->where,
-				     "'%s' of %s must list one name for each "
-				     "of its %ld cells", key, what, count);
+		return gp_diag_fail(diag, GP_MSG_WRONG_COUNT, &list->where,
+				    "'%s' of %s must list one name for each "
+				    "of its %ld cells",
+				    key, what, count);
 	const struct gp_node *item = list->items[k];
 	if (item->kind != GP_NODE_SCALAR || !*item->text)
-		return gp_diag_error(diag, &item->where,
-				     "each of the '%s' of %s must be a name",
-				     key, what);
+		return gp_diag_fail(diag, GP_MSG_WRONG_KIND, &item->where,
+				    "each of the '%s' of %s must be a name",
+				    key, what);
 	*out = item->text;
 	return true;
 }
@@ -689,9 +717,11 @@ static bool expand(struct gp_design *design, size_t at,
 	char what[160];
 	snprintf(what, sizeof(what), "icon '%s'", first.name);
 	if (a->arc && a->turn && first.kind == GP_ICON_TEXT)
-		return gp_diag_error(diag, &a->node->where,
-				     "%s: text does not turn along an arc; "
-				     "give the array 'turn: false'", what);
+		return gp_diag_fail(diag, GP_MSG_KEY_DOES_NOT_APPLY,
+				    &a->node->where,
+				    "%s: text does not turn along an arc; "
+				    "give the array 'turn: false'",
+				    what);
 	bool ok = true;
 	for (long k = 0; ok && k < a->count; k++) {
 		struct gp_icon *cell = &design->icons[at + (size_t)k];
@@ -733,11 +763,12 @@ static bool expand(struct gp_design *design, size_t at,
 			cell->segment = cell->made_segment;
 		} else if (!first.auto_slot && !a->commons &&
 			   first.segment_digits >= 0) {
-			ok = gp_diag_error(diag, &first.segment_where,
-					   "%s: the cells of an array need a "
-					   "segment each; give 'segments' or "
-					   "'commons' as lists, or 'slot: auto'",
-					   what);
+			ok = gp_diag_fail(diag, GP_MSG_MISSING_ONE_OF,
+					  &first.segment_where,
+					  "%s: the cells of an array need a "
+					  "segment each; give 'segments' or "
+					  "'commons' as lists, or 'slot: auto'",
+					  what);
 		}
 	}
 	free(first.points);
@@ -750,11 +781,13 @@ static bool unique_names(const struct gp_design *design, struct gp_diag *diag)
 		for (size_t j = 0; j < i; j++)
 			if (strcmp(design->icons[i].name,
 				   design->icons[j].name) == 0)
-				return gp_diag_error(
-					diag, &design->icons[i].where,
+				return gp_diag_fail(
+					diag, GP_MSG_DUPLICATE_NAME,
+					&design->icons[i].where,
 					"icon name '%s' is used twice (a cell "
 					"of an array is named after it and its "
-					"number)", design->icons[i].name);
+					"number)",
+					design->icons[i].name);
 	return true;
 }
 
@@ -764,9 +797,9 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 	if (!gp_node_expect_map(node, diag))
 		return false;
 	if (node->count > GP_MAX_ICONS)
-		return gp_diag_error(diag, &node->where,
-				     "%zu icons; the limit is %d", node->count,
-				     GP_MAX_ICONS);
+		return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, &node->where,
+				    "%zu icons; the limit is %d", node->count,
+				    GP_MAX_ICONS);
 	size_t capacity = node->count ? node->count : 1;
 	design->icons = calloc(capacity, sizeof(*design->icons));
 	if (!design->icons)
@@ -787,10 +820,11 @@ bool gp_icons_read(struct gp_design *design, const struct gp_node *node,
 		arrays = true;
 		size_t need = at + (size_t)a.count + (node->count - i - 1);
 		if (need > GP_MAX_ICONS)
-			return gp_diag_error(diag, &a.node->where,
-					     "%zu icons with the cells of the "
-					     "arrays; the limit is %d", need,
-					     GP_MAX_ICONS);
+			return gp_diag_fail(diag, GP_MSG_OVER_LIMIT,
+					    &a.node->where,
+					    "%zu icons with the cells of the "
+					    "arrays; the limit is %d",
+					    need, GP_MAX_ICONS);
 		if (need > capacity) {
 			struct gp_icon *grown = realloc(design->icons,
 							need * sizeof(*grown));

@@ -45,11 +45,11 @@ static void check_glass_limit(struct gp_reader *r, const struct gp_node *node,
 		char text[32];
 		gp_format_mm_short(text, sizeof(text),
 				   position[i] < -limit ? position[i] : far);
-		r->ok = gp_diag_error(r->diag, &node->where,
-				      "%s reaches %s = %s mm; every plate "
-				      "must lie within %d mm of the origin",
-				      r->what, i ? "y" : "x", text,
-				      GP_MAX_GLASS_MM);
+		r->ok = gp_diag_fail(r->diag, GP_MSG_OUT_OF_RANGE, &node->where,
+				     "%s reaches %s = %s mm; every plate "
+				     "must lie within %d mm of the origin",
+				     r->what, i ? "y" : "x", text,
+				     GP_MAX_GLASS_MM);
 	}
 }
 
@@ -114,10 +114,11 @@ static bool check_plates(const struct gp_design *design, struct gp_diag *diag)
 {
 	struct gp_box f = design->front.box, b = design->back.box;
 	if (f.x1 <= b.x0 || b.x1 <= f.x0 || f.y1 <= b.y0 || b.y1 <= f.y0)
-		return gp_diag_error(diag, &design->back.where,
-				     "the back plate does not overlap the "
-				     "front plate; check both 'position' "
-				     "values");
+		return gp_diag_fail(diag, GP_MSG_PLATES_APART,
+				    &design->back.where,
+				    "the back plate does not overlap the "
+				    "front plate; check both 'position' "
+				    "values");
 	return true;
 }
 
@@ -202,8 +203,10 @@ static struct gp_design *load(struct gp_spec *spec,
 	if (!spec)
 		return NULL;
 	if (count > GP_SPEC_MAX_OVERRIDES) {
-		gp_diag_error(diag, NULL, "%zu overrides (--set); the limit is "
-			      "%d", count, GP_SPEC_MAX_OVERRIDES);
+		gp_diag_fail(diag, GP_MSG_OVER_LIMIT, NULL,
+			     "%zu overrides (--set); the limit is "
+			     "%d",
+			     count, GP_SPEC_MAX_OVERRIDES);
 		gp_spec_destroy(spec);
 		return NULL;
 	}

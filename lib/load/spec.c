@@ -92,14 +92,16 @@ static bool check_map_keys(struct convert *c, struct gp_node *node)
 	for (size_t i = 0; i < node->count; i++) {
 		struct gp_node *key = node->keys[i];
 		if (key->kind != GP_NODE_SCALAR)
-			return gp_diag_error(c->diag, &key->where,
-					     "a key must be a plain word, not "
-					     "a %s",
-					     gp_node_kind_name(key->kind));
+			return gp_diag_fail(c->diag, GP_MSG_KEY_NOT_WORD,
+					    &key->where,
+					    "a key must be a plain word, not "
+					    "a %s",
+					    gp_node_kind_name(key->kind));
 		for (size_t j = 0; j < i; j++)
 			if (strcmp(node->keys[j]->text, key->text) == 0)
-				return gp_diag_error(
-					c->diag, &key->where,
+				return gp_diag_fail(
+					c->diag, GP_MSG_DUPLICATE_KEY,
+					&key->where,
 					"duplicate key '%s' (first given at "
 					"line %d); each key may appear once",
 					key->text, node->keys[j]->where.line);
@@ -118,17 +120,19 @@ static bool printable(const char *text, const struct gp_where *where,
 		uint32_t cp;
 		size_t n = gp_utf8_next(p, &cp);
 		if (n == 1 && cp >= 0x80)
-			return gp_diag_error(diag, where,
-					     "a value holds the byte 0x%02X "
-					     "at byte %zu, which is not UTF-8",
-					     (unsigned)cp, (size_t)(p - text) + 1);
+			return gp_diag_fail(diag, GP_MSG_NOT_UTF8, where,
+					    "a value holds the byte 0x%02X "
+					    "at byte %zu, which is not UTF-8",
+					    (unsigned)cp,
+					    (size_t)(p - text) + 1);
 		if (gp_is_control(cp))
-			return gp_diag_error(diag, where,
-					     "a value holds the control "
-					     "character U+%04X at byte %zu; "
-					     "names and texts take printable "
-					     "characters only",
-					     (unsigned)cp, (size_t)(p - text) + 1);
+			return gp_diag_fail(
+				diag, GP_MSG_CONTROL_CHARACTER, where,
+				"a value holds the control "
+				"character U+%04X at byte %zu; "
+				"names and texts take printable "
+				"characters only",
+				(unsigned)cp, (size_t)(p - text) + 1);
 		p += n;
 	}
 	return true;
@@ -141,17 +145,17 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		return NULL;
 	struct gp_where where = where_of(c, ynode->start_mark);
 	if (depth > GP_SPEC_MAX_DEPTH) {
-		gp_diag_error(c->diag, &where,
-			      "nesting deeper than %d levels; the description "
-			      "format never needs that much",
-			      GP_SPEC_MAX_DEPTH);
+		gp_diag_fail(c->diag, GP_MSG_TOO_DEEP, &where,
+			     "nesting deeper than %d levels; the description "
+			     "format never needs that much",
+			     GP_SPEC_MAX_DEPTH);
 		return NULL;
 	}
 	if (++c->nodes > GP_SPEC_MAX_NODES) {
-		gp_diag_error(c->diag, &where,
-			      "more than %d values (aliases count each time "
-			      "they are used); the description is too large",
-			      GP_SPEC_MAX_NODES);
+		gp_diag_fail(c->diag, GP_MSG_TOO_MANY_VALUES, &where,
+			     "more than %d values (aliases count each time "
+			     "they are used); the description is too large",
+			     GP_SPEC_MAX_NODES);
 		return NULL;
 	}
 	struct gp_node *node = calloc(1, sizeof(*node));
@@ -171,16 +175,17 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		if (!node->text)
 			ok = gp_diag_oom(c->diag, &where);
 		else if (strlen(node->text) != ynode->data.scalar.length)
-			ok = gp_diag_error(c->diag, &where,
-					   "a value contains a NUL character");
+			ok = gp_diag_fail(c->diag, GP_MSG_CONTROL_CHARACTER,
+					  &where,
+					  "a value contains a NUL character");
 		else if (!printable(node->text, &where, c->diag))
 			ok = false;
 		else if (ynode->data.scalar.length > GP_SPEC_MAX_SCALAR)
-			ok = gp_diag_error(c->diag, &where,
-					   "a value is %zu bytes long; the "
-					   "limit is %d",
-					   ynode->data.scalar.length,
-					   GP_SPEC_MAX_SCALAR);
+			ok = gp_diag_fail(
+				c->diag, GP_MSG_VALUE_TOO_LONG, &where,
+				"a value is %zu bytes long; the "
+				"limit is %d",
+				ynode->data.scalar.length, GP_SPEC_MAX_SCALAR);
 		break;
 	case YAML_SEQUENCE_NODE:
 		node->kind = GP_NODE_SEQUENCE;
@@ -192,7 +197,8 @@ static struct gp_node *convert_node(struct convert *c, yaml_node_t *ynode,
 		     check_map_keys(c, node);
 		break;
 	default:
-		ok = gp_diag_error(c->diag, &where, "empty YAML node");
+		ok = gp_diag_fail(c->diag, GP_MSG_EMPTY_NODE, &where,
+				  "empty YAML node");
 		break;
 	}
 	if (!ok) {
@@ -232,14 +238,16 @@ static void yaml_error(const yaml_parser_t *parser, const char *file,
 		where.line = where.col = 0;
 	const char *problem = parser->problem ? parser->problem : "unknown";
 	if (parser->error == YAML_READER_ERROR && parser->problem_value >= 0)
-		gp_diag_error(diag, &where, "bad YAML: %s (byte 0x%02x); "
-			      "expected UTF-8 text", problem,
-			      (unsigned)parser->problem_value & 0xff);
+		gp_diag_fail(diag, GP_MSG_BAD_YAML, &where,
+			     "bad YAML: %s (byte 0x%02x); "
+			     "expected UTF-8 text",
+			     problem, (unsigned)parser->problem_value & 0xff);
 	else if (parser->context)
-		gp_diag_error(diag, &where, "bad YAML: %s %s", problem,
-			      parser->context);
+		gp_diag_fail(diag, GP_MSG_BAD_YAML, &where, "bad YAML: %s %s",
+			     problem, parser->context);
 	else
-		gp_diag_error(diag, &where, "bad YAML: %s", problem);
+		gp_diag_fail(diag, GP_MSG_BAD_YAML, &where, "bad YAML: %s",
+			     problem);
 }
 
 /* A second document would be silently ignored: refuse it. */
@@ -260,9 +268,9 @@ static bool single_document(yaml_parser_t *parser, const char *file,
 	}
 	yaml_document_delete(&next);
 	if (root)
-		return gp_diag_error(diag, &where,
-				     "a second YAML document starts here; a "
-				     "description is one document");
+		return gp_diag_fail(diag, GP_MSG_SECOND_DOCUMENT, &where,
+				    "a second YAML document starts here; a "
+				    "description is one document");
 	return true;
 }
 
@@ -298,21 +306,22 @@ static bool check_event(const yaml_event_t *event, int level,
 	}
 	struct gp_where where = where_of_mark(file, flat, event->start_mark);
 	if (level > GP_SPEC_MAX_DEPTH)
-		return gp_diag_error(diag, &where,
-				     "nesting deeper than %d levels; the "
-				     "description format never needs that "
-				     "much", GP_SPEC_MAX_DEPTH);
+		return gp_diag_fail(diag, GP_MSG_TOO_DEEP, &where,
+				    "nesting deeper than %d levels; the "
+				    "description format never needs that "
+				    "much",
+				    GP_SPEC_MAX_DEPTH);
 	static const char core[] = "tag:yaml.org,2002:";
 	if (tag && strncmp((const char *)tag, core, strlen(core)) == 0)
-		return gp_diag_error(diag, &where,
-				     "YAML tag '!!%.64s' given; the description "
-				     "format has no tags: remove it",
-				     (const char *)tag + strlen(core));
+		return gp_diag_fail(diag, GP_MSG_YAML_TAG, &where,
+				    "YAML tag '!!%.64s' given; the description "
+				    "format has no tags: remove it",
+				    (const char *)tag + strlen(core));
 	if (tag)
-		return gp_diag_error(diag, &where,
-				     "YAML tag '%.64s' given; the description "
-				     "format has no tags: remove it",
-				     (const char *)tag);
+		return gp_diag_fail(diag, GP_MSG_YAML_TAG, &where,
+				    "YAML tag '%.64s' given; the description "
+				    "format has no tags: remove it",
+				    (const char *)tag);
 	return true;
 }
 
@@ -385,9 +394,10 @@ static struct gp_node *parse_tree(const char *file, const char *data,
 	if (top)
 		root = convert_node(&c, top, 0);
 	else
-		gp_diag_error(diag, &(struct gp_where){ file, 1, 1 },
-			      "the description is empty; expected a map of "
-			      "sections such as 'front', 'back' and 'blocks'");
+		gp_diag_fail(diag, GP_MSG_EMPTY_DESCRIPTION,
+			     &(struct gp_where){file, 1, 1},
+			     "the description is empty; expected a map of "
+			     "sections such as 'front', 'back' and 'blocks'");
 	*nodes = c.nodes;
 	yaml_document_delete(&document);
 	yaml_parser_delete(&parser);
@@ -398,9 +408,9 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 				    size_t size, struct gp_diag *diag)
 {
 	if (size > GP_SPEC_MAX_BYTES) {
-		gp_diag_error(diag, NULL,
-			      "%s: the description is larger than %d bytes",
-			      name, GP_SPEC_MAX_BYTES);
+		gp_diag_fail(diag, GP_MSG_FILE_TOO_LARGE, NULL,
+			     "%s: the description is larger than %d bytes",
+			     name, GP_SPEC_MAX_BYTES);
 		return NULL;
 	}
 	struct gp_spec *spec = calloc(1, sizeof(*spec));
@@ -412,10 +422,10 @@ struct gp_spec *gp_spec_load_buffer(const char *name, const char *data,
 	spec->root = parse_tree(spec->file, data, size, false,
 				&spec->node_count, diag);
 	if (spec->root && spec->root->kind != GP_NODE_MAP) {
-		gp_diag_error(diag, &spec->root->where,
-			      "the description must be a map of sections "
-			      "(key: value), not a %s",
-			      gp_node_kind_name(spec->root->kind));
+		gp_diag_fail(diag, GP_MSG_NOT_A_MAP, &spec->root->where,
+			     "the description must be a map of sections "
+			     "(key: value), not a %s",
+			     gp_node_kind_name(spec->root->kind));
 		gp_spec_destroy(spec);
 		return NULL;
 	}
@@ -430,8 +440,8 @@ struct gp_spec *gp_spec_load_file(const char *path, struct gp_diag *diag)
 {
 	FILE *file = fopen(path, "rb");
 	if (!file) {
-		gp_diag_error(diag, NULL, "%s: cannot open: %s", path,
-			      strerror(errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_OPEN, NULL,
+			     "%s: cannot open: %s", path, strerror(errno));
 		return NULL;
 	}
 	char *data = malloc(GP_SPEC_MAX_BYTES + 1);
@@ -440,8 +450,9 @@ struct gp_spec *gp_spec_load_file(const char *path, struct gp_diag *diag)
 	fclose(file);
 	struct gp_spec *spec = NULL;
 	if (failed)
-		gp_diag_error(diag, NULL, "%s: cannot read: %s", path,
-			      data ? strerror(errno) : "out of memory");
+		gp_diag_fail(diag, GP_MSG_CANNOT_READ, NULL,
+			     "%s: cannot read: %s", path,
+			     data ? strerror(errno) : "out of memory");
 	else
 		spec = gp_spec_load_buffer(path, data, size, diag);
 	free(data);
@@ -543,20 +554,21 @@ static bool graft(struct gp_spec *spec, char *path, struct gp_node *value,
 		}
 		if (!found || found->kind == GP_NODE_SCALAR) {
 			node_destroy(value);
-			return gp_diag_error(diag, &where,
-					     "'%s' is not a section of the "
-					     "description; expected a key "
-					     "path such as "
-					     "blocks.main.cell_pitch",
-					     part);
+			return gp_diag_fail(diag, GP_MSG_UNKNOWN_SECTION,
+					    &where,
+					    "'%s' is not a section of the "
+					    "description; expected a key "
+					    "path such as "
+					    "blocks.main.cell_pitch",
+					    part);
 		}
 		node = found;
 		part = next;
 	}
 	node_destroy(value);
-	return gp_diag_error(diag, &where,
-			     "cannot set this path: its last part must name "
-			     "a key or a sequence item (from 1)");
+	return gp_diag_fail(diag, GP_MSG_BAD_KEY_PATH, &where,
+			    "cannot set this path: its last part must name "
+			    "a key or a sequence item (from 1)");
 }
 
 /* Every part of a key path names something: no empty part, none longer
@@ -568,19 +580,20 @@ static bool check_path(const char *path, size_t length,
 	for (size_t i = 0; i <= length; i++) {
 		if (i < length && path[i] != '.') {
 			if (++part > GP_SPEC_MAX_SCALAR)
-				return gp_diag_error(diag, where,
-						     "a part of the key path "
-						     "is longer than %d bytes",
-						     GP_SPEC_MAX_SCALAR);
+				return gp_diag_fail(diag, GP_MSG_BAD_KEY_PATH,
+						    where,
+						    "a part of the key path "
+						    "is longer than %d bytes",
+						    GP_SPEC_MAX_SCALAR);
 			continue;
 		}
 		if (part == 0)
-			return gp_diag_error(diag, where,
-					     "the key path '%.*s' has an "
-					     "empty part; expected a key path "
-					     "such as blocks.main.cell_pitch",
-					     length > 200 ? 200 : (int)length,
-					     path);
+			return gp_diag_fail(diag, GP_MSG_BAD_KEY_PATH, where,
+					    "the key path '%.*s' has an "
+					    "empty part; expected a key path "
+					    "such as blocks.main.cell_pitch",
+					    length > 200 ? 200 : (int)length,
+					    path);
 		part = 0;
 	}
 	return true;
@@ -593,9 +606,9 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 	snprintf(label, sizeof(label), "--set #%d", number);
 	const char *equals = strchr(assignment, '=');
 	if (!equals || equals == assignment)
-		return gp_diag_error(diag, NULL,
-				     "%s: expected KEY.PATH=VALUE, got '%s'",
-				     label, assignment);
+		return gp_diag_fail(diag, GP_MSG_BAD_OVERRIDE, NULL,
+				    "%s: expected KEY.PATH=VALUE, got '%s'",
+				    label, assignment);
 	/* grafted nodes name the override as their file */
 	struct gp_where where = { remember(&spec->labels, &spec->label_count,
 					   label), 0, 0 };
@@ -606,8 +619,8 @@ bool gp_spec_override(struct gp_spec *spec, const char *assignment,
 		return false;
 	const char *text = equals + 1;
 	if (!*text)
-		return gp_diag_error(diag, &where,
-				     "the value after '=' is empty");
+		return gp_diag_fail(diag, GP_MSG_BAD_OVERRIDE, &where,
+				    "the value after '=' is empty");
 	struct gp_node *value = parse_tree(where.file, text, strlen(text),
 					   true, &spec->node_count, diag);
 	if (!value)
@@ -648,9 +661,9 @@ void gp_reader_begin(struct gp_reader *reader, const struct gp_node *node,
 	reader->diag = diag;
 	reader->ok = true;
 	if (node && node->kind != GP_NODE_MAP) {
-		reader->ok = gp_diag_error(diag, &node->where,
-					   "%s must be a map of keys, not a %s",
-					   what, gp_node_kind_name(node->kind));
+		reader->ok = gp_diag_fail(diag, GP_MSG_NOT_A_MAP, &node->where,
+					  "%s must be a map of keys, not a %s",
+					  what, gp_node_kind_name(node->kind));
 		return;
 	}
 	reader->map = node;
@@ -737,15 +750,15 @@ bool gp_reader_end(struct gp_reader *reader)
 		const char *near = gp_nearest_word(key->text, reader->known,
 						   reader->known_count);
 		if (near) {
-			reader->ok = gp_diag_error(
-				reader->diag, &key->where,
+			reader->ok = gp_diag_fail(
+				reader->diag, GP_MSG_UNKNOWN_KEY, &key->where,
 				"unknown key '%s' in %s; did you mean '%s'?",
 				key->text, reader->what, near);
 		} else {
 			char known_list[1024];
 			list_known(reader, known_list, sizeof(known_list));
-			reader->ok = gp_diag_error(
-				reader->diag, &key->where,
+			reader->ok = gp_diag_fail(
+				reader->diag, GP_MSG_UNKNOWN_KEY, &key->where,
 				"unknown key '%s' in %s; expected one of: %s",
 				key->text, reader->what, known_list);
 		}
@@ -796,14 +809,16 @@ const struct gp_node *gp_read_node(struct gp_reader *reader, const char *key,
 	if (!node && required && reader->map) {
 		reader->ok = false;
 		if (empty)
-			gp_diag_error(reader->diag, &empty->where,
-				      "required key '%s' in %s has no value",
-				      key, reader->what);
+			gp_diag_fail(reader->diag, GP_MSG_EMPTY_VALUE,
+				     &empty->where,
+				     "required key '%s' in %s has no value",
+				     key, reader->what);
 		/* a misspelt key is reported once, as unknown, at the end */
 		else if (!misspelt(reader, key))
-			gp_diag_error(reader->diag, &reader->map->where,
-				      "missing required key '%s' in %s", key,
-				      reader->what);
+			gp_diag_fail(reader->diag, GP_MSG_MISSING_KEY,
+				     &reader->map->where,
+				     "missing required key '%s' in %s", key,
+				     reader->what);
 	}
 	return node;
 }
@@ -820,9 +835,9 @@ static bool scalar_of(const struct gp_node *node, const char *key,
 {
 	if (node->kind == GP_NODE_SCALAR)
 		return true;
-	return gp_diag_error(diag, &node->where,
-			     "'%s' must be %s, not a %s", key, expected,
-			     gp_node_kind_name(node->kind));
+	return gp_diag_fail(diag, GP_MSG_WRONG_KIND, &node->where,
+			    "'%s' must be %s, not a %s", key, expected,
+			    gp_node_kind_name(node->kind));
 }
 
 static bool length_of(const struct gp_node *node, const char *key,
@@ -832,8 +847,8 @@ static bool length_of(const struct gp_node *node, const char *key,
 		return false;
 	const char *why;
 	if (!gp_parse_mm(node->text, out, &why))
-		return gp_diag_error(diag, &node->where, "'%s' value '%s' %s",
-				     key, node->text, why);
+		return gp_diag_fail(diag, GP_MSG_BAD_VALUE, &node->where,
+				    "'%s' value '%s' %s", key, node->text, why);
 	return true;
 }
 
@@ -861,9 +876,9 @@ bool gp_read_size(struct gp_reader *reader, const char *key, bool required,
 	if (!length_of(node, key, reader->diag, out))
 		return fail(reader);
 	if (*out <= 0) {
-		gp_diag_error(reader->diag, &node->where,
-			      "'%s' must be greater than zero, got %s", key,
-			      node->text);
+		gp_diag_fail(reader->diag, GP_MSG_NOT_POSITIVE, &node->where,
+			     "'%s' must be greater than zero, got %s", key,
+			     node->text);
 		return fail(reader);
 	}
 	return true;
@@ -876,10 +891,10 @@ static bool pair_of(struct gp_reader *reader, const char *key, bool required,
 	if (!node)
 		return !required;
 	if (node->kind != GP_NODE_SEQUENCE || node->count != 2) {
-		gp_diag_error(reader->diag, &node->where,
-			      "'%s' must be a pair of lengths [x, y] in "
-			      "millimetres",
-			      key);
+		gp_diag_fail(reader->diag, GP_MSG_NOT_A_PAIR, &node->where,
+			     "'%s' must be a pair of lengths [x, y] in "
+			     "millimetres",
+			     key);
 		return fail(reader);
 	}
 	int64_t values[2];
@@ -888,10 +903,11 @@ static bool pair_of(struct gp_reader *reader, const char *key, bool required,
 		if (!length_of(item, key, reader->diag, &values[i]))
 			return fail(reader);
 		if (positive && values[i] <= 0) {
-			gp_diag_error(reader->diag, &item->where,
-				      "'%s' values must be greater than zero, "
-				      "got %s",
-				      key, item->text);
+			gp_diag_fail(reader->diag, GP_MSG_NOT_POSITIVE,
+				     &item->where,
+				     "'%s' values must be greater than zero, "
+				     "got %s",
+				     key, item->text);
 			return fail(reader);
 		}
 	}
@@ -923,13 +939,13 @@ static bool int_of(const struct gp_node *node, const char *key,
 	long value = strtol(p, &end, 10);
 	if (node->quoted || *p == '\0' || *end != '\0' || errno == ERANGE ||
 	    (*p != '-' && *p != '+' && (*p < '0' || *p > '9')))
-		return gp_diag_error(diag, &node->where,
-				     "'%s' must be a whole number, got '%s'",
-				     key, node->text);
+		return gp_diag_fail(diag, GP_MSG_NOT_WHOLE, &node->where,
+				    "'%s' must be a whole number, got '%s'",
+				    key, node->text);
 	if (value < min || value > max)
-		return gp_diag_error(diag, &node->where,
-				     "'%s' must be from %ld to %ld, got %ld",
-				     key, min, max, value);
+		return gp_diag_fail(diag, GP_MSG_OUT_OF_RANGE, &node->where,
+				    "'%s' must be from %ld to %ld, got %ld",
+				    key, min, max, value);
 	*out = value;
 	return true;
 }
@@ -956,9 +972,9 @@ bool gp_read_int_pair(struct gp_reader *reader, const char *key,
 	if (!node)
 		return !required;
 	if (node->kind != GP_NODE_SEQUENCE || node->count != 2) {
-		gp_diag_error(reader->diag, &node->where,
-			      "'%s' must be a pair of whole numbers [x, y]",
-			      key);
+		gp_diag_fail(reader->diag, GP_MSG_NOT_A_PAIR, &node->where,
+			     "'%s' must be a pair of whole numbers [x, y]",
+			     key);
 		return fail(reader);
 	}
 	long values[2];
@@ -979,13 +995,13 @@ static bool double_of(const struct gp_node *node, const char *key,
 		return false;
 	double value = 0;
 	if (node->quoted || !gp_parse_decimal(node->text, &value))
-		return gp_diag_error(diag, &node->where,
-				     "'%s' must be a number, got '%s'", key,
-				     node->text);
+		return gp_diag_fail(diag, GP_MSG_NOT_A_NUMBER, &node->where,
+				    "'%s' must be a number, got '%s'", key,
+				    node->text);
 	if (value < min || value > max)
-		return gp_diag_error(diag, &node->where,
-				     "'%s' must be from %g to %g, got %s", key,
-				     min, max, node->text);
+		return gp_diag_fail(diag, GP_MSG_OUT_OF_RANGE, &node->where,
+				    "'%s' must be from %g to %g, got %s", key,
+				    min, max, node->text);
 	*out = value;
 	return true;
 }
@@ -1024,8 +1040,8 @@ bool gp_read_bool(struct gp_reader *reader, const char *key, bool required,
 		*out = false;
 		return true;
 	}
-	gp_diag_error(reader->diag, &node->where,
-		      "'%s' must be true or false, got '%s'", key, node->text);
+	gp_diag_fail(reader->diag, GP_MSG_NOT_BOOLEAN, &node->where,
+		     "'%s' must be true or false, got '%s'", key, node->text);
 	return fail(reader);
 }
 
@@ -1064,15 +1080,15 @@ bool gp_read_choice(struct gp_reader *reader, const char *key, bool required,
 	}
 	const char *near = gp_nearest_word(node->text, choices, count);
 	if (near)
-		gp_diag_error(reader->diag, &node->where,
-			      "'%s' value '%s' is not known; did you mean "
-			      "'%s'? (one of: %s)",
-			      key, node->text, near, list);
+		gp_diag_fail(reader->diag, GP_MSG_UNKNOWN_CHOICE, &node->where,
+			     "'%s' value '%s' is not known; did you mean "
+			     "'%s'? (one of: %s)",
+			     key, node->text, near, list);
 	else
-		gp_diag_error(reader->diag, &node->where,
-			      "'%s' value '%s' is not known; expected one "
-			      "of: %s",
-			      key, node->text, list);
+		gp_diag_fail(reader->diag, GP_MSG_UNKNOWN_CHOICE, &node->where,
+			     "'%s' value '%s' is not known; expected one "
+			     "of: %s",
+			     key, node->text, list);
 	return fail(reader);
 }
 
@@ -1080,13 +1096,13 @@ bool gp_node_expect_sequence(const struct gp_node *node, size_t count,
 			     struct gp_diag *diag)
 {
 	if (node->kind != GP_NODE_SEQUENCE)
-		return gp_diag_error(diag, &node->where,
-				     "expected a list, not a %s",
-				     gp_node_kind_name(node->kind));
+		return gp_diag_fail(diag, GP_MSG_NOT_A_LIST, &node->where,
+				    "expected a list, not a %s",
+				    gp_node_kind_name(node->kind));
 	if (count && node->count != count)
-		return gp_diag_error(diag, &node->where,
-				     "expected a list of %zu items, got %zu",
-				     count, node->count);
+		return gp_diag_fail(diag, GP_MSG_WRONG_COUNT, &node->where,
+				    "expected a list of %zu items, got %zu",
+				    count, node->count);
 	return true;
 }
 
@@ -1094,14 +1110,18 @@ bool gp_node_expect_map(const struct gp_node *node, struct gp_diag *diag)
 {
 	if (node->kind == GP_NODE_MAP)
 		return true;
-	return gp_diag_error(diag, &node->where, "expected a map of keys, "
-			     "not a %s", gp_node_kind_name(node->kind));
+	return gp_diag_fail(diag, GP_MSG_NOT_A_MAP, &node->where,
+			    "expected a map of keys, "
+			    "not a %s",
+			    gp_node_kind_name(node->kind));
 }
 
 bool gp_node_expect_scalar(const struct gp_node *node, struct gp_diag *diag)
 {
 	if (node->kind == GP_NODE_SCALAR)
 		return true;
-	return gp_diag_error(diag, &node->where, "expected a single value, "
-			     "not a %s", gp_node_kind_name(node->kind));
+	return gp_diag_fail(diag, GP_MSG_WRONG_KIND, &node->where,
+			    "expected a single value, "
+			    "not a %s",
+			    gp_node_kind_name(node->kind));
 }

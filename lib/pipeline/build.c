@@ -99,12 +99,7 @@ static void forward_drive_messages(struct gp_diag *scratch, bool resolved,
 		const struct gp_diag_entry *e = &scratch->entries[i];
 		if (e->severity == GP_SEVERITY_ERROR && resolved)
 			continue;
-		if (e->severity == GP_SEVERITY_ERROR)
-			gp_diag_error(diag, NULL, "%s", e->message);
-		else if (e->severity == GP_SEVERITY_WARNING)
-			gp_diag_warning(diag, NULL, "%s", e->message);
-		else
-			gp_diag_note(diag, NULL, "%s", e->message);
+		gp_diag_copy(diag, e);
 	}
 }
 

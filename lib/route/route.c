@@ -1546,14 +1546,8 @@ static bool check_seal_fits(struct route *r)
 
 static void forward(struct gp_diag *to, const struct gp_diag *from)
 {
-	for (size_t i = 0; i < from->count; i++) {
-		const char *m = from->entries[i].message;
-		switch (from->entries[i].severity) {
-		case GP_SEVERITY_ERROR: gp_diag_error(to, NULL, "%s", m); break;
-		case GP_SEVERITY_WARNING: gp_diag_warning(to, NULL, "%s", m); break;
-		default: gp_diag_note(to, NULL, "%s", m); break;
-		}
-	}
+	for (size_t i = 0; i < from->count; i++)
+		gp_diag_copy(to, &from->entries[i]);
 }
 
 /* Ends for every net, then the leads toward each ledge round what is in
