@@ -106,6 +106,16 @@ GP_EXPORT bool gp_build_select(struct gp_build *build, const char *kinds,
  * can refuse a bad list before any work: an empty list, an empty item, an
  * unknown kind and a kind listed twice are errors. */
 GP_EXPORT bool gp_output_kinds_check(const char *kinds, struct gp_diag *diag);
+/* Which Gerber sets to write: "viewer" (NAME.gbr, every layer as the
+ * viewer sees the glass; the default), "coated" (NAME-coated.gbr, every
+ * layer as seen looking at its plate's coated face, where the mask or
+ * screen lies: the front plate's layers mirrored about the vertical line
+ * through the front plate's centre, the back plate's as the viewer's) or
+ * "both".  False, with a message, for anything else. */
+GP_EXPORT bool gp_build_set_faces(struct gp_build *build, const char *which,
+				  struct gp_diag *diag);
+/* The same check without a build, for refusing a bad value early. */
+GP_EXPORT bool gp_faces_check(const char *which, struct gp_diag *diag);
 /* Files read besides the description (fonts...), one per line. */
 GP_EXPORT const char *gp_build_inputs(const struct gp_build *build);
 GP_EXPORT void gp_build_destroy(struct gp_build *build);

@@ -70,6 +70,25 @@ static bool attributes_kept(const struct gr_file *f, char *why, size_t size)
 	return true;
 }
 
+/* The header says which side the file is drawn from: a G04 comment
+ * before the first command (4.1) and, but for a profile (whose
+ * .FileFunction has no free field, 5.6.3), the .FileFunction text. */
+static bool side_stated(const struct gr_file *f, const char *text, char *why,
+			size_t size)
+{
+	const char *format = strstr(text, "%FS");
+	const char *side = strstr(text, "\nG04 Seen from the ");
+	if (!format || !side || side > format)
+		return snprintf(why, size, "no G04 comment in the header "
+				"saying which side it is seen from") < 0;
+	const char *function = gr_attribute(f, ".FileFunction");
+	if (strcmp(function, "Profile,NP") != 0 &&
+	    !strstr(function, " seen from the "))
+		return snprintf(why, size, ".FileFunction '%s' does not say "
+				"which side it is seen from", function) < 0;
+	return true;
+}
+
 int main(int argc, char **argv)
 {
 	int bad = 0;
@@ -86,7 +105,8 @@ int main(int argc, char **argv)
 		if (!gr_read(text, size, &file)) {
 			printf("%s: %s\n", argv[i], file.error);
 			bad++;
-		} else if (!attributes_kept(&file, why, sizeof(why))) {
+		} else if (!attributes_kept(&file, why, sizeof(why)) ||
+			   !side_stated(&file, text, why, sizeof(why))) {
 			printf("%s: %s\n", argv[i], why);
 			bad++;
 		}

@@ -20,6 +20,7 @@
 #include "gerber-read.h"
 #include "gerber.h"
 #include "gerbv-render.h"
+#include "units.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -287,7 +288,7 @@ static void test_header(void **state)
 	assert_string_equal(gr_attribute(&f, ".GenerationSoftware"),
 			    "glassplot,glassplot,0.1.0");
 	assert_string_equal(gr_attribute(&f, ".FileFunction"),
-			    "Other,front-ito");
+			    "Other,front-ito seen from the viewer");
 	assert_string_equal(gr_attribute(&f, ".FilePolarity"), "Positive");
 	assert_string_equal(gr_attribute(&f, ".Part"), "Single");
 	assert_string_equal(gr_attribute(&f, ".SameCoordinates"), "GX-1001");
@@ -395,7 +396,8 @@ static void test_creation_date(void **state)
 	read_back(text, &f);
 	assert_string_equal(gr_attribute(&f, ".CreationDate"),
 			    "2023-11-14T22:13:20+00:00");
-	assert_string_equal(gr_attribute(&f, ".FileFunction"), "Other,seal");
+	assert_string_equal(gr_attribute(&f, ".FileFunction"),
+			    "Other,seal seen from the viewer");
 	gr_file_finish(&f);
 	free(text);
 	gp_artwork_finish(&art);
@@ -1092,6 +1094,103 @@ static void test_random_digits(void **state)
 
 /* --- apertures, strokes and flashes -------------------------------------- */
 
+/* The axis a coated-face file states in its header ("... about the
+ * vertical line X = 27.5 mm*"), in nm. */
+static int64_t stated_axis(const char *text)
+{
+	const char *p = strstr(text, "about the vertical line X = ");
+	assert_non_null(p);
+	int64_t nm;
+	char mm[40];
+	assert_int_equal(sscanf(p + strlen("about the vertical line X = "),
+				"%39[0-9.-] mm*", mm), 1);
+	assert_true(gp_parse_mm(mm, &nm, NULL));
+	return nm;
+}
+
+/* Point 4 of the view side: the front plate's coated-face file, read back
+ * by the project's reader, is the viewer's file reflected about the axis
+ * its header states, object by object and point by point (regions with
+ * holes of random plates, flashed pads, strokes, transfer flashes); the
+ * back plate's is the viewer's, only its header differs; both say which
+ * side they are drawn from in a G04 comment and in the free text of
+ * .FileFunction (5.6.3: "The mandatory field informally describes it"). */
+static void test_coated_face(void **state)
+{
+	(void)state;
+	struct gp_artwork art;
+	gp_artwork_init(&art);
+	for (uint64_t seed = 1; seed <= 20; seed++) {
+		struct gp_polygon poly;
+		random_plate(&poly, seed);
+		gp_polygon_translate(&poly, (int64_t)seed * 2 * MM, 0);
+		assert_non_null(gp_artwork_add_shape(&art, GP_LAYER_FRONT_ITO,
+						     GP_ROLE_ELECTRODE, 0,
+						     &poly));
+	}
+	add_box(&art, GP_LAYER_FRONT_ITO, GP_ROLE_PAD, MM, 0, 2 * MM, 3 * MM);
+	struct gp_shape *line = add_box(&art, GP_LAYER_FRONT_OUTLINE,
+					GP_ROLE_OUTLINE, 0, 0, 60 * MM,
+					20 * MM);
+	line->line_width = MM / 10;
+	add_box(&art, GP_LAYER_BACK_ITO, GP_ROLE_ELECTRODE, 3 * MM, MM,
+		7 * MM, 2 * MM);
+	struct gp_gerber_info viewer = info, coated = info;
+	coated.face = GP_GERBER_FACE_COATED;
+	coated.mirror_axis = 27 * MM + MM / 2;
+	static const enum gp_layer layers[] = { GP_LAYER_FRONT_ITO,
+						GP_LAYER_FRONT_OUTLINE,
+						GP_LAYER_BACK_ITO };
+	for (size_t l = 0; l < 3; l++) {
+		bool front = layers[l] != GP_LAYER_BACK_ITO;
+		char *a = write_layer(&art, layers[l], &viewer);
+		char *b = write_layer(&art, layers[l], &coated);
+		struct gr_file fa, fb;
+		read_back(a, &fa);
+		read_back(b, &fb);
+		int64_t axis = front ? stated_axis(b) : 0;
+		if (front)
+			assert_int_equal(axis, coated.mirror_axis);
+		else
+			assert_null(strstr(b, "mirrored about"));
+		assert_non_null(strstr(a, "G04 Seen from the viewer"));
+		assert_non_null(strstr(b, "G04 Seen from the coated face"));
+		if (layers[l] != GP_LAYER_FRONT_OUTLINE) {
+			assert_non_null(strstr(gr_attribute(&fa, ".FileFunction"),
+					       " seen from the viewer"));
+			assert_non_null(strstr(gr_attribute(&fb, ".FileFunction"),
+					       " seen from the coated face"));
+		}
+		/* 5.6.7: a mirrored file does not align with the others */
+		assert_string_equal(gr_attribute(&fb, ".SameCoordinates"),
+				    front ? "GX-1001 mirrored" : "GX-1001");
+		assert_int_equal(fa.object_count, fb.object_count);
+		assert_true(fa.object_count > 0);
+		size_t moved = 0;
+		for (size_t i = 0; i < fa.object_count; i++) {
+			const struct gr_object *oa = &fa.objects[i];
+			const struct gr_object *ob = &fb.objects[i];
+			assert_int_equal(oa->kind, ob->kind);
+			assert_int_equal(oa->points.count, ob->points.count);
+			for (size_t k = 0; k < oa->points.count; k++) {
+				struct gp_point p = oa->points.points[k];
+				struct gp_point q = ob->points.points[k];
+				int64_t x = front ? 2 * axis - p.x : p.x;
+				assert_int_equal(q.x, x);
+				assert_int_equal(q.y, p.y);
+				moved += q.x != p.x;
+			}
+		}
+		/* the reflection moved something: the test can fail */
+		assert_true(front ? moved > 0 : moved == 0);
+		gr_file_finish(&fa);
+		gr_file_finish(&fb);
+		free(a);
+		free(b);
+	}
+	gp_artwork_finish(&art);
+}
+
 static void test_pads(void **state)
 {
 	struct gp_artwork art;
@@ -1424,6 +1523,7 @@ int main(void)
 		cmocka_unit_test(test_random_star_plates),
 		cmocka_unit_test(test_random_text),
 		cmocka_unit_test(test_random_digits),
+		cmocka_unit_test(test_coated_face),
 		cmocka_unit_test(test_pads),
 		cmocka_unit_test(test_strokes),
 		cmocka_unit_test(test_bad_shapes),

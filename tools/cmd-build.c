@@ -27,6 +27,11 @@ int cmd_build(const struct tool_options *options)
 		gp_build_destroy(build);
 		build = NULL;
 	}
+	if (build && options->faces &&
+	    !gp_build_set_faces(build, options->faces, diag)) {
+		gp_build_destroy(build);
+		build = NULL;
+	}
 	if (build && (!options->only ||
 		      gp_build_select(build, options->only, diag)) &&
 	    gp_build_write(build, options->output, diag)) {

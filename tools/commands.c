@@ -23,6 +23,10 @@ static const struct tool_option build_options[] = {
 	{ OPTION_ONLY, 0, "only", "KINDS", false, false,
 	  "write only these outputs: a comma-separated\nlist of gerber, "
 	  "proof, pins, firmware, report" },
+	{ OPTION_FACES, 0, "faces", "WHICH", false, false,
+	  "Gerber files seen from the viewer (NAME.gbr,\nthe default), from "
+	  "each plate's coated face\n(NAME-coated.gbr: the front plate's "
+	  "mirrored)\nor both: viewer, coated or both" },
 	{ OPTION_JSON, 0, "json", NULL, false, false,
 	  "print the summary as JSON" },
 	{ OPTION_STRICT, 0, "strict", NULL, false, false,

@@ -208,6 +208,7 @@ static int take(struct parse *parse, const struct tool_option *option,
 			return tool_usage_error("out of memory");
 		break;
 	case OPTION_ONLY: o->only = value; break;
+	case OPTION_FACES: o->faces = value; break;
 	case OPTION_JSON: o->json = true; break;
 	case OPTION_STRICT: o->strict = true; break;
 	case OPTION_DEPFILE: o->depfile = value; break;
@@ -349,6 +350,24 @@ static const char *file_problem(const char *path)
 		       : "its folder is not there";
 }
 
+/* A value the library checks (a list of kinds, a set of files): -1 when
+ * it is absent or good, else the exit status after its messages. */
+static int check_with_library(const struct parse *parse, const char *option,
+			      const char *value,
+			      bool (*check)(const char *, struct gp_diag *))
+{
+	if (!value)
+		return -1;
+	struct gp_diag *diag = gp_diag_create();
+	if (!diag)
+		return tool_usage_error("out of memory");
+	bool ok = check(value, diag);
+	for (size_t i = 0; !ok && i < gp_diag_count(diag); i++)
+		parse_error(parse, "%s: %s", option, gp_diag_message(diag, i));
+	gp_diag_destroy(diag);
+	return ok ? -1 : EXIT_BAD_INPUT;
+}
+
 /* Values that can be checked before any work. */
 static int check_values(const struct parse *parse)
 {
@@ -361,18 +380,12 @@ static int check_values(const struct parse *parse)
 				   problem);
 	if (o->pdf && (problem = file_problem(o->pdf)))
 		return parse_error(parse, "--pdf %s: %s", o->pdf, problem);
-	if (o->only) {
-		struct gp_diag *diag = gp_diag_create();
-		if (!diag)
-			return tool_usage_error("out of memory");
-		bool ok = gp_output_kinds_check(o->only, diag);
-		for (size_t i = 0; !ok && i < gp_diag_count(diag); i++)
-			parse_error(parse, "--only: %s", gp_diag_message(diag, i));
-		gp_diag_destroy(diag);
-		if (!ok)
-			return EXIT_BAD_INPUT;
-	}
-	return -1;
+	int status = check_with_library(parse, "--faces", o->faces,
+					gp_faces_check);
+	if (status < 0)
+		status = check_with_library(parse, "--only", o->only,
+					    gp_output_kinds_check);
+	return status;
 }
 
 int tool_run(const struct tool_command *command, int argc, char **argv)

@@ -20,6 +20,7 @@ enum tool_option_id {
 	OPTION_OUTPUT,
 	OPTION_SET,
 	OPTION_ONLY,
+	OPTION_FACES,
 	OPTION_JSON,
 	OPTION_STRICT,
 	OPTION_DEPFILE,
@@ -54,6 +55,7 @@ struct tool_options {
 	bool strict;
 	bool json;
 	const char *only;            /* --only KINDS, checked */
+	const char *faces;           /* --faces WHICH, checked */
 	const char *depfile;
 	const char *pdf;
 	const char *show;            /* --show SPEC */

@@ -129,3 +129,14 @@ enum gp_layer gp_plate_ito_layer(enum gp_plate plate)
 {
 	return plate == GP_PLATE_FRONT ? GP_LAYER_FRONT_ITO : GP_LAYER_BACK_ITO;
 }
+
+enum gp_plate gp_layer_plate(enum gp_layer layer)
+{
+	switch (layer) {
+	case GP_LAYER_FRONT_ITO:
+	case GP_LAYER_FRONT_OUTLINE:
+		return GP_PLATE_FRONT;
+	default:
+		return GP_PLATE_BACK;
+	}
+}

@@ -117,5 +117,9 @@ const char *gp_layer_name(enum gp_layer layer);   /* "front-ito" */
 const char *gp_layer_title(enum gp_layer layer);  /* "Front plate ITO" */
 const char *gp_role_name(enum gp_role role);
 enum gp_layer gp_plate_ito_layer(enum gp_plate plate);
+/* The plate a layer is made on: its own for the ITO, outlines and
+ * coatings; the back plate for the seal and transfer prints (glassplot
+ * draws them for printing on the back plate's inner face). */
+enum gp_plate gp_layer_plate(enum gp_layer layer);
 
 #endif

@@ -23,7 +23,9 @@ static bool reserve(struct gp_buffer *buffer, size_t extra)
 		return false;
 	if (buffer->size + extra + 1 <= buffer->capacity)
 		return true;
-	size_t capacity = buffer->capacity ? buffer->capacity : 4096;
+	/* small first: the pin matrix keeps a buffer per cell (tens of
+	 * thousands on a large glass); doubling serves the large outputs */
+	size_t capacity = buffer->capacity ? buffer->capacity : 32;
 	while (capacity < buffer->size + extra + 1) {
 		if (capacity > SIZE_MAX / 2) {
 			buffer->failed = true;

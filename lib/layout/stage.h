@@ -55,6 +55,13 @@ enum gp_output_kind {
 	GP_OUTPUT_ALL = (1 << 5) - 1,
 };
 
+/* Gerber sets (gp_build_set_faces). */
+enum gp_faces {
+	GP_FACES_VIEWER = 1 << 0,     /* NAME.gbr, as the viewer sees it */
+	GP_FACES_COATED = 1 << 1,     /* NAME-coated.gbr, from each plate's
+				       * coated face */
+};
+
 struct gp_show;
 
 struct gp_build {
@@ -84,6 +91,10 @@ struct gp_build {
 	struct gp_buffer json;
 	unsigned outputs;               /* enum gp_output_kind bits */
 	bool outputs_chosen;            /* by gp_build_select (--only) */
+	/* Gerber sets to write (gp_build_set_faces): bit 0 the viewer's
+	 * (NAME.gbr), bit 1 the coated faces' (NAME-coated.gbr); 0 is the
+	 * viewer's only. */
+	unsigned faces;
 	const char *depfile;            /* gp_build_set_depfile, borrowed */
 	bool has_epoch;                 /* SOURCE_DATE_EPOCH given */
 	int64_t epoch;

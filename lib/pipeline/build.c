@@ -381,11 +381,13 @@ static bool add_gerbers(const struct gp_build *build,
 	return ok;
 }
 
-static bool add_gerber_files(const struct gp_build *build,
-			     struct gp_output_set *set,
-			     const struct gp_gerber_info *info,
-			     struct gp_diag *diag)
+/* One Gerber file per layer that has shapes, in the set of one face. */
+static bool add_gerber_face(const struct gp_build *build,
+			    struct gp_output_set *set,
+			    const struct gp_gerber_info *info,
+			    struct gp_diag *diag)
 {
+	bool coated = info->face == GP_GERBER_FACE_COATED;
 	for (int layer = 0; layer < GP_LAYER_COUNT; layer++) {
 		bool used = false;
 		for (size_t i = 0; i < build->art.shape_count && !used; i++)
@@ -393,8 +395,9 @@ static bool add_gerber_files(const struct gp_build *build,
 		if (!used)
 			continue;
 		char name[64];
-		snprintf(name, sizeof(name), "%s.gbr",
-			 gp_layer_name((enum gp_layer)layer));
+		snprintf(name, sizeof(name), "%s%s.gbr",
+			 gp_layer_name((enum gp_layer)layer),
+			 coated ? "-coated" : "");
 		struct gp_buffer *out = gp_output_add(set, name, diag);
 		char why[320];
 		if (!out)
@@ -406,6 +409,55 @@ static bool add_gerber_files(const struct gp_build *build,
 					     "Gerber file: %s", name, why);
 	}
 	return true;
+}
+
+/* The viewer's set, the coated faces' set, or both (gp_build_set_faces);
+ * the front plate's layers in the coated set are mirrored about the
+ * vertical line through the front plate's centre. */
+static bool add_gerber_files(const struct gp_build *build,
+			     struct gp_output_set *set,
+			     const struct gp_gerber_info *info,
+			     struct gp_diag *diag)
+{
+	unsigned faces = build->faces ? build->faces : GP_FACES_VIEWER;
+	struct gp_gerber_info face = *info;
+	struct gp_box front = build->design->front.box;
+	face.mirror_axis = front.x0 + (front.x1 - front.x0) / 2;
+	face.face = GP_GERBER_FACE_VIEWER;
+	if ((faces & GP_FACES_VIEWER) &&
+	    !add_gerber_face(build, set, &face, diag))
+		return false;
+	face.face = GP_GERBER_FACE_COATED;
+	return !(faces & GP_FACES_COATED) ||
+	       add_gerber_face(build, set, &face, diag);
+}
+
+static const char *const face_names[] = { "viewer", "coated", "both", NULL };
+
+/* "viewer", "coated" or "both" as GP_FACES_* bits; 0 with a message for
+ * anything else. */
+static unsigned parse_faces(const char *which, struct gp_diag *diag)
+{
+	for (int i = 0; face_names[i]; i++)
+		if (strcmp(which, face_names[i]) == 0)
+			return (unsigned)i + 1;
+	gp_diag_error(diag, NULL, "unknown set of Gerber files '%s'; expected "
+		      "viewer, coated or both", which);
+	return 0;
+}
+
+GP_EXPORT bool gp_faces_check(const char *which, struct gp_diag *diag)
+{
+	return parse_faces(which, diag) != 0;
+}
+
+GP_EXPORT bool gp_build_set_faces(struct gp_build *build, const char *which,
+				  struct gp_diag *diag)
+{
+	unsigned faces = parse_faces(which, diag);
+	if (faces)
+		build->faces = faces;
+	return faces != 0;
 }
 
 static bool add_proof(const struct gp_build *build,

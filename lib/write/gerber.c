@@ -806,6 +806,8 @@ struct writer {
 	int net;                    /* .N in the dictionary: net, or
 				     * GP_NET_NONE for "none", -2 unset */
 	bool attributes;            /* some object attribute was set */
+	bool mirrored;              /* x becomes 2 * axis - x */
+	int64_t axis;
 };
 
 #define NET_UNSET (-2)
@@ -824,6 +826,11 @@ static bool is_outline(enum gp_layer layer)
 {
 	return layer == GP_LAYER_FRONT_OUTLINE ||
 	       layer == GP_LAYER_BACK_OUTLINE;
+}
+
+static const char *plate_word(enum gp_layer layer)
+{
+	return gp_layer_plate(layer) == GP_PLATE_FRONT ? "front" : "back";
 }
 
 /* Spec 5.6.10 .AperFunction: on the ITO (the glass's conductor layers)
@@ -981,9 +988,12 @@ static void put_text(struct gp_buffer *out, const char *text)
 	}
 }
 
-/* .FileFunction (5.6.3): "Profile,NP" for a plate's cut outline (the
- * plates have no plated edges); "Other,<mandatory field>" for the rest,
- * none of the PCB layer functions fitting. */
+/* .FileFunction (5.6.3): "Profile,NP" for a plate's cut outline ("A file
+ * containing the board profile (or outline) and only the board profile";
+ * the plates have no plated edges); "Other,<mandatory field>" for the
+ * rest ("Another data layer then the ones above. The mandatory field
+ * informally describes it"), none of the PCB layer functions fitting:
+ * the layer's name and the side it is seen from. */
 static void put_file_function(struct writer *w)
 {
 	struct gp_buffer *out = w->out;
@@ -993,7 +1003,42 @@ static void put_file_function(struct writer *w)
 	}
 	gp_buffer_puts(out, "%TF.FileFunction,Other,");
 	put_text(out, gp_layer_name(w->layer));
+	if (!w->info || w->info->face == GP_GERBER_FACE_VIEWER)
+		gp_buffer_puts(out, " seen from the viewer");
+	else
+		gp_buffer_printf(out, " seen from the coated face of the %s "
+				 "plate%s", plate_word(w->layer),
+				 w->mirrored ? " (mirrored)" : "");
 	gp_buffer_puts(out, "*%\n");
+}
+
+/* The side the file is drawn from, in words, as a G04 comment (4.1). */
+static void put_side(struct writer *w)
+{
+	struct gp_buffer *out = w->out;
+	const char *plate = plate_word(w->layer);
+	bool front = gp_layer_plate(w->layer) == GP_PLATE_FRONT;
+	if (!is_ito(w->layer) && !is_outline(w->layer) && !front)
+		gp_buffer_puts(out, "G04 Printed on the coated face of the "
+				    "back plate*\n");
+	if (w->mirrored) {
+		char axis[40];
+		gp_format_mm_short(axis, sizeof(axis), w->axis);
+		gp_buffer_printf(out, "G04 Seen from the coated face of the "
+				 "front plate: the viewer's drawing mirrored "
+				 "about the vertical line X = %s mm*\n", axis);
+	} else if (w->info && w->info->face == GP_GERBER_FACE_COATED)
+		gp_buffer_printf(out, "G04 Seen from the coated face of the "
+				 "%s plate, as the viewer sees it: not "
+				 "mirrored*\n", plate);
+	else if (front)
+		gp_buffer_puts(out, "G04 Seen from the viewer, through the "
+				    "front plate (its coated face looks away "
+				    "from the viewer): not mirrored*\n");
+	else
+		gp_buffer_puts(out, "G04 Seen from the viewer, who faces the "
+				    "coated face of the back plate: not "
+				    "mirrored*\n");
 }
 
 /* .ProjectId (5.6.8): "<Name>,<GUID>,<Revision>"; the GUID is a
@@ -1048,6 +1093,7 @@ static void write_header(struct writer *w)
 		put_text(out, part);
 	}
 	gp_buffer_puts(out, "*\n");
+	put_side(w);
 	/* format and unit first, before any coordinate (sections 4.2, 4.1) */
 	gp_buffer_puts(out, "%FSLAX46Y46*%\n%MOMM*%\n");
 	/* file attributes (section 5.6) */
@@ -1064,10 +1110,12 @@ static void write_header(struct writer *w)
 	gp_buffer_puts(out, "%TF.FilePolarity,Positive*%\n");
 	gp_buffer_puts(out, "%TF.Part,Single*%\n");
 	gp_buffer_puts(out, "%TF.SameCoordinates");
-	if (part) {
+	if (part || w->mirrored)
 		gp_buffer_puts(out, ",");
+	if (part)
 		put_text(out, part);
-	}
+	if (w->mirrored)
+		gp_buffer_puts(out, part ? " mirrored" : "mirrored");
 	gp_buffer_puts(out, "*%\n%LPD*%\nG01*\n");
 	/* each aperture defined with its function in the dictionary (5.3) */
 	const char *function = NULL;
@@ -1092,6 +1140,14 @@ static void write_header(struct writer *w)
 
 static bool put_point(struct writer *w, struct gp_point p, int operation)
 {
+	if (w->mirrored) {
+		wide x = 2 * (wide)w->axis - p.x;
+		if (x > GP_GERBER_COORD_MAX || x < -GP_GERBER_COORD_MAX)
+			return fail(w->why, "a coordinate is beyond "
+					    "9999.999999 mm, the range of "
+					    "Gerber format 4.6");
+		p.x = (int64_t)x;
+	}
 	if (p.x > GP_GERBER_COORD_MAX || p.x < -GP_GERBER_COORD_MAX ||
 	    p.y > GP_GERBER_COORD_MAX || p.y < -GP_GERBER_COORD_MAX)
 		return fail(w->why, "a coordinate is beyond 9999.999999 mm, "
@@ -1119,20 +1175,20 @@ static bool write_stroke(struct writer *w, const struct gp_shape *s)
 	select_aperture(w, shape_aperture(w, s, false));
 	struct gp_point first = r->points[0], last = first;
 	size_t drawn = 0;
-	put_point(w, first, 2);
-	for (size_t i = 1; i <= r->count; i++) {
+	bool ok = put_point(w, first, 2);
+	for (size_t i = 1; ok && i <= r->count; i++) {
 		if (i == r->count && s->open_path)
 			break;
 		struct gp_point p = i == r->count ? first : r->points[i];
 		if (same_point(p, last))
 			continue; /* no zero-length draws */
-		put_point(w, p, 1);
+		ok = put_point(w, p, 1);
 		last = p;
 		drawn++;
 	}
-	if (drawn == 0) /* a single point: a dot */
-		put_point(w, first, 3);
-	return true;
+	if (ok && drawn == 0) /* a single point: a dot */
+		ok = put_point(w, first, 3);
+	return ok;
 }
 
 static bool write_region(struct writer *w, const struct gp_shape *s)
@@ -1310,6 +1366,9 @@ bool gp_gerber_write_why(struct gp_buffer *out, const struct gp_artwork *art,
 			    .net = NET_UNSET };
 	w.why = &w.reason;
 	w.message[0] = '\0';
+	w.mirrored = info && info->face == GP_GERBER_FACE_COATED &&
+		     gp_layer_plate(layer) == GP_PLATE_FRONT;
+	w.axis = info ? info->mirror_axis : 0;
 	size_t start = out->size;
 	bool ok = collect_apertures(&w, art, layer);
 	if (ok) {

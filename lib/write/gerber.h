@@ -32,6 +32,16 @@ struct gp_gerber_pin {
 	const char *refdes;     /* the ledge's name */
 };
 
+/* The side a file is drawn from.  The description's frame (x right, y up)
+ * is the viewer's: the viewer looks through the front plate at its inner,
+ * coated face, and at the back plate's inner face directly.  A mask or
+ * screen is laid on the coated face, so seen from there the front plate's
+ * layers are the viewer's drawing mirrored, the back plate's are not. */
+enum gp_gerber_face {
+	GP_GERBER_FACE_VIEWER,  /* as the viewer sees the glass */
+	GP_GERBER_FACE_COATED,  /* as seen looking at the plate's coated face */
+};
+
 struct gp_gerber_info {
 	/* Part number of the glass, or NULL.  Written in a comment and as the
 	 * .SameCoordinates identifier shared by every layer of the set. */
@@ -44,6 +54,15 @@ struct gp_gerber_info {
 	const char *creation_date;
 	/* Revision for .ProjectId, or NULL ("0"). */
 	const char *revision;
+	/* The side every file is drawn from, and for GP_GERBER_FACE_COATED
+	 * the axis the front plate's layers are mirrored about: the vertical
+	 * line x = mirror_axis (nm; x becomes 2 * mirror_axis - x).  Both
+	 * are stated in the header: a G04 comment and the free text of
+	 * .FileFunction (Other).  A mirrored file gets its own
+	 * .SameCoordinates identifier (5.6.7: files with one identifier
+	 * align), the part number followed by " mirrored". */
+	enum gp_gerber_face face;
+	int64_t mirror_axis;
 	/* The ledge pads, matched to the flashed pads by their box. */
 	const struct gp_gerber_pin *pins;
 	size_t pin_count;

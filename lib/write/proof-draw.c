@@ -419,8 +419,12 @@ static void layer_sheet(struct proof *p, enum gp_plate plate)
 	bool front = plate == GP_PLATE_FRONT;
 	enum gp_layer layer = gp_plate_ito_layer(plate);
 	proof_begin_sheet(p, front ? "Front plate ITO" : "Back plate ITO");
-	note(p, front ? "As seen from the viewer."
-		      : "As seen from the viewer, through the front plate.");
+	note(p, front ? "As seen from the viewer, as front-ito.gbr; "
+			"front-ito-coated.gbr is this mirrored, seen from "
+			"the plate's coated face."
+		      : "As seen from the viewer, through the front plate, "
+			"as back-ito.gbr and back-ito-coated.gbr (the "
+			"coated face looks towards the viewer).");
 	proof_paint_layer(p, layer, 1.0);
 	proof_plate_outlines(p, &p->view, front, !front);
 	if (proof_has_layer(p, layer, ROLE_BIT(GP_ROLE_PAD))) {

@@ -80,6 +80,9 @@ struct proof {
 	/* pin-matrix.csv's rows, when routed */
 	struct gp_pin_matrix matrix;
 	bool has_matrix;
+	double *matrix_widths;      /* per common, measured when planning */
+	int *matrix_filled;         /* per row, filled cells before each
+				     * common (rows x (commons + 1)) */
 	/* The title block's scale for the current sheet ("as shown", "10:1")
 	 * when not the overview's; reset by proof_begin_sheet. */
 	const char *sheet_scale;
@@ -123,12 +126,11 @@ double proof_paragraph(struct proof *p, double x, double y, double width,
 /* The height proof_paragraph would take, from the first line's box top. */
 double proof_paragraph_height(struct proof *p, double width, double cap,
 			      const char *text);
-/* Text with its baseline at y; returns its width in mm. */
-double proof_text(struct proof *p, double x, double y, enum proof_align align,
-		  const char *text);
-double proof_textf(struct proof *p, double x, double y,
-		   enum proof_align align, const char *format, ...)
-	__attribute__((format(printf, 5, 6)));
+/* Text with its baseline at y. */
+void proof_text(struct proof *p, double x, double y, enum proof_align align,
+		const char *text);
+void proof_textf(struct proof *p, double x, double y, enum proof_align align,
+		 const char *format, ...) __attribute__((format(printf, 5, 6)));
 double proof_text_width(struct proof *p, const char *text);
 void proof_line(struct proof *p, double x0, double y0, double x1, double y1,
 		double width);
@@ -276,8 +278,7 @@ double proof_overview_note_height(struct proof *p, double width);
 void proof_pin_labels(struct proof *p);
 
 /* --- tables (proof-tables.c) ------------------------------------------- */
-int proof_pin_sheet_count(const struct gp_build *build,
-			  const struct gp_proof_plan *plan);
+int proof_pin_sheet_count(struct proof *p);
 void proof_sheets_pins(struct proof *p);
 void proof_sheets_spec(struct proof *p);
 int proof_spec_sheet_count(const struct gp_build *build,

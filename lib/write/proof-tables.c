@@ -76,11 +76,9 @@ void proof_net_drives(const struct proof *p, int net, char *buffer,
 
 #define MAX_COLUMNS 8
 /* The pin matrix is lettered at 2.5 mm capitals (ISO 3098's least
- * height): Liberation Sans at 3.7 mm (caps 0.69 em), whose widest capitals take 0.72 em. */
-#define MATRIX_SIZE 3.7
+ * height, from memory), rows 5 mm apart. */
 #define MATRIX_ROW 5.0
 #define MATRIX_TOP 20.0
-#define CELL_CHAR (0.73 * MATRIX_SIZE)
 #define TABLE_GAP 4.0      /* between columns of a table on one sheet */
 
 struct table {
@@ -117,91 +115,218 @@ static void table_capacity(const struct gp_proof_plan *plan, double width,
 		*rows = 1;
 }
 
-/* The pin matrix on paper: Pin, Net, then a band of commons; a glass with
- * more commons than one sheet holds across gets a band per set of
- * sheets.  Columns of pins side by side where they fit. */
+/* The pin matrix on paper: Pin, Net, then a band of commons, each
+ * column as wide as its widest entry (measured in the face it is set in);
+ * a glass with more commons than a sheet holds across gets a band per set
+ * of sheets.  Columns of pins side by side where they fit; a column clear
+ * of the title block runs down to the frame.  Of the ways to split the
+ * commons into bands, the one with the fewest sheets (then the fewest
+ * bands, so that a pin's commons stay on one line). */
 struct matrix_layout {
-	double pin_w, net_w, com_w;
+	double pin_w, net_w;
+	const double *com_w;      /* per common */
 	size_t band;              /* commons per band */
 	size_t bands;
-	int rows, columns;        /* pins per table column, columns a sheet */
-	int sheets_per_band;
+	int rows, long_rows;      /* pins per table column: above the title
+				   * block, beside it */
+	double usable, title_x;   /* paper x where the title block starts */
+	int sheets;
+	const int *filled;        /* per row, filled cells before each common */
+	size_t commons, rows_total;
 };
 
-static double text_width(const char *text)
+#define MATRIX_PAD 2.5        /* a column's text to the next column */
+
+static double matrix_text_width(struct proof *p, const char *text, bool bold)
+{
+	proof_letter(p, PROOF_LETTER, bold);
+	return proof_text_width(p, text) + MATRIX_PAD;
+}
+
+/* Each common's column width, measured once (tens of thousands of cells
+ * on a large glass), and per row the count of filled cells before each
+ * common (a band shows the rows it has something in). */
+static bool matrix_widths(struct proof *p)
+{
+	const struct gp_pin_matrix *m = &p->matrix;
+	if (p->matrix_widths || !m->commons)
+		return true;
+	size_t stride = m->commons + 1;
+	double *w = calloc(m->commons, sizeof(*w));
+	int *filled = malloc((m->rows ? m->rows : 1) * stride *
+			     sizeof(*filled));
+	if (!w || !filled) {
+		free(w);
+		free(filled);
+		return false;
+	}
+	for (size_t r = 0; r < m->rows; r++) {
+		int *row = &filled[r * stride];
+		row[0] = 0;
+		for (size_t k = 0; k < m->commons; k++)
+			row[k + 1] = row[k] +
+				     (gp_pin_matrix_cell(m, r, k)[0] != '\0');
+	}
+	p->matrix_filled = filled;
+	for (size_t k = 0; k < m->commons; k++) {
+		char head[32];
+		snprintf(head, sizeof(head), "COM%zu", k + 1);
+		w[k] = matrix_text_width(p, head, true);
+	}
+	proof_letter(p, PROOF_LETTER, false);
+	for (size_t r = 0; r < m->rows; r++)
+		for (size_t k = 0; k < m->commons; k++) {
+			const char *cell = gp_pin_matrix_cell(m, r, k);
+			if (!cell[0])
+				continue;
+			double cw = proof_text_width(p, cell) + MATRIX_PAD;
+			if (cw > w[k])
+				w[k] = cw;
+		}
+	p->matrix_widths = w;
+	return true;
+}
+
+/* A band shows the pins with something at its commons; a pin with
+ * nothing at any common (not connected, unused) shows in the first. */
+static bool row_shown(const struct matrix_layout *l, size_t row,
+		      size_t first, size_t count)
+{
+	if (!l->filled)
+		return true;
+	const int *f = &l->filled[row * (l->commons + 1)];
+	return f[first + count] > f[first] || (first == 0 && !f[l->commons]);
+}
+
+static size_t band_rows(const struct matrix_layout *l, size_t first,
+			size_t count)
 {
 	size_t n = 0;
-	for (const char *c = text; *c; c++)
-		n += ((unsigned char)*c & 0xc0) != 0x80;
-	return (double)n * CELL_CHAR + 2.5;
+	for (size_t r = 0; r < l->rows_total; r++)
+		n += row_shown(l, r, first, count);
+	return n;
 }
 
-static void matrix_layout(const struct gp_pin_matrix *m,
-			  const struct gp_build *build,
-			  const struct gp_proof_plan *plan,
-			  struct matrix_layout *l)
+static double band_width(const struct matrix_layout *l, size_t first,
+			 size_t count)
 {
-	double usable = plan->paper_w - 2 * PROOF_MARGIN - 8;
-	l->pin_w = text_width("0000");
-	l->net_w = text_width("SEG000");
-	l->com_w = text_width("COM00");
+	double w = l->pin_w + l->net_w;
+	for (size_t k = first; k < first + count; k++)
+		w += l->com_w[k] < l->usable - l->pin_w - l->net_w
+			     ? l->com_w[k]
+			     : l->usable - l->pin_w - l->net_w;
+	return w;
+}
+
+/* Pins a sheet holds in columns of a table width wide. */
+static size_t sheet_capacity(const struct matrix_layout *l, double width,
+			     double x0)
+{
+	size_t n = 0;
+	for (double x = x0; x + width <= x0 + l->usable + 0.01;
+	     x += width + TABLE_GAP)
+		n += (size_t)(x + width <= l->title_x - TABLE_GAP ? l->long_rows
+								  : l->rows);
+	return n ? n : (size_t)l->rows;
+}
+
+static int band_sheets(const struct matrix_layout *l, size_t first,
+		       size_t count, double x0)
+{
+	size_t pins = band_rows(l, first, count);
+	size_t per = sheet_capacity(l, band_width(l, first, count), x0);
+	return pins ? (int)((pins + per - 1) / per) : 1;
+}
+
+static int layout_sheets(const struct matrix_layout *l, size_t commons,
+			 size_t band, double x0)
+{
+	int sheets = 0;
+	for (size_t first = 0; first < commons; first += band)
+		sheets += band_sheets(l, first,
+				      commons - first < band ? commons - first
+							     : band,
+				      x0);
+	return sheets ? sheets : 1;
+}
+
+static void matrix_layout(struct proof *p, struct matrix_layout *l)
+{
+	const struct gp_pin_matrix *m = &p->matrix;
+	const struct gp_build *build = p->build;
+	const struct gp_proof_plan *plan = &p->plan;
+	memset(l, 0, sizeof(*l));
+	static const double none = 0;
+	l->com_w = p->matrix_widths ? p->matrix_widths : &none;
+	l->filled = p->matrix_filled;
+	l->commons = m->commons;
+	l->rows_total = m->rows;
+	double x0 = PROOF_MARGIN + 4;
+	l->usable = plan->paper_w - 2 * PROOF_MARGIN - 8;
+	l->title_x = plan->paper_w - PROOF_MARGIN - PROOF_TITLE_W;
+	l->pin_w = matrix_text_width(p, "Pin", true);
+	double w = matrix_text_width(p, "0000", false);
+	if (w > l->pin_w)
+		l->pin_w = w;
+	l->net_w = matrix_text_width(p, "Net", true);
 	for (size_t r = 0; r < m->rows; r++) {
 		const struct gp_pin *pin = m->pins[r];
-		if (pin->net >= 0) {
-			double w = text_width(build->art.nets[pin->net].name);
-			if (w > l->net_w)
-				l->net_w = w;
-		}
-		for (size_t k = 0; k < m->commons; k++) {
-			double w = text_width(gp_pin_matrix_cell(m, r, k));
-			if (w > l->com_w)
-				l->com_w = w;
-		}
+		w = matrix_text_width(p, pin->net >= 0
+					      ? build->art.nets[pin->net].name
+					      : "NC", false);
+		if (w > l->net_w)
+			l->net_w = w;
 	}
-	double room = usable - l->pin_w - l->net_w;
-	if (l->com_w > room && room > 0)
-		l->com_w = room;
-	l->band = room > 0 ? (size_t)(room / l->com_w) : 1;
-	if (l->band < 1)
-		l->band = 1;
-	if (l->band > m->commons && m->commons > 0)
-		l->band = m->commons;
-	l->bands = m->commons ? (m->commons + l->band - 1) / l->band : 1;
-	/* bands of even width: 16 commons in two bands of 8, not 13 and 3 */
-	if (l->bands > 1)
-		l->band = (m->commons + l->bands - 1) / l->bands;
-	double width = l->pin_w + l->net_w + (double)l->band * l->com_w;
-	double h = plan->paper_h - 2 * PROOF_MARGIN - PROOF_TITLE_H - 8 -
-		   MATRIX_TOP - MATRIX_ROW;
-	l->columns = (int)((usable + TABLE_GAP) / (width + TABLE_GAP));
-	if (l->columns < 1)
-		l->columns = 1;
-	l->rows = (int)(h / MATRIX_ROW);
+	double top = PROOF_MARGIN + 4 + MATRIX_TOP + MATRIX_ROW;
+	l->rows = (int)((plan->paper_h - PROOF_MARGIN - PROOF_TITLE_H - 4 -
+			 top) / MATRIX_ROW);
+	l->long_rows = (int)((plan->paper_h - PROOF_MARGIN - 2 - top) /
+			     MATRIX_ROW);
 	if (l->rows < 1)
 		l->rows = 1;
-	size_t per = (size_t)l->rows * (size_t)l->columns;
-	l->sheets_per_band =
-		m->rows ? (int)((m->rows + per - 1) / per) : 1;
+	size_t commons = m->commons;
+	l->band = commons ? commons : 1;
+	l->bands = 1;
+	l->sheets = band_sheets(l, 0, commons, x0);
+	if (band_width(l, 0, commons) > l->usable)
+		l->sheets = 1 << 30;
+	for (size_t bands = 2; bands <= commons; bands++) {
+		size_t band = (commons + bands - 1) / bands;
+		if ((commons + band - 1) / band != bands)
+			continue;
+		bool fit = true;
+		for (size_t first = 0; first < commons; first += band)
+			fit = fit && band_width(l, first,
+						commons - first < band
+							? commons - first
+							: band) <= l->usable;
+		int sheets = layout_sheets(l, commons, band, x0);
+		if ((fit || band == 1) && sheets < l->sheets) {
+			l->band = band;
+			l->bands = bands;
+			l->sheets = sheets;
+		}
+	}
+	if (l->sheets == 1 << 30)
+		l->sheets = layout_sheets(l, commons, l->band, x0);
 }
 
-int proof_pin_sheet_count(const struct gp_build *build,
-			  const struct gp_proof_plan *plan)
+int proof_pin_sheet_count(struct proof *p)
 {
-	if (!build->pin_count) {
+	const struct gp_build *build = p->build;
+	if (!build->pin_count || !p->has_matrix) {
 		int rows, columns;
 		struct table t = net_table();
-		table_capacity(plan, t.width, &rows, &columns);
+		table_capacity(&p->plan, t.width, &rows, &columns);
 		size_t per = (size_t)rows * (size_t)columns;
 		size_t n = build->art.net_count;
 		return n ? (int)((n + per - 1) / per) : 1;
 	}
-	struct gp_pin_matrix m;
-	if (!gp_pin_matrix_init(&m, build))
+	if (!matrix_widths(p))
 		return 1;
 	struct matrix_layout l;
-	matrix_layout(&m, build, plan, &l);
-	gp_pin_matrix_finish(&m);
-	return (int)l.bands * l.sheets_per_band;
+	matrix_layout(p, &l);
+	return l.sheets;
 }
 
 static void table_row(struct proof *p, double x, double y,
@@ -252,6 +377,10 @@ void proof_pins_destroy(struct proof *p)
 	if (p->has_matrix)
 		gp_pin_matrix_finish(&p->matrix);
 	p->has_matrix = false;
+	free(p->matrix_widths);
+	free(p->matrix_filled);
+	p->matrix_widths = NULL;
+	p->matrix_filled = NULL;
 }
 
 static void sheets_nets(struct proof *p)
@@ -292,9 +421,10 @@ static void matrix_row(struct proof *p, const struct matrix_layout *l,
 		       size_t count, bool header)
 {
 	const struct gp_pin_matrix *m = &p->matrix;
-	proof_font(p, MATRIX_SIZE, header);
+	proof_letter(p, PROOF_LETTER, header);
 	cairo_set_source_rgb(p->cr, 0, 0, 0);
 	double base = y + MATRIX_ROW - 1.2;
+	double room = l->usable - l->pin_w - l->net_w - MATRIX_PAD;
 	if (header) {
 		proof_text(p, x + 1, base, ALIGN_LEFT, "Pin");
 		proof_text(p, x + l->pin_w + 1, base, ALIGN_LEFT, "Net");
@@ -305,13 +435,17 @@ static void matrix_row(struct proof *p, const struct matrix_layout *l,
 			   pin->net >= 0 ? p->art->nets[pin->net].name : "NC");
 	}
 	double cx = x + l->pin_w + l->net_w;
-	for (size_t k = first; k < first + count; k++, cx += l->com_w) {
-		if (header)
-			proof_textf(p, cx + 1, base, ALIGN_LEFT, "COM%zu",
-				    k + 1);
-		else
-			proof_text(p, cx + 1, base, ALIGN_LEFT,
-				   gp_pin_matrix_cell(m, row, k));
+	for (size_t k = first; k < first + count; k++) {
+		char head[32];
+		snprintf(head, sizeof(head), "COM%zu", k + 1);
+		const char *text = header ? head
+					  : gp_pin_matrix_cell(m, row, k);
+		if (l->com_w[k] - MATRIX_PAD > room)
+			proof_text_fitted(p, cx + 1, base, room, text);
+		else if (text[0])
+			proof_text(p, cx + 1, base, ALIGN_LEFT, text);
+		cx += l->com_w[k] < room + MATRIX_PAD ? l->com_w[k]
+						      : room + MATRIX_PAD;
 	}
 }
 
@@ -319,41 +453,57 @@ static void sheets_matrix(struct proof *p)
 {
 	const struct gp_pin_matrix *m = &p->matrix;
 	struct matrix_layout l;
-	matrix_layout(m, p->build, &p->plan, &l);
+	matrix_layout(p, &l);
 	int sheet = 0;
-	for (size_t band = 0; band < l.bands; band++) {
-		size_t first = band * l.band;
+	for (size_t first = 0; first < m->commons || first == 0;
+	     first += l.band) {
 		size_t count = m->commons - first < l.band ? m->commons - first
 							   : l.band;
-		double width = l.pin_w + l.net_w + (double)count * l.com_w;
+		double width = band_width(&l, first, count);
 		size_t next = 0;
-		for (int s = 0; s < l.sheets_per_band; s++) {
+		do {
 			char title[64];
 			snprintf(title, sizeof(title), "Pin matrix (%d of %d)",
 				 ++sheet, p->plan.pin_sheets);
 			proof_begin_sheet(p, title);
 			double x0, y0, x1, y1;
 			proof_area(p, &x0, &y0, &x1, &y1);
-			proof_font(p, MATRIX_SIZE, false);
+			proof_letter(p, PROOF_LETTER, false);
 			proof_textf(p, x0, y0 + 12, ALIGN_LEFT,
 				    "What lights where each pin crosses COM%zu "
-				    "to COM%zu; as pin-matrix.csv.",
-				    first + 1, first + count);
-			for (int c = 0; c < l.columns && next < m->rows; c++) {
-				double x = x0 + c * (width + TABLE_GAP);
+				    "to COM%zu; as pin-matrix.csv.%s",
+				    first + 1, first + count,
+				    l.bands > 1 ? " Pins with nothing there "
+						  "are left out." : "");
+			while (next < m->rows &&
+			       !row_shown(&l, next, first, count))
+				next++;
+			for (double x = x0; next < m->rows &&
+					    x + width <= x0 + l.usable + 0.01;
+			     x += width + TABLE_GAP) {
+				int rows = x + width <= l.title_x - TABLE_GAP
+						   ? l.long_rows
+						   : l.rows;
 				double y = y0 + MATRIX_TOP;
 				matrix_row(p, &l, x, y, 0, first, count, true);
 				y += MATRIX_ROW;
 				table_rule(p, x, y, width);
-				for (int r = 0; r < l.rows && next < m->rows;
-				     r++, next++) {
+				for (int r = 0; r < rows && next < m->rows;
+				     r++) {
 					matrix_row(p, &l, x, y, next, first,
 						   count, false);
 					y += MATRIX_ROW;
+					do
+						next++;
+					while (next < m->rows &&
+					       !row_shown(&l, next, first,
+							  count));
 				}
 			}
 			proof_end_sheet(p);
-		}
+		} while (next < m->rows);
+		if (!m->commons)
+			break;
 	}
 }
 

@@ -219,7 +219,7 @@ static void plan_sheets(struct proof *p, struct gp_proof_plan *plan)
 	plan->finding_sheets = proof_finding_sheet_count(build, plan);
 	plan->sheet_findings = sheet;
 	sheet += plan->finding_sheets;
-	plan->pin_sheets = proof_pin_sheet_count(build, plan);
+	plan->pin_sheets = proof_pin_sheet_count(p);
 	plan->sheet_pins = sheet;
 	sheet += plan->pin_sheets;
 	plan->spec_sheets = proof_spec_sheet_count(build, plan);
@@ -232,43 +232,50 @@ static void plan_sheets(struct proof *p, struct gp_proof_plan *plan)
 	plan->sheet_count = sheet - 1;
 }
 
-/* A context for measuring text while planning. */
-static bool measure_begin(struct proof *p, const struct gp_build *build)
+/* Plans with a context for measuring text (a recording surface: text
+ * measures the same on any). */
+static void plan_measured(struct proof *p, struct gp_proof_plan *plan)
+{
+	cairo_surface_t *surface =
+		cairo_recording_surface_create(CAIRO_CONTENT_COLOR_ALPHA, NULL);
+	cairo_t *saved = p->cr;
+	p->cr = cairo_create(surface);
+	cairo_surface_destroy(surface);
+	plan_sheets(p, plan);
+	cairo_destroy(p->cr);
+	p->cr = saved;
+}
+
+/* A plan that holds without fonts (gp_proof_write then says so). */
+static void plan_without_fonts(struct gp_proof_plan *plan)
+{
+	take_paper(&gp_papers[0], true, plan);
+	plan->scale = 1;
+	plan->scale_num = plan->scale_den = 1;
+	plan->sheet_count = 1;
+}
+
+static void proof_start(struct proof *p, const struct gp_build *build)
 {
 	memset(p, 0, sizeof(*p));
 	p->build = build;
 	p->design = build->design;
 	p->art = &build->art;
-	if (!have_fonts())
-		return false;
-	cairo_surface_t *surface =
-		cairo_recording_surface_create(CAIRO_CONTENT_COLOR_ALPHA, NULL);
-	p->cr = cairo_create(surface);
-	cairo_surface_destroy(surface);
-	return true;
-}
-
-static void measure_end(struct proof *p)
-{
-	if (p->cr)
-		cairo_destroy(p->cr);
-	p->cr = NULL;
+	p->sheet = 1;
 }
 
 void gp_proof_plan(const struct gp_build *build, struct gp_proof_plan *plan)
 {
 	memset(plan, 0, sizeof(*plan));
 	struct proof p;
-	if (!measure_begin(&p, build)) {
-		/* no fonts: gp_proof_write says so; a plan that holds */
-		take_paper(&gp_papers[0], true, plan);
-		plan->scale = 1;
-		plan->scale_num = plan->scale_den = 1;
-		plan->sheet_count = 1;
+	proof_start(&p, build);
+	if (!have_fonts()) {
+		plan_without_fonts(plan);
 		return;
 	}
-	plan_sheets(&p, plan);
-	measure_end(&p);
+	proof_pins_create(&p);
+	plan_measured(&p, plan);
+	proof_pins_destroy(&p);
 }
 
 /* --- primitives ----------------------------------------------------------- */
@@ -471,21 +478,19 @@ double proof_text_width(struct proof *p, const char *text)
 	return e.x_advance;
 }
 
-double proof_text(struct proof *p, double x, double y, enum proof_align align,
-		  const char *text)
+void proof_text(struct proof *p, double x, double y, enum proof_align align,
+		const char *text)
 {
-	double w = proof_text_width(p, text);
 	if (align == ALIGN_CENTRE)
-		x -= w / 2;
+		x -= proof_text_width(p, text) / 2;
 	else if (align == ALIGN_RIGHT)
-		x -= w;
+		x -= proof_text_width(p, text);
 	cairo_move_to(p->cr, x, y);
 	cairo_show_text(p->cr, text);
 	cairo_new_path(p->cr);
-	return w;
 }
 
-double proof_textf(struct proof *p, double x, double y,
+void proof_textf(struct proof *p, double x, double y,
 		   enum proof_align align, const char *format, ...)
 {
 	char text[512];
@@ -493,7 +498,7 @@ double proof_textf(struct proof *p, double x, double y,
 	va_start(args, format);
 	vsnprintf(text, sizeof(text), format, args);
 	va_end(args);
-	return proof_text(p, x, y, align, text);
+	proof_text(p, x, y, align, text);
 }
 
 void proof_line(struct proof *p, double x0, double y0, double x1, double y1,
@@ -771,21 +776,21 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 		    struct gp_diag *diag)
 {
 	struct proof p;
-	memset(&p, 0, sizeof(p));
-	p.build = build;
-	p.design = build->design;
-	p.art = &build->art;
-	p.sheet = 1;
-	gp_proof_plan(build, &p.plan);
-	p.view = (struct proof_view){ .ox = p.plan.ox, .oy = p.plan.oy,
-				      .s = p.plan.scale };
-
+	proof_start(&p, build);
 	if (!have_fonts())
 		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
 				     "fonts '%s', '%s' and '%s' (install the "
 				     "Liberation fonts, version 2)",
 				     font_names[0], font_names[1],
 				     font_names[2]);
+	/* the pin matrix once, for the plan and the sheets */
+	if (!proof_pins_create(&p)) {
+		proof_finish(&p);
+		return gp_diag_error(diag, NULL, "proof.pdf: out of memory");
+	}
+	plan_measured(&p, &p.plan);
+	p.view = (struct proof_view){ .ox = p.plan.ox, .oy = p.plan.oy,
+				      .s = p.plan.scale };
 	bool ok = false;
 	cairo_surface_t *surface = cairo_pdf_surface_create_for_stream(
 		write_chunk, out, p.plan.paper_w * PT_PER_MM,
@@ -793,8 +798,7 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	cairo_pdf_surface_restrict_to_version(surface, CAIRO_PDF_VERSION_1_5);
 	set_metadata(surface, build);
 	p.cr = cairo_create(surface);
-	if (!proof_net_use_create(&p) || !proof_cells_create(&p) ||
-	    !proof_pins_create(&p)) {
+	if (!proof_net_use_create(&p) || !proof_cells_create(&p)) {
 		gp_diag_error(diag, NULL, "proof.pdf: out of memory");
 		goto cleanup;
 	}
