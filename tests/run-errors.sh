@@ -2,15 +2,34 @@
 # Every broken description in errors/ must give exactly its expected error
 # line(s) on stderr, exit status 2, and write nothing.  An expected line
 # "FILE:LINE:COL: [code]" matches on place and message code only
-# (match-messages.py); a whole line must match word for word.  NAME.args, when
+# (matches, below); any other line must match word for word.  NAME.args, when
 # present, holds extra command-line arguments, one a line (--set ...).
 # usage: run-errors.sh GLASSPLOT ERRORS_DIR
 set -u
 tool=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
 dir=$2
-match=$(cd "$(dirname "$0")" && pwd)/match-messages.py
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
+
+# Do the lines of $2 match those of $1?  An expected line that ends in
+# "[code]" after its place matches an actual line with the same start and
+# the same code at its end, whatever the wording between.
+matches() {
+	awk 'NR == FNR { want[FNR] = $0; n = FNR; next }
+	{
+		m++; got = $0; w = want[FNR]
+		if (got == w) next
+		if (match(w, /\[[a-z0-9-]+\]$/)) {
+			head = substr(w, 1, RSTART - 1); code = substr(w, RSTART)
+			if (substr(got, 1, length(head)) == head &&
+			    substr(got, length(got) - length(code)) == " " code)
+				next
+		}
+		bad = 1
+	}
+	END { exit (bad || m != n) }' "$1" "$2"
+}
+
 passed=0
 failed=0
 cd "$dir" || exit 1
@@ -28,10 +47,9 @@ for input in *.yaml; do
 	if [ "$status" -ne 2 ]; then
 		echo "FAIL $name: exit status $status, expected 2"
 		failed=$((failed + 1))
-	elif ! python3 "$match" "$name.expected" "$work/stderr" \
-		>"$work/diff"; then
+	elif ! matches "$name.expected" "$work/stderr"; then
 		echo "FAIL $name: messages differ"
-		cat "$work/diff"
+		diff "$name.expected" "$work/stderr" | sed 's/^/    /'
 		failed=$((failed + 1))
 	elif [ -e "$work/out" ] || [ -s "$work/stdout" ]; then
 		echo "FAIL $name: something was written"
