@@ -32,6 +32,14 @@ grep -q "not a peak-to-peak value" "$work/stdout" ||
 	{ echo "FAIL feasible: Vop convention not stated"; failed=$((failed + 1)); }
 grep -q "^  Vop  *[0-9.]* V at 25 °C (recommended" "$work/stdout" ||
 	{ echo "FAIL feasible: no recommended Vop"; failed=$((failed + 1)); }
+# the ordering spec names a whole-number bias, and the ladder is listed in
+# the usual driver order
+grep -q "^  bias  *1/5$" "$work/stdout" ||
+	{ echo "FAIL feasible: ordering spec bias is not 1/5"; failed=$((failed + 1)); }
+grep -q "^  V3 = 2/a  *3.221 V (0.4000 Vop)$" "$work/stdout" ||
+	{ echo "FAIL feasible: V3 is not 2/a Vop"; failed=$((failed + 1)); }
+grep -q "^  1/5  .* chosen$" "$work/stdout" ||
+	{ echo "FAIL feasible: 1/5 not marked chosen"; failed=$((failed + 1)); }
 check infeasible 1
 grep -q "EMPTY" "$work/stdout" ||
 	{ echo "FAIL infeasible: window not marked empty"; failed=$((failed + 1)); }

@@ -178,37 +178,174 @@ static void test_bias_fix(void **state)
 	assert_true(gp_drive_ratio(15, 3.0) < 1.25);
 }
 
+/* The usual driver order V0..V5: V0 = Vop, V1 = (a-1)/a, V2 = (a-2)/a,
+ * V3 = 2/a, V4 = 1/a, V5 = 0 times Vop (LCD driver tables, from memory). */
+static void assert_levels(const struct gp_drive_levels *l, double a,
+			  double vop)
+{
+	const double expected[6] = { 1.0, (a - 1) / a, (a - 2) / a,
+				     2 / a, 1 / a, 0.0 };
+	assert_int_equal(l->count, 6);
+	for (size_t i = 0; i < 6; i++) {
+		assert_near(l->fraction[i], expected[i], 1e-12);
+		assert_near(l->volts[i], vop * expected[i], 1e-12);
+	}
+}
+
 static void test_levels(void **state)
 {
 	(void)state;
 	struct gp_drive_levels l;
-	/* 1/3 bias: V0..V3 in equal steps (LCD driver tables, from memory) */
+	/* 1/3 bias at 6 V: V1 = V3 = 4 V, V2 = V4 = 2 V, four taps in equal
+	 * steps (LCD driver tables, from memory) */
 	gp_drive_levels(4, 3.0, 6.0, &l);
-	assert_int_equal(l.count, 4);
-	assert_near(l.volts[0], 6.0, 1e-12);
+	assert_levels(&l, 3.0, 6.0);
 	assert_near(l.volts[1], 4.0, 1e-12);
 	assert_near(l.volts[2], 2.0, 1e-12);
-	assert_near(l.volts[3], 0.0, 1e-12);
+	assert_int_equal(l.same_as[0], -1);
+	assert_int_equal(l.same_as[1], -1);
+	assert_int_equal(l.same_as[2], -1);
+	assert_int_equal(l.same_as[3], 1);
+	assert_int_equal(l.same_as[4], 2);
+	assert_int_equal(l.same_as[5], -1);
+	assert_int_equal(l.taps, 4);
 	for (size_t i = 0; i < 3; i++)
 		assert_near(l.resistor[i], 1.0, 1e-12);
-	/* 1/2 bias: V0..V2 */
+	/* 1/2 bias at 5 V: V1 = V4 = 2.5 V, V2 = V5 = 0, V3 = V0 = Vop,
+	 * three taps */
 	gp_drive_levels(2, 2.0, 5.0, &l);
-	assert_int_equal(l.count, 3);
+	assert_levels(&l, 2.0, 5.0);
+	assert_int_equal(l.same_as[1], -1);
+	assert_int_equal(l.same_as[2], -1);
+	assert_int_equal(l.same_as[3], 0);
+	assert_int_equal(l.same_as[4], 1);
+	assert_int_equal(l.same_as[5], 2);
+	assert_int_equal(l.taps, 3);
 	assert_near(l.volts[1], 2.5, 1e-12);
-	/* 1/9 bias (N = 64): six levels, ladder R:R:5R:R:R (from memory:
-	 * the middle resistor is (a-4)R) */
+	/* 1/4 bias: V2 = V3 = Vop/2, five taps */
+	gp_drive_levels(8, 4.0, 8.0, &l);
+	assert_levels(&l, 4.0, 8.0);
+	assert_int_equal(l.same_as[3], 2);
+	assert_int_equal(l.same_as[4], -1);
+	assert_int_equal(l.taps, 5);
+	/* 1/9 bias (N = 64): six levels, V2 = 14 V above V3 = 4 V at
+	 * 18 V, ladder R:R:5R:R:R (from memory: the middle resistor is
+	 * (a-4)R) */
 	gp_drive_levels(64, 9.0, 18.0, &l);
-	assert_int_equal(l.count, 6);
+	assert_levels(&l, 9.0, 18.0);
 	assert_near(l.volts[1], 16.0, 1e-12);
 	assert_near(l.volts[2], 14.0, 1e-12);
 	assert_near(l.volts[3], 4.0, 1e-12);
 	assert_near(l.volts[4], 2.0, 1e-12);
+	assert_int_equal(l.taps, 6);
 	assert_near(l.resistor[2], 5.0, 1e-12);
-	/* 1/5 bias: V0..V5 in equal steps */
+	/* 1/5 bias: six distinct levels in equal steps */
 	gp_drive_levels(16, 5.0, 10.0, &l);
-	assert_int_equal(l.count, 6);
+	assert_levels(&l, 5.0, 10.0);
+	for (size_t i = 0; i < 6; i++)
+		assert_int_equal(l.same_as[i], -1);
 	for (size_t i = 0; i < 5; i++)
 		assert_near(l.resistor[i], 1.0, 1e-12);
+}
+
+struct bias_case {
+	long commons;
+	long low, high;     /* the whole-number biases listed */
+	long chosen;
+	double ratio_max;   /* Alt & Pleshko 1974 */
+	struct { long a; double von, voff, ratio; } rows[3];
+};
+
+/* The whole-number biases against the published formulas: Von/Vop =
+ * sqrt((a^2 + N - 1)/(N a^2)), Voff/Vop = sqrt(((a-2)^2 + N - 1)/(N a^2))
+ * and the maximum sqrt((sqrt N + 1)/(sqrt N - 1)) at a = sqrt N + 1 (Alt &
+ * Pleshko 1974), evaluated to 3 decimals by hand. */
+static void test_bias_table(void **state)
+{
+	(void)state;
+	static const struct bias_case cases[] = {
+		/* 1/2 duty: 1/2 and 1/3 both sqrt 5 = 2.236; the tie goes to
+		 * the smaller ladder */
+		{ 2, 2, 3, 2, 2.414,
+		  { { 2, 0.791, 0.354, 2.236 }, { 3, 0.745, 0.333, 2.236 } } },
+		{ 3, 2, 4, 3, 1.932,
+		  { { 2, 0.707, 0.408, 1.732 }, { 3, 0.638, 0.333, 1.915 },
+		    { 4, 0.612, 0.354, 1.732 } } },
+		{ 4, 2, 4, 3, 1.732,
+		  { { 2, 0.661, 0.433, 1.528 }, { 3, 0.577, 0.333, 1.732 },
+		    { 4, 0.545, 0.331, 1.648 } } },
+		/* 1/8 duty: the optimum 1/3.828 lies between, 1/4 wins */
+		{ 8, 2, 5, 4, 1.447,
+		  { { 3, 0.471, 0.333, 1.414 }, { 4, 0.424, 0.293, 1.446 },
+		    { 5, 0.400, 0.283, 1.414 } } },
+		{ 16, 2, 6, 5, 1.291,
+		  { { 4, 0.348, 0.272, 1.277 }, { 5, 0.316, 0.245, 1.291 },
+		    { 6, 0.298, 0.232, 1.283 } } },
+		/* 1/64 duty: eight rows ending one past the optimum 1/9 */
+		{ 64, 3, 10, 9, 1.134,
+		  { { 8, 0.176, 0.155, 1.133 }, { 9, 0.167, 0.147, 1.134 },
+		    { 10, 0.160, 0.141, 1.133 } } },
+	};
+	for (size_t i = 0; i < sizeof(cases) / sizeof(cases[0]); i++) {
+		const struct bias_case *c = &cases[i];
+		struct gp_drive_params p = { .commons = c->commons };
+		struct gp_drive_result r;
+		assert_true(gp_drive_compute(&p, &r));
+		assert_true(r.bias_by_rule);
+		assert_near(r.bias, (double)c->chosen, 0.0);
+		assert_near(r.ratio_max, c->ratio_max, TOL3);
+		assert_int_equal(r.bias_rows, (size_t)(c->high - c->low + 1));
+		assert_int_equal(r.biases[0].a, c->low);
+		assert_int_equal(r.biases[r.bias_rows - 1].a, c->high);
+		assert_int_equal(r.biases[r.chosen_row].a, c->chosen);
+		for (size_t k = 0; k < 3 && c->rows[k].a; k++) {
+			const struct gp_drive_bias_row *row =
+				&r.biases[c->rows[k].a - c->low];
+			assert_int_equal(row->a, c->rows[k].a);
+			assert_near(row->von, c->rows[k].von, TOL3);
+			assert_near(row->voff, c->rows[k].voff, TOL3);
+			assert_near(row->ratio, c->rows[k].ratio, TOL3);
+			assert_near(row->share, c->rows[k].ratio / c->ratio_max,
+				    0.001);
+		}
+		/* no listed whole-number bias beats the chosen one, and
+		 * none beats the Alt & Pleshko 1974 maximum */
+		for (size_t k = 0; k < r.bias_rows; k++) {
+			assert_true(r.biases[k].ratio <=
+				    r.biases[r.chosen_row].ratio + 1e-12);
+			assert_true(r.biases[k].ratio <= r.ratio_max + 1e-12);
+		}
+	}
+	/* a given bias outside the span is listed in its place: 1/2 at
+	 * 1/64 duty, ratio 1.0 + ... (the formula: sqrt(67/63) = 1.031) */
+	struct gp_drive_params p = { .commons = 64, .bias = 2.0 };
+	struct gp_drive_result r;
+	assert_true(gp_drive_compute(&p, &r));
+	assert_false(r.bias_by_rule);
+	assert_int_equal(r.bias_rows, 9);
+	assert_int_equal(r.chosen_row, 0);
+	assert_int_equal(r.biases[0].a, 2);
+	assert_near(r.biases[0].ratio, 1.031, TOL3);
+	/* the window of each row: Von = Vsat at its low edge, Voff = Vth at
+	 * its high one (the window's definition); 1/16 duty, Vth 2.05 V,
+	 * Vsat 2.45 V: 1/2 bias (1.125) cannot switch 1.195, 1/5 can */
+	struct gp_drive_params q = { .commons = 16, .vth = 2.05,
+				     .vsat = 2.45 };
+	assert_true(gp_drive_compute(&q, &r));
+	assert_int_equal(r.biases[0].a, 2);
+	assert_true(r.biases[0].window.empty);
+	const struct gp_drive_bias_row *five = &r.biases[3];
+	assert_int_equal(five->a, 5);
+	assert_false(five->window.empty);
+	assert_near(five->window.low * five->von, 2.45, 1e-9);
+	assert_near(five->window.high * five->voff, 2.05, 1e-9);
+	/* 2.05 / 0.2449 = 8.369 V, 2.45 / 0.3162 = 7.748 V */
+	assert_near(five->window.high, 8.369, TOL3);
+	assert_near(five->window.low, 7.748, TOL3);
+	/* static drive has no bias to list */
+	struct gp_drive_params one = { .commons = 1 };
+	assert_true(gp_drive_compute(&one, &r));
+	assert_int_equal(r.bias_rows, 0);
 }
 
 static void test_temperature(void **state)
@@ -479,9 +616,12 @@ static void test_read_full(void **state)
 	const struct gp_drive_result *r = &l.report.result;
 	/* one line of 5x8 cells: 8 commons (issue 2's net order) */
 	assert_int_equal(r->commons, 8);
-	/* Alt & Pleshko 1974: best bias 1/(sqrt 8 + 1) = 1/3.828 */
-	assert_near(r->bias, 3.828, TOL3);
-	assert_near(r->ratio, gp_drive_ratio_max(8), 1e-12);
+	/* 'best' is the whole-number bias with the highest ratio: 1/4 gives
+	 * 1.446 against 1/3's 1.414, next to the Alt & Pleshko 1974 optimum
+	 * 1/3.828 with 1.447 */
+	assert_near(r->bias, 4.0, 0.0);
+	assert_near(r->ratio, 1.446, TOL3);
+	assert_near(r->ratio_max, 1.447, TOL3);
 	assert_true(r->feasible);
 	assert_true(r->window.low < r->vop && r->vop < r->window.high);
 	/* -6 mV/C on 1.8 V over 20 -> -10 degC: 1 + 0.18/1.8 = 1.1 */
@@ -498,6 +638,13 @@ static void test_read_full(void **state)
 	assert_non_null(strstr(out.data, "0.55 mm"));
 	assert_non_null(strstr(out.data, "commons N                  8 "
 					 "(duty 1/8)"));
+	/* the ordering spec names the bias a driver gives */
+	assert_non_null(strstr(out.data, "\n  bias                       1/4\n"));
+	assert_null(strstr(out.data, "bias                       1/3.828"));
+	assert_non_null(strstr(out.data, "\n  1/4       0.424     0.293     "
+					 "1.446       99.9%  "));
+	assert_non_null(strstr(out.data, "  V2 = (a-2)/a               "));
+	assert_non_null(strstr(out.data, "V2 = V3 (5 taps)"));
 	gp_buffer_finish(&out);
 
 	gp_buffer_init(&out);
@@ -576,7 +723,11 @@ static void test_bad_input(void **state)
 		  "ratio" },
 		{ "drive:\n  bias: half\n", block8,
 		  "t.yaml:14:9: 'bias' must be written 1/a (like 1/3 or "
-		  "1/4.5) or 'best', got 'half'" },
+		  "1/4) or 'best', got 'half'" },
+		{ "drive:\n  bias: 1/4.5\n", block8,
+		  "t.yaml:14:9: 'bias' 1/4.5 is not a bias a driver can give: "
+		  "write a whole-number bias such as 1/4 or 1/5, or 'best' to "
+		  "let glassplot choose" },
 		{ "optics:\n  threshold: 2\n  saturation: 2\n", block8,
 		  "t.yaml:15:15: 'saturation' 2 V must be above 'threshold' "
 		  "2 V: saturation is the 90% contrast voltage, threshold the "
@@ -645,6 +796,26 @@ static void test_static_description(void **state)
 	unload(&l);
 }
 
+/* Messages are for the user: where a value comes from belongs in the
+ * source, not in what is printed. */
+static void test_no_memory_in_messages(void **state)
+{
+	(void)state;
+	struct loaded l;
+	load(&l,
+	     "drive:\n  bias: 1/3\n  frame_rate: 40\n"
+	     "optics:\n  threshold: 1.8\n  saturation: 2.1\n"
+	     "  temperature_coefficient: 0.2 %/C\n"
+	     "  operating_temperature: [-50, 90]\n"
+	     "  glass_thickness: 2\n",
+	     block8);
+	assert_true(l.resolved);
+	assert_true(l.diag.count >= 4);
+	for (size_t i = 0; i < l.diag.count; i++)
+		assert_null(strstr(l.diag.entries[i].message, "from memory"));
+	unload(&l);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -655,6 +826,8 @@ int main(void)
 		cmocka_unit_test(test_feasible_window),
 		cmocka_unit_test(test_bias_fix),
 		cmocka_unit_test(test_levels),
+		cmocka_unit_test(test_bias_table),
+		cmocka_unit_test(test_no_memory_in_messages),
 		cmocka_unit_test(test_temperature),
 		cmocka_unit_test(test_timing),
 		cmocka_unit_test(test_params_problems),

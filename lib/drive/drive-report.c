@@ -69,6 +69,9 @@ void gp_drive_advice(const struct gp_drive_report *report, char *text,
 			       hi);
 		else if (lo == hi)
 			append(text, size, ", the whole number 1/%ld", lo);
+		else
+			append(text, size, ", but no whole-number bias a "
+					   "driver can give");
 		return;
 	}
 	append(text, size,
@@ -95,7 +98,7 @@ void gp_drive_advice(const struct gp_drive_report *report, char *text,
 			       r->max_commons_whole,
 			       r->max_commons_whole_bias);
 	}
-	if (!r->bias_is_best && r->max_commons_at_bias >= 2)
+	if (!r->bias_by_rule && r->max_commons_at_bias >= 2)
 		append(text, size, "; keeping bias %s, up to 1/%ld", bias,
 		       r->max_commons_at_bias);
 }
@@ -150,15 +153,62 @@ static void format_multiplex(const struct gp_drive_report *report,
 	}
 	line(out, "commons N", "%ld (duty 1/%ld)%s", r->commons, r->commons,
 	     report->duty_from_spec ? ", from 'duty'" : "");
-	line(out, "bias", "%s%s", bias,
-	     r->bias_is_best ? " ('best': Alt-Pleshko optimum 1/(sqrt N + 1))" :
-			       "");
+	line(out, "bias", "%s (%s)", bias,
+	     r->bias_by_rule ? "the whole-number bias with the highest "
+			       "selection ratio" :
+			       "given");
 	line(out, "Von/Vop (rms, on)", "%.3f", r->von);
 	line(out, "Voff/Vop (rms, off)", "%.3f", r->voff);
 	line(out, "selection ratio Von/Voff", "%.3f", r->ratio);
-	line(out, "Alt-Pleshko maximum", "%.3f at bias %s", r->ratio_max, best);
-	line(out, "best whole-number bias", "1/%ld (ratio %.3f)",
-	     r->best_whole_bias, r->best_whole_ratio);
+	line(out, "Alt-Pleshko optimum",
+	     "ratio %.3f at bias 1/(sqrt N + 1) = %s", r->ratio_max, best);
+}
+
+static void window_text(char *text, size_t size,
+			const struct gp_drive_window *w)
+{
+	if (w->empty)
+		snprintf(text, size, "empty");
+	else if (isinf(w->high))
+		snprintf(text, size, "from %.3f V", w->low);
+	else
+		snprintf(text, size, "%.3f to %.3f V", w->low, w->high);
+}
+
+/* The whole-number biases against the Alt-Pleshko optimum. */
+static void format_biases(const struct gp_drive_report *report,
+			  struct gp_buffer *out)
+{
+	const struct gp_drive_result *r = &report->result;
+	if (r->is_static)
+		return;
+	gp_buffer_printf(out,
+			 "\nWhole-number biases for duty 1/%ld (the rule: the "
+			 "highest Von/Voff, on a tie the smaller a)\n",
+			 r->commons);
+	gp_buffer_puts(out, "  bias    Von/Vop  Voff/Vop  Von/Voff  "
+			    "of optimum");
+	if (r->has_window)
+		gp_buffer_printf(out, "  Vop window at %g \u00b0C",
+				 report->params.t_ref);
+	gp_buffer_puts(out, "\n");
+	for (size_t i = 0; i < r->bias_rows; i++) {
+		const struct gp_drive_bias_row *row = &r->biases[i];
+		char bias[32], window[64] = "", text[160];
+		snprintf(bias, sizeof(bias), "1/%ld", row->a);
+		if (r->has_window)
+			window_text(window, sizeof(window), &row->window);
+		snprintf(text, sizeof(text),
+			 "  %-6s %8.3f  %8.3f  %8.3f  %9.1f%%  %-*s%s", bias,
+			 row->von, row->voff, row->ratio, 100.0 * row->share,
+			 r->has_window ? 18 : 0, window,
+			 i == r->chosen_row ? "  chosen" : "");
+		/* no trailing blanks where the last columns are empty */
+		size_t length = strlen(text);
+		while (length && text[length - 1] == ' ')
+			text[--length] = '\0';
+		gp_buffer_printf(out, "%s\n", text);
+	}
 }
 
 static void format_window(const struct gp_drive_report *report,
@@ -209,29 +259,61 @@ static void format_window(const struct gp_drive_report *report,
 					"OUTSIDE the window");
 }
 
+/* "V1 = V3, V2 = V4": the levels that are one tap at this bias */
+static void coinciding_text(char *text, size_t size,
+			    const struct gp_drive_levels *l)
+{
+	text[0] = '\0';
+	for (size_t i = 0; i < l->count; i++)
+		if (l->same_as[i] >= 0)
+			append(text, size, "%sV%d = V%zu", text[0] ? ", " : "",
+			       l->same_as[i], i);
+	if (!text[0])
+		snprintf(text, size, "none");
+	append(text, size, " (%zu taps)", l->taps);
+}
+
 static void format_levels(const struct gp_drive_report *report,
 			  struct gp_buffer *out)
 {
+	static const char *const names[GP_DRIVE_MAX_LEVELS] = {
+		"V0 = Vop", "V1 = (a-1)/a", "V2 = (a-2)/a",
+		"V3 = 2/a", "V4 = 1/a",	    "V5 = 0",
+	};
+	static const char *const static_names[2] = { "V0 = Vop", "V1 = 0" };
 	const struct gp_drive_result *r = &report->result;
 	const struct gp_drive_levels *l = &r->levels;
-	const char *title = r->is_static ? "Drive levels" : "Bias ladder";
+	char bias[32], title[96];
+	gp_drive_bias_text(bias, sizeof(bias), r->commons, r->bias);
+	if (r->is_static)
+		snprintf(title, sizeof(title), "Drive levels");
+	else
+		snprintf(title, sizeof(title), "Bias ladder %s", bias);
 	if (r->vop > 0.0)
 		gp_buffer_printf(out, "\n%s at Vop = %.3f V\n", title, r->vop);
 	else
 		gp_buffer_printf(out, "\n%s (fractions of Vop)\n", title);
+	if (!r->is_static)
+		line(out, "usual driver order", "commons use V0 V1 V4 V5, "
+						"segments V0 V2 V3 V5");
 	for (size_t i = 0; i < l->count; i++) {
-		char label[32];
-		snprintf(label, sizeof(label), "V%zu", i);
+		const char *label = r->is_static ? static_names[i] : names[i];
+		char same[16] = "";
+		if (l->same_as[i] >= 0)
+			snprintf(same, sizeof(same), ", = V%d", l->same_as[i]);
 		if (r->vop > 0.0)
-			line(out, label, "%.3f V (%.4f Vop)", l->volts[i],
-			     l->fraction[i]);
+			line(out, label, "%.3f V (%.4f Vop%s)", l->volts[i],
+			     l->fraction[i], same);
 		else
-			line(out, label, "%.4f Vop", l->fraction[i]);
+			line(out, label, "%.4f Vop%s", l->fraction[i], same);
 	}
 	if (r->is_static)
 		return;
+	char text[256];
+	coinciding_text(text, sizeof(text), l);
+	line(out, "same voltage", "%s", text);
 	char chain[256] = "";
-	for (size_t i = 0; i + 1 < l->count; i++) {
+	for (size_t i = 0; i + 1 < l->taps; i++) {
 		size_t used = strlen(chain);
 		if (fabs(l->resistor[i] - 1.0) < 1e-9)
 			snprintf(chain + used, sizeof(chain) - used, "%sR",
@@ -413,6 +495,7 @@ void gp_drive_format(const struct gp_drive_report *report,
 		gp_buffer_printf(out, " rev %s", report->revision);
 	gp_buffer_puts(out, "\n" VOP_MEANING_1 "\n" VOP_MEANING_2 "\n\n");
 	format_multiplex(report, out);
+	format_biases(report, out);
 	format_window(report, out);
 	format_levels(report, out);
 	format_temperature(report, out);
@@ -452,6 +535,28 @@ static struct json_object *window_json(const struct gp_drive_window *w)
 	return o;
 }
 
+static struct json_object *biases_json(const struct gp_drive_result *r)
+{
+	struct json_object *list = json_object_new_array();
+	for (size_t i = 0; i < r->bias_rows; i++) {
+		const struct gp_drive_bias_row *row = &r->biases[i];
+		struct json_object *o = json_object_new_object();
+		char text[32];
+		snprintf(text, sizeof(text), "1/%ld", row->a);
+		put(o, "bias", json_object_new_string(text));
+		put(o, "a", json_object_new_int64(row->a));
+		put(o, "von_fraction", number(row->von));
+		put(o, "voff_fraction", number(row->voff));
+		put(o, "selection_ratio", number(row->ratio));
+		put(o, "of_alt_pleshko_max", number(row->share));
+		put(o, "window",
+		    r->has_window ? window_json(&row->window) : NULL);
+		put(o, "chosen", json_object_new_boolean(i == r->chosen_row));
+		json_object_array_add(list, o);
+	}
+	return list;
+}
+
 static struct json_object *multiplex_json(const struct gp_drive_report *rep)
 {
 	const struct gp_drive_result *r = &rep->result;
@@ -467,8 +572,12 @@ static struct json_object *multiplex_json(const struct gp_drive_report *rep)
 	put(o, "selection_ratio", number(r->ratio));
 	put(o, "alt_pleshko_max", number(r->ratio_max));
 	put(o, "alt_pleshko_bias_a", r->is_static ? NULL : number(r->best_bias));
-	put(o, "best_whole_bias_a",
-	    r->is_static ? NULL : json_object_new_int64(r->best_whole_bias));
+	put(o, "bias_chosen_by",
+	    r->is_static     ? NULL :
+	    r->bias_by_rule ? json_object_new_string("highest-ratio") :
+			      json_object_new_string("given"));
+	if (!r->is_static)
+		put(o, "whole_biases", biases_json(r));
 	return o;
 }
 
@@ -482,10 +591,25 @@ static struct json_object *levels_json(const struct gp_drive_result *r)
 		put(o, "name", json_object_new_string(name));
 		put(o, "fraction", number(r->levels.fraction[i]));
 		put(o, "volts", r->vop > 0.0 ? number(r->levels.volts[i]) : NULL);
-		if (i + 1 < r->levels.count && !r->is_static)
-			put(o, "resistor_below", number(r->levels.resistor[i]));
+		if (r->levels.same_as[i] >= 0) {
+			snprintf(name, sizeof(name), "V%d", r->levels.same_as[i]);
+			put(o, "same_as", json_object_new_string(name));
+		} else {
+			put(o, "same_as", NULL);
+		}
 		json_object_array_add(list, o);
 	}
+	return list;
+}
+
+/* resistors between the ladder's taps, top to bottom, in units of Vop/a */
+static struct json_object *ladder_json(const struct gp_drive_result *r)
+{
+	if (r->is_static)
+		return NULL;
+	struct json_object *list = json_object_new_array();
+	for (size_t i = 0; i + 1 < r->levels.taps; i++)
+		json_object_array_add(list, number(r->levels.resistor[i]));
 	return list;
 }
 
@@ -620,6 +744,7 @@ void *gp_drive_json(const struct gp_drive_report *report)
 	put(o, "vop_v", r->vop > 0.0 ? number(r->vop) : NULL);
 	put(o, "vop_given", json_object_new_boolean(r->vop_given));
 	put(o, "levels", levels_json(r));
+	put(o, "ladder_resistors", ladder_json(r));
 	put(o, "temperature", temperature_json(report));
 	put(o, "timing", timing_json(report));
 	put(o, "order", order_json(report));

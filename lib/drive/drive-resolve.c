@@ -139,16 +139,6 @@ static void warn_resolved(const struct gp_drive_report *report,
 				"duty 1/%ld is beyond the usual 1/%ld for %s "
 				"(common practice, no published source)",
 				r->commons, usual, fluid_names[spec->fluid]);
-	if (!r->is_static && r->bias != floor(r->bias)) {
-		char text[32];
-		gp_drive_bias_text(text, sizeof(text), r->commons, r->bias);
-		gp_diag_note(diag, spec->bias.given ? &spec->bias.where : &file,
-			     "bias %s is not a whole number; drivers usually "
-			     "offer whole ones: 1/%ld gives a selection ratio "
-			     "of %.3f against %.3f",
-			     text, r->best_whole_bias, r->best_whole_ratio,
-			     r->ratio);
-	}
 	if (!r->has_window || !r->feasible || !r->vop_given)
 		return;
 	if (!r->vop_in_window)

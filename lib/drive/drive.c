@@ -78,10 +78,10 @@ long gp_drive_best_whole_bias(long commons)
 	long above = below + 1;
 	if (above > commons + 1)
 		return below;
-	return gp_drive_ratio(commons, (double)above) >
-		       gp_drive_ratio(commons, (double)below) ?
-		       above :
-		       below;
+	/* a tie goes to the smaller ladder */
+	double gain = gp_drive_ratio(commons, (double)above) /
+		      gp_drive_ratio(commons, (double)below);
+	return gain > 1.0 + 1e-12 ? above : below;
 }
 
 long gp_drive_max_commons(double ratio)
@@ -186,35 +186,66 @@ static int compare_down(const void *a, const void *b)
 	return (x < y) - (x > y);
 }
 
+/* levels closer than this are one tap of the ladder */
+#define SAME_LEVEL 1e-12
+
+static void find_taps(double a, struct gp_drive_levels *levels)
+{
+	double sorted[GP_DRIVE_MAX_LEVELS];
+	memcpy(sorted, levels->fraction, sizeof(sorted));
+	qsort(sorted, GP_DRIVE_MAX_LEVELS, sizeof(double), compare_down);
+	for (size_t i = 0; i < GP_DRIVE_MAX_LEVELS; i++) {
+		if (levels->taps &&
+		    fabs(levels->tap[levels->taps - 1] - sorted[i]) < SAME_LEVEL)
+			continue;
+		levels->tap[levels->taps++] = sorted[i];
+	}
+	for (size_t i = 0; i + 1 < levels->taps; i++)
+		levels->resistor[i] =
+			(levels->tap[i] - levels->tap[i + 1]) * a;
+}
+
 void gp_drive_levels(long commons, double a, double vop,
 		     struct gp_drive_levels *levels)
 {
 	memset(levels, 0, sizeof(*levels));
+	for (size_t i = 0; i < GP_DRIVE_MAX_LEVELS; i++)
+		levels->same_as[i] = -1;
 	if (commons <= 1) {
-		levels->count = 2;
-		levels->fraction[0] = 1.0;
-		levels->fraction[1] = 0.0;
+		levels->count = levels->taps = 2;
+		levels->fraction[0] = levels->tap[0] = 1.0;
 		levels->volts[0] = vop;
 		levels->resistor[0] = 1.0;
 		return;
 	}
-	double candidates[GP_DRIVE_MAX_LEVELS] = {
-		1.0, 1.0 - 1.0 / a, 1.0 - 2.0 / a, 2.0 / a, 1.0 / a, 0.0,
+	/* the usual driver order, V0..V5 */
+	const double fraction[GP_DRIVE_MAX_LEVELS] = {
+		1.0, (a - 1.0) / a, (a - 2.0) / a, 2.0 / a, 1.0 / a, 0.0,
 	};
-	qsort(candidates, GP_DRIVE_MAX_LEVELS, sizeof(double), compare_down);
-	/* 1/2 bias folds six values onto three, whole a <= 5 onto a+1 */
+	levels->count = GP_DRIVE_MAX_LEVELS;
 	for (size_t i = 0; i < GP_DRIVE_MAX_LEVELS; i++) {
-		if (levels->count &&
-		    fabs(levels->fraction[levels->count - 1] - candidates[i]) <
-			    1e-12)
-			continue;
-		levels->fraction[levels->count++] = candidates[i];
+		levels->fraction[i] = fraction[i];
+		levels->volts[i] = vop * fraction[i];
+		for (size_t j = 0; j < i && levels->same_as[i] < 0; j++)
+			if (fabs(fraction[j] - fraction[i]) < SAME_LEVEL)
+				levels->same_as[i] = (int)j;
 	}
-	for (size_t i = 0; i < levels->count; i++)
-		levels->volts[i] = vop * levels->fraction[i];
-	for (size_t i = 0; i + 1 < levels->count; i++)
-		levels->resistor[i] =
-			(levels->fraction[i] - levels->fraction[i + 1]) * a;
+	find_taps(a, levels);
+}
+
+void gp_drive_bias_span(long commons, long *low, long *high)
+{
+	if (commons <= 1) {
+		*low = *high = 0;
+		return;
+	}
+	/* the optimum is whole for square N: the tolerance keeps 1/3 at
+	 * N = 4 from counting as above it */
+	long above = (long)ceil(gp_drive_best_bias(commons) - 1e-9) + 1;
+	*high = above < commons + 1 ? above : commons + 1;
+	*low = *high - (GP_DRIVE_BIAS_ROWS - 1) > 2 ?
+		       *high - (GP_DRIVE_BIAS_ROWS - 1) :
+		       2;
 }
 
 double gp_drive_factor(const struct gp_drive_params *params, double t)
@@ -260,13 +291,12 @@ const char *gp_drive_params_problem(const struct gp_drive_params *params)
 }
 
 /* window for fractions von/voff and the fluid, scaled by factor */
-static void make_window(const struct gp_drive_result *r, double vth,
-			double vsat, double factor,
-			struct gp_drive_window *w)
+static void make_window(double von, double voff, double vth, double vsat,
+			double factor, struct gp_drive_window *w)
 {
 	double on_target = (vsat > 0.0 ? vsat : vth) * factor;
-	w->low = on_target / r->von;
-	w->high = r->voff > 0.0 ? vth * factor / r->voff : INFINITY;
+	w->low = on_target / von;
+	w->high = voff > 0.0 ? vth * factor / voff : INFINITY;
 	w->empty = w->low > w->high;
 	if (w->empty) {
 		w->recommended = 0.0;
@@ -302,9 +332,9 @@ static void compute_multiplex(const struct gp_drive_params *p,
 {
 	r->commons = p->commons;
 	r->is_static = p->commons == 1;
-	r->bias_is_best = p->bias == 0.0;
-	r->bias = r->is_static ? 2.0 :
-		  r->bias_is_best ? gp_drive_best_bias(p->commons) :
+	r->bias_by_rule = p->bias == 0.0;
+	r->bias = r->is_static	  ? 2.0 :
+		  r->bias_by_rule ? (double)gp_drive_best_whole_bias(p->commons) :
 				    p->bias;
 	gp_drive_fractions(p->commons, r->bias, &r->von, &r->voff);
 	r->ratio = gp_drive_ratio(p->commons, r->bias);
@@ -316,12 +346,52 @@ static void compute_multiplex(const struct gp_drive_params *p,
 	r->needed = p->vsat > 0.0 ? p->vsat / p->vth : 0.0;
 }
 
+static void add_bias_row(const struct gp_drive_params *p,
+			 struct gp_drive_result *r, long a)
+{
+	struct gp_drive_bias_row *row = &r->biases[r->bias_rows++];
+	row->a = a;
+	gp_drive_fractions(p->commons, (double)a, &row->von, &row->voff);
+	row->ratio = gp_drive_ratio(p->commons, (double)a);
+	row->share = row->ratio / r->ratio_max;
+	if (p->vth > 0.0)
+		make_window(row->von, row->voff, p->vth, p->vsat, 1.0,
+			    &row->window);
+	if ((double)a == r->bias)
+		r->chosen_row = r->bias_rows - 1;
+}
+
+/* The whole-number biases: the span, with a given one outside it in its
+ * place in the order. */
+static void compute_biases(const struct gp_drive_params *p,
+			   struct gp_drive_result *r)
+{
+	r->chosen_row = GP_DRIVE_BIAS_ROWS + 1;
+	if (r->is_static) {
+		r->chosen_row = 0;
+		return;
+	}
+	long low, high;
+	gp_drive_bias_span(p->commons, &low, &high);
+	bool whole = r->bias == floor(r->bias);
+	long given = (long)r->bias;
+	if (whole && given < low)
+		add_bias_row(p, r, given);
+	for (long a = low; a <= high; a++)
+		add_bias_row(p, r, a);
+	if (whole && given > high)
+		add_bias_row(p, r, given);
+	if (r->chosen_row > r->bias_rows)
+		r->chosen_row = r->bias_rows;
+}
+
 static void compute_window(const struct gp_drive_params *p,
 			   struct gp_drive_result *r)
 {
 	r->has_window = p->vth > 0.0;
 	if (r->has_window)
-		make_window(r, p->vth, p->vsat, 1.0, &r->window);
+		make_window(r->von, r->voff, p->vth, p->vsat, 1.0,
+			    &r->window);
 	r->feasible = !r->window.empty;
 	if (!r->feasible) {
 		r->max_commons = gp_drive_max_commons(r->needed);
@@ -356,8 +426,8 @@ static void compute_temperature(const struct gp_drive_params *p,
 			ends[i]->window.empty = true;
 			continue;
 		}
-		make_window(r, p->vth, p->vsat, ends[i]->factor,
-			    &ends[i]->window);
+		make_window(r->von, r->voff, p->vth, p->vsat,
+			    ends[i]->factor, &ends[i]->window);
 	}
 	if (r->factor_invalid) {
 		r->common_empty = true;
@@ -400,6 +470,7 @@ bool gp_drive_compute(const struct gp_drive_params *params,
 		return false;
 	compute_multiplex(params, result);
 	compute_window(params, result);
+	compute_biases(params, result);
 	compute_temperature(params, result);
 	compute_timing(params, result);
 	return true;

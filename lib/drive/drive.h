@@ -48,8 +48,10 @@ double gp_drive_ratio(long commons, double a);
 double gp_drive_ratio_max(long commons);
 /* The bias a (of 1/a) that reaches it: sqrt(N) + 1 (2 for N == 1). */
 double gp_drive_best_bias(long commons);
-/* The whole-number bias a in 2..N+1 with the highest ratio (2 for N <= 2
- * would tie with 3 at N = 2; the smaller ladder wins ties). */
+/* The bias rule: the whole-number a in 2..N+1 with the highest selection
+ * ratio, which gives the widest relative Vop window for any fluid; on a
+ * tie the smaller a (fewer ladder levels, lower Vop): 1/2 at N = 2, where
+ * 1/2 and 1/3 both give sqrt 5. */
 long gp_drive_best_whole_bias(long commons);
 /* Largest N whose ratio with the best bias still reaches ratio; 1 (static)
  * when no multiplex does; GP_DRIVE_MAX_COMMONS for ratios <= 1. */
@@ -67,17 +69,24 @@ bool gp_drive_bias_range(long commons, double ratio, double *low,
 
 /* --- the bias ladder ---------------------------------------------------- */
 
-/* The voltage levels a 1/a-bias line-inverted waveform uses, top (V0 =
- * Vop) to bottom (0 V): the distinct values of Vop * {1, 1-1/a, 1-2/a,
- * 2/a, 1/a, 0}.  For whole a <= 5 these are exactly V0..Va in equal steps;
- * for larger a the middle step is (a-4) times the others.  Static drive
- * uses two levels, Vop and 0. */
+/* The six levels of a 1/a-bias waveform in the usual driver order, as
+ * fractions of Vop: V0 = 1, V1 = (a-1)/a, V2 = (a-2)/a, V3 = 2/a,
+ * V4 = 1/a, V5 = 0.  Commons use V0, V1, V4, V5 (selected V0 or V5,
+ * non-selected V4 or V1 by polarity); segments use V0, V2, V3, V5.  At
+ * 1/2 bias V1 = V4, V2 = V5 and V3 = V0; at 1/3 bias V1 = V3 and V2 = V4;
+ * at 1/4 bias V2 = V3.  Static drive has two levels, V0 = Vop and
+ * V1 = 0 V. */
 #define GP_DRIVE_MAX_LEVELS 6
 struct gp_drive_levels {
-	size_t count;
+	size_t count;                          /* 6; 2 for static drive */
 	double fraction[GP_DRIVE_MAX_LEVELS];  /* of Vop */
 	double volts[GP_DRIVE_MAX_LEVELS];
-	/* resistor between level i and i+1, in units of the step Vop/a
+	/* the lowest-numbered level with the same voltage, or -1 */
+	int same_as[GP_DRIVE_MAX_LEVELS];
+	/* the distinct voltages, top to bottom: the ladder's taps */
+	size_t taps;
+	double tap[GP_DRIVE_MAX_LEVELS];       /* fractions of Vop */
+	/* resistor between tap i and i+1, in units of the step Vop/a
 	 * (so 1/3 bias is 1:1:1, 1/9 bias is 1:1:5:1:1) */
 	double resistor[GP_DRIVE_MAX_LEVELS - 1];
 };
@@ -89,7 +98,7 @@ void gp_drive_levels(long commons, double a, double vop,
 /* Inputs, all plain numbers, already checked by the reader. */
 struct gp_drive_params {
 	long commons;             /* N >= 1 */
-	double bias;              /* a of 1/a; 0 = best for N */
+	double bias;              /* a of 1/a; 0 = chosen by the rule */
 	double vth;               /* V rms at 10% contrast; 0 = not known */
 	double vsat;              /* V rms at 90% contrast; 0 = not known */
 	enum gp_drive_tc_unit tc_unit;
@@ -110,6 +119,20 @@ struct gp_drive_window {
 	double margin;            /* recommended/low - 1 (relative headroom) */
 };
 
+/* The whole-number biases a driver can give, listed for N commons: from
+ * 1/2 (or GP_DRIVE_BIAS_ROWS before the end) up to one past the
+ * Alt-Pleshko optimum 1/(sqrt N + 1), never below 1/(N+1); a given bias
+ * outside that span is listed too.  gp_drive_bias_span gives the span. */
+#define GP_DRIVE_BIAS_ROWS 8
+struct gp_drive_bias_row {
+	long a;                   /* bias 1/a */
+	double von, voff;         /* fractions of Vop */
+	double ratio;             /* Von/Voff */
+	double share;             /* ratio / Alt-Pleshko maximum */
+	struct gp_drive_window window;  /* at t_ref, when the fluid is known */
+};
+void gp_drive_bias_span(long commons, long *low, long *high);
+
 struct gp_drive_temperature {
 	double t;                 /* degC */
 	double factor;            /* Vth(T)/Vth(Tref) */
@@ -120,13 +143,18 @@ struct gp_drive_result {
 	long commons;
 	bool is_static;
 	double bias;              /* a actually used */
-	bool bias_is_best;        /* chosen as 'best' */
+	bool bias_by_rule;        /* chosen by the rule, not given */
 	double von, voff;         /* fractions of Vop */
 	double ratio;             /* Von/Voff */
 	double ratio_max;         /* Alt-Pleshko maximum for N */
 	double best_bias;         /* a reaching it */
 	long best_whole_bias;
 	double best_whole_ratio;
+	/* the whole-number biases (none for static drive) and which of
+	 * them is used (bias_rows when the bias is not a whole number) */
+	size_t bias_rows;
+	struct gp_drive_bias_row biases[GP_DRIVE_BIAS_ROWS + 1];
+	size_t chosen_row;
 	double needed;            /* Vsat/Vth; 0 with a single threshold */
 
 	bool has_window;                   /* the fluid is known */

@@ -94,7 +94,7 @@ static bool read_bias(struct gp_reader *r, struct gp_drive_spec *spec)
 	if (!parse_fraction(node->text, &a)) {
 		r->ok = gp_diag_error(r->diag, &node->where,
 				      "'bias' must be written 1/a (like 1/3 "
-				      "or 1/4.5) or 'best', got '%s'",
+				      "or 1/4) or 'best', got '%s'",
 				      node->text);
 		return false;
 	}
@@ -103,6 +103,17 @@ static bool read_bias(struct gp_reader *r, struct gp_drive_spec *spec)
 				      "'bias' %s is outside 1/2 ... 1/(N+1): "
 				      "the bias ladder needs a >= 2 in 1/a",
 				      node->text);
+		return false;
+	}
+	/* a driver's ladder has whole steps: 1/4.5 is no bias one can
+	 * order or drive */
+	if (a != floor(a)) {
+		r->ok = gp_diag_fail(r->diag, GP_MSG_NOT_WHOLE, &node->where,
+				     "'bias' %s is not a bias a driver can "
+				     "give: write a whole-number bias such "
+				     "as 1/%.0f or 1/%.0f, or 'best' to let "
+				     "glassplot choose",
+				     node->text, floor(a), ceil(a));
 		return false;
 	}
 	spec->bias = (struct gp_drive_value){ true, node->where, a };
@@ -212,11 +223,12 @@ static bool read_coefficient(struct gp_reader *r, struct gp_drive_spec *spec)
 		spec->coefficient =
 			(struct gp_drive_value){ true, node->where, value };
 		spec->tc_unit = units[i].kind;
+		/* nematic thresholds fall as they warm (from memory) */
 		if (value > 0.0)
 			gp_diag_warning(r->diag, &node->where,
 					"a positive temperature coefficient "
 					"is unusual: nematic thresholds fall "
-					"as they warm (from memory)");
+					"as they warm");
 		return true;
 	}
 	r->ok = gp_diag_error(r->diag, &node->where,
