@@ -223,75 +223,147 @@ void gp_maze_mark_box(struct gp_maze *m, enum gp_maze_layer layer,
 
 #define FAR 1e20f
 
-/* Felzenszwalb and Huttenlocher's lower envelope of parabolas, one line. */
-static void dt1d(const float *f, int n, float *d, int *v, float *z)
+/* Squared distances in whole cells: exact in int32 for grids up to 4096
+ * cells a side; FAR_CELLS where a line holds no mark. */
+#define FAR_CELLS INT32_MAX
+
+/* Felzenszwalb and Huttenlocher's lower envelope of parabolas along one
+ * row, in integers: breakpoints are kept as fractions (num / den, den >
+ * 0) and compared by cross multiplication, so every value is the exact
+ * squared distance.  Parabolas of unmarked columns (FAR_CELLS) never
+ * reach the envelope. */
+static void envelope_row(const int32_t *f, int n, float *d, int *v,
+			 int64_t *znum, int64_t *zden)
 {
-	int k = 0;
-	v[0] = 0;
-	z[0] = -FAR;
-	z[1] = FAR;
-	for (int q = 1; q < n; q++) {
-		float s;
-		for (;;) {
+	int k = -1;
+	for (int q = 0; q < n; q++) {
+		if (f[q] == FAR_CELLS)
+			continue;
+		int64_t fq = (int64_t)f[q] + (int64_t)q * q, num = 0, den = 1;
+		while (k >= 0) {
 			int p = v[k];
-			s = ((f[q] + (float)q * (float)q) -
-			     (f[p] + (float)p * (float)p)) /
-			    (float)(2 * q - 2 * p);
-			if (s > z[k] || k == 0)
+			num = fq - ((int64_t)f[p] + (int64_t)p * p);
+			den = 2 * (int64_t)(q - p);
+			if (k == 0 || num * zden[k] > znum[k] * den)
 				break;
 			k--;
 		}
 		k++;
 		v[k] = q;
-		z[k] = s;
-		z[k + 1] = FAR;
+		znum[k] = num;
+		zden[k] = den;
 	}
-	k = 0;
+	if (k < 0) {
+		for (int q = 0; q < n; q++)
+			d[q] = FAR;
+		return;
+	}
+	int j = 0;
 	for (int q = 0; q < n; q++) {
-		while (z[k + 1] < (float)q)
-			k++;
-		float t = (float)(q - v[k]);
-		d[q] = t * t + f[v[k]];
+		while (j < k && znum[j + 1] < (int64_t)q * zden[j + 1])
+			j++;
+		int64_t t = q - v[j];
+		d[q] = (float)(t * t + f[v[j]]);
 	}
 }
 
+/* A rectangle of cells: columns i0 .. i0 + w - 1, rows j0 .. j0 + h - 1. */
+struct cellbox {
+	int i0, j0, w, h;
+};
+
+/* Distance in cells to the nearest mark up or down each column of box,
+ * by two sweeps along the rows (kept in row order for the cache),
+ * squared, into col (box.w * box.h). */
+static void column_distances(const struct gp_maze *m, uint8_t bit,
+			     bool invert, struct cellbox box, int32_t *col)
+{
+	const int32_t none = 1 << 20;   /* more than any grid's height */
+	int w = box.w, h = box.h;
+	for (int j = 0; j < h; j++) {
+		const uint8_t *mk = m->marks + at(m, box.i0, box.j0 + j);
+		int32_t *c = col + (size_t)j * (size_t)w;
+		const int32_t *up = j ? c - w : NULL;
+		for (int i = 0; i < w; i++) {
+			bool on = ((mk[i] & bit) != 0) != invert;
+			c[i] = on ? 0 : up && up[i] < none ? up[i] + 1 : none;
+		}
+	}
+	for (int j = h - 2; j >= 0; j--) {
+		int32_t *c = col + (size_t)j * (size_t)w;
+		const int32_t *down = c + w;
+		for (int i = 0; i < w; i++)
+			if (down[i] + 1 < c[i])
+				c[i] = down[i] + 1;
+	}
+	size_t n = (size_t)w * (size_t)h;
+	for (size_t k = 0; k < n; k++)
+		col[k] = col[k] >= none ? FAR_CELLS : col[k] * col[k];
+}
+
+/* The bounds of the cells with bit set, grown by one cell and kept in
+ * the grid; false when there are none. */
+static bool marked_bounds(const struct gp_maze *m, uint8_t bit,
+			  struct cellbox *box)
+{
+	int i0 = m->w, i1 = -1, j0 = m->h, j1 = -1;
+	for (int j = 0; j < m->h; j++) {
+		const uint8_t *mk = m->marks + at(m, 0, j);
+		for (int i = 0; i < m->w; i++)
+			if (mk[i] & bit) {
+				i0 = i < i0 ? i : i0;
+				i1 = i > i1 ? i : i1;
+				j0 = j < j0 ? j : j0;
+				j1 = j;
+			}
+	}
+	if (i1 < 0)
+		return false;
+	i0 = i0 > 0 ? i0 - 1 : 0;
+	j0 = j0 > 0 ? j0 - 1 : 0;
+	i1 = i1 + 1 < m->w ? i1 + 1 : i1;
+	j1 = j1 + 1 < m->h ? j1 + 1 : j1;
+	*box = (struct cellbox){ i0, j0, i1 - i0 + 1, j1 - j0 + 1 };
+	return true;
+}
+
 /* Squared distance in cells from every cell centre to the nearest cell
- * with bit set (FAR when none), into out (w * h floats). */
+ * with bit set (FAR when none), into out (w * h floats).  With invert,
+ * to the nearest cell without it: 0 outside the marked cells' bounds,
+ * and found within those bounds grown by one cell, as a cell beyond lies
+ * no nearer than the unmarked ring round them. */
 static bool transform(const struct gp_maze *m, uint8_t bit, bool invert,
 		      float *out)
 {
-	if (!invert && !(m->used & bit)) {
-		size_t n = (size_t)m->w * (size_t)m->h;
-		for (size_t k = 0; k < n; k++)
+	size_t cells = (size_t)m->w * (size_t)m->h;
+	struct cellbox box = { 0, 0, m->w, m->h };
+	if (invert) {
+		for (size_t k = 0; k < cells; k++)
+			out[k] = 0;
+		if (!marked_bounds(m, bit, &box))
+			return true;
+	} else if (!(m->used & bit)) {
+		for (size_t k = 0; k < cells; k++)
 			out[k] = FAR;
 		return true;
 	}
-	int n = m->w > m->h ? m->w : m->h;
-	float *f = calloc((size_t)n, sizeof(float));
-	float *d = calloc((size_t)n, sizeof(float));
+	int n = box.w > box.h ? box.w : box.h;
+	int32_t *col = malloc((size_t)box.w * (size_t)box.h * sizeof(*col));
 	int *v = malloc((size_t)n * sizeof(int));
-	float *z = malloc((size_t)(n + 1) * sizeof(float));
-	bool ok = f && d && v && z;
-	if (!ok)
-		goto out;
-	for (int i = 0; i < m->w; i++) {
-		for (int j = 0; j < m->h; j++)
-			f[j] = ((m->marks[at(m, i, j)] & bit) != 0) != invert
-				       ? 0 : FAR;
-		dt1d(f, m->h, d, v, z);
-		for (int j = 0; j < m->h; j++)
-			out[at(m, i, j)] = d[j];
+	int64_t *znum = malloc((size_t)(n + 1) * sizeof(int64_t));
+	int64_t *zden = malloc((size_t)(n + 1) * sizeof(int64_t));
+	bool ok = col && v && znum && zden;
+	if (ok) {
+		column_distances(m, bit, invert, box, col);
+		for (int j = 0; j < box.h; j++)
+			envelope_row(col + (size_t)j * (size_t)box.w, box.w,
+				     out + at(m, box.i0, box.j0 + j), v, znum,
+				     zden);
 	}
-	for (int j = 0; j < m->h; j++) {
-		memcpy(f, out + at(m, 0, j), (size_t)m->w * sizeof(float));
-		dt1d(f, m->w, d, v, z);
-		memcpy(out + at(m, 0, j), d, (size_t)m->w * sizeof(float));
-	}
-out:
-	free(f);
-	free(d);
+	free(col);
 	free(v);
-	free(z);
+	free(znum);
+	free(zden);
 	return ok;
 }
 
