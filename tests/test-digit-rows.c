@@ -291,12 +291,110 @@ static void test_samples_readback(void **state)
 	assert_true(seen >= 5);
 }
 
+/* Mixed glasses: a dot-matrix block with icons beside its lower rows (in
+ * the way of their straight lead-outs, so that the commons turn toward
+ * the ledge) and a digit row, each built with no error and read back. */
+struct mixed_case {
+	int cells, lines, rows;   /* block */
+	int digits, duty;         /* digit row, 0 digits: none */
+};
+
+static int mixed_text(const struct mixed_case *c, char *text, size_t size,
+		      struct gp_box *inside)
+{
+	char digits[512] = "";
+	if (c->digits)
+		snprintf(digits, sizeof(digits),
+			 "digits:\n  row:\n    origin: [24, 11]\n"
+			 "    count: %d\n    pitch: 9\n    segments: 7\n"
+			 "    height: 8\n    width: 4.5\n    stroke: 0.9\n"
+			 "    gap: 0.2\n    slant: 6\n    ends: bevelled\n"
+			 "    point: {shape: round, size: 0.8}\n    duty: %d\n",
+			 c->digits, c->duty);
+	*inside = gp_box_make(llround((8 - 0.4) * MM), llround((9 - 0.4) * MM),
+			      llround((62 + 0.4) * MM), llround((31 + 0.4) * MM));
+	return snprintf(text, size,
+		"glass: {part: TEST-M, segments_on: front}\n"
+		"front: {size: [70, 34]}\n"
+		"back: {size: [70, 28], position: [0, 6]}\n"
+		"viewing_area: {position: [8, 9], size: [54, 22]}\n"
+		"rules: {min_line: 0.03, min_space: 0.03, registration: 0.04}\n"
+		"ledges:\n"
+		"  main: {side: bottom, plate: front, pitch: 0.5, pad_width: 0.25,"
+		" pad_length: 2, edge_clearance: 0.5,"
+		" connection: {method: elastomeric, pitch: 0.1}}\n"
+		"leads: {width: 0.03, space: 0.03}\n"
+		"seal: {width: 0.8, distance: 0.4, fill_port: {side: top, width: 2}}\n"
+		"transfers: {size: 0.3, count: 2, place: seal}\n"
+		"blocks:\n  text:\n    origin: [11, 29]\n    cells: [%d, %d]\n"
+		"    dots: [5, %d]\n    dot_size: [0.3, 0.3]\n"
+		"    dot_pitch: [0.35, 0.35]\n    cell_pitch: 2.2\n"
+		"    line_pitch: %g\n"
+		"%s"
+		"icons:\n"
+		"  bell: {shape: circle, diameter: 1.2, position: [50, 27],"
+		" common: alarm, segment: bell}\n"
+		"  arrow: {shape: triangle, size: [1.4, 1], position: [53, 27],"
+		" common: alarm, segment: arrow}\n",
+		c->cells, c->lines, c->rows, c->rows * 0.35 + 0.6, digits);
+}
+
+static void check_text(const char *name, const char *text,
+		       struct gp_box inside)
+{
+	char why[512];
+	struct gp_diag diag;
+	gp_diag_init(&diag);
+	struct gp_design *design = gp_design_load_buffer(
+		"case.yaml", text, strlen(text), NULL, 0, &diag);
+	struct gp_build *build = design ? gp_build_create(design, &diag) : NULL;
+	if (!build)
+		fail_msg("%s: %s", name,
+			 diag.count ? diag.entries[diag.count - 1].message : "?");
+	for (size_t i = 0; i < build->checks.count; i++)
+		if (build->checks.findings[i].severity == GP_SEVERITY_ERROR)
+			fail_msg("%s: %s", name, build->checks.findings[i].text);
+	gp_build_set_epoch(build, 0);
+	struct gp_output_set set;
+	gp_output_set_init(&set);
+	assert_true(gp_build_outputs(build, &set, &diag));
+	assert_int_equal(diag.errors, 0);
+	if (!readback_check(&set, inside, env_or_fail("GP_TEST_TMP"), why,
+			    sizeof(why)))
+		fail_msg("%s: read back: %s", name, why);
+	gp_output_set_finish(&set);
+	gp_build_destroy(build);
+	gp_design_destroy(design);
+	gp_diag_finish(&diag);
+}
+
+static void test_mixed_blocks_icons(void **state)
+{
+	(void)state;
+	static const int blocks[][3] = { { 4, 1, 7 }, { 3, 2, 8 } };
+	static const int digits[][2] = { { 0, 1 }, { 2, 1 }, { 4, 4 } };
+	for (size_t b = 0; b < 2; b++)
+		for (size_t d = 0; d < 3; d++) {
+			struct mixed_case c = { blocks[b][0], blocks[b][1],
+						blocks[b][2], digits[d][0],
+						digits[d][1] };
+			char text[4096], name[96];
+			struct gp_box inside;
+			mixed_text(&c, text, sizeof(text), &inside);
+			snprintf(name, sizeof(name), "block %dx%d rows %d, %d "
+				 "digits at duty %d, icons", c.cells, c.lines,
+				 c.rows, c.digits, c.duty);
+			check_text(name, text, inside);
+		}
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_readback_catches),
 		cmocka_unit_test(test_samples_readback),
 		cmocka_unit_test(test_matrix_7),
+		cmocka_unit_test(test_mixed_blocks_icons),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -174,9 +174,14 @@ static bool collect_obstacles(struct bundle *b)
 				 &cap))
 			return gp_diag_oom(b->r->diag, NULL);
 	}
-	/* leads of nets that leave another way, and bundles done before */
+	/* leads of nets that leave another way, and bundles done before;
+	 * the sideways stubs of ends that turn */
 	for (size_t i = 0; i < r->net_count; i++) {
 		const struct netstate *n = &r->nets[i];
+		if (n->ledge >= 0 && n->cands[n->chosen].turn &&
+		    !add_obstacle(b, n->cands[n->chosen].turn_stub, (int)i,
+				  false, &cap))
+			return gp_diag_oom(b->r->diag, NULL);
 		if (n->ledge < 0 || in_bundle(b, (int)i) || !n->decided)
 			continue;
 		if (!add_obstacle(b, n->corridor, (int)i, false, &cap))

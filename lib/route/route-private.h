@@ -75,6 +75,10 @@ struct cand {
 	/* how far the lead reaches back into its electrode past at: into a
 	 * back patch, deep enough that no notch cuts it off */
 	int64_t reach;
+	/* a block common's end that leaves its strip sideways and turns
+	 * toward the ledge (route.c, turning_cands): the sideways stub */
+	bool turn;
+	struct gp_box turn_stub;
 };
 
 struct netstate {
@@ -121,6 +125,7 @@ struct route {
 	int64_t space;            /* leads.space */
 	int64_t min_space;        /* rules.min_space */
 	size_t pin_first[GP_MAX_LEDGES];  /* first pad of each ledge */
+	bool turning;             /* turning ends may be chosen */
 };
 
 static inline const char *net_name(const struct route *r, int net)

@@ -7,6 +7,8 @@
  * multiples of 90 degrees are exact in integers). */
 #include "route-private.h"
 
+#include "array.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -166,7 +168,8 @@ static bool add_cand(struct netstate *n, enum gp_side side,
 		n->cand_capacity = cap;
 	}
 	n->bend[n->cand_count] = n->banned[n->cand_count] = false;
-	n->cands[n->cand_count++] = (struct cand){ side, at, width, 0 };
+	n->cands[n->cand_count++] = (struct cand){ side, at, width, 0, false,
+						   gp_box_none() };
 	return true;
 }
 
@@ -199,6 +202,41 @@ static struct gp_box strip_box(const struct route *r, int net, bool common)
 	return best;
 }
 
+static int64_t shift_reach(const struct route *r);
+
+/* A block row's common may also leave from either end of its strip a
+ * short way sideways and then turn toward its ledge, when that is above
+ * or below the block: the rows nearer the ledge turn first, so that the
+ * turns nest and no lead crosses another.  These ends are offered only
+ * when the straight ones cannot all be chosen (struct route, turning). */
+static bool turning_cands(struct route *r, struct netstate *n,
+			  struct gp_box strip)
+{
+	enum gp_side ledge = r->ledges[n->ledge].side;
+	if (ledge != GP_SIDE_BOTTOM && ledge != GP_SIDE_TOP)
+		return true;
+	int64_t w = min64(r->g->leads.width, r->ledges[n->ledge].pad_width);
+	w = max64(w, r->design->rules.min_line);
+	int64_t pitch = w + r->space;
+	int nearer = ledge == GP_SIDE_BOTTOM ? n->block_rows - 1 - n->block_row
+					     : n->block_row;
+	int64_t g = max64(max64(r->space, r->min_space), shift_reach(r)) + w +
+		    nearer * pitch;
+	int64_t y = (strip.y0 + strip.y1) / 2;
+	int64_t x[2] = { strip.x0 - g, strip.x1 + g };
+	for (int k = 0; k < 2; k++) {
+		if (!add_cand(n, ledge, (struct gp_point){ x[k], y }, w))
+			return false;
+		struct cand *c = &n->cands[n->cand_count - 1];
+		c->turn = true;
+		c->turn_stub = k == 0 ? gp_box_make(x[k] - w / 2, y - w / 2,
+						    strip.x0 + w, y + w - w / 2)
+				      : gp_box_make(strip.x1 - w, y - w / 2,
+						    x[k] + w - w / 2, y + w - w / 2);
+	}
+	return true;
+}
+
 /* Ends of block strips come from the strips themselves. */
 static bool block_cands(struct route *r, int net, struct netstate *n)
 {
@@ -215,7 +253,8 @@ static bool block_cands(struct route *r, int net, struct netstate *n)
 		n->block_row = row;
 		n->block_rows = rows;
 		return add_cand(n, GP_SIDE_LEFT, (struct gp_point){ b.x0, y }, h) &&
-		       add_cand(n, GP_SIDE_RIGHT, (struct gp_point){ b.x1, y }, h);
+		       add_cand(n, GP_SIDE_RIGHT, (struct gp_point){ b.x1, y }, h) &&
+		       turning_cands(r, n, b);
 	}
 	int64_t x = (b.x0 + b.x1) / 2, w = b.x1 - b.x0;
 	return add_cand(n, GP_SIDE_BOTTOM, (struct gp_point){ x, b.y0 }, w) &&
@@ -662,8 +701,11 @@ static int cand_rank(const struct route *r, const struct netstate *n,
 	const struct gp_ledge *l = &r->ledges[n->ledge];
 	enum gp_side s = side_to_canon(l->side, c->side);
 	int rank = s == GP_SIDE_BOTTOM ? 0 : s == GP_SIDE_TOP ? 4 : 2;
-	if (n->block_common && (c->side == GP_SIDE_LEFT ||
-				c->side == GP_SIDE_RIGHT)) {
+	enum gp_side way = c->side;
+	if (c->turn)
+		way = c->turn_stub.x1 > c->at.x + c->width ? GP_SIDE_LEFT
+							   : GP_SIDE_RIGHT;
+	if (n->block_common && (way == GP_SIDE_LEFT || way == GP_SIDE_RIGHT)) {
 		enum gp_commons_exit e = r->g->leads.commons;
 		if (e == GP_COMMONS_AUTO)
 			e = l->side == GP_SIDE_LEFT    ? GP_COMMONS_LEFT
@@ -674,7 +716,7 @@ static int cand_rank(const struct route *r, const struct netstate *n,
 				    ? GP_COMMONS_LEFT
 				    : GP_COMMONS_RIGHT;
 		bool want_left = e == GP_COMMONS_LEFT;
-		rank = (c->side == GP_SIDE_LEFT) == want_left ? 1 : 3;
+		rank = (way == GP_SIDE_LEFT) == want_left ? 1 : 3;
 	}
 	if (n->has_pad && (s == GP_SIDE_LEFT || s == GP_SIDE_RIGHT)) {
 		/* with a pin map, leave towards the pad */
@@ -808,7 +850,21 @@ static bool rank_ends(struct route *r, struct gp_geos_index *index,
 		k.all = down;
 		if (!blocked(r, index, &k, corridor_box(r, &narrow, n->ext)))
 			goto fail;
-		if (n->banned[c]) {
+		if (n->banned[c] || (cd->turn && !r->turning)) {
+			key[c] = -1;
+			continue;
+		}
+		if (cd->turn && k.hit < 0) {
+			/* its way sideways, before it turns */
+			if (!blocked(r, index, &k, cd->turn_stub))
+				goto fail;
+		}
+		if (cd->turn && k.hit < 0) {
+			key[c] = 4 * cand_rank(r, n, cd) + 3;
+			n->bend[c] = false;
+			continue;
+		}
+		if (cd->turn) {
 			key[c] = -1;
 			continue;
 		}
@@ -938,6 +994,9 @@ static size_t footprints(const struct route *r, int net, struct footprint *f)
 		f[count++] = (struct footprint){
 			net, plate, corridor_box(r, &narrow, n->ext), true, true,
 			2 };
+		if (c->turn)
+			f[count++] = (struct footprint){ net, plate, c->turn_stub,
+							 true, true, 0 };
 		return count;
 	}
 	f[count++] = (struct footprint){ net, r->build->art.nets[net].plate,
@@ -1064,12 +1123,217 @@ static int pick_mover(const struct route *r, int a, int b)
 	return -1;
 }
 
+/* --- the search for ends when trading gets stuck ------------------------------ */
+
+/* When trading ends between two clashing nets gets stuck, a search picks
+ * one free end per net: nets in order, ends best first; a net that runs
+ * out of ends jumps back to the latest earlier net that caused one of its
+ * clashes (conflict-directed backjumping), so that a chain of block
+ * commons trading left and right ends is solved without trying every
+ * combination. */
+struct clash_link {
+	int level, end;           /* a net's search level and its end */
+	int other, other_end;     /* the end of another net it clashes with */
+};
+
+struct search {
+	int *nets;                /* level -> net */
+	int count;
+	struct clash_link *links; /* sorted by level */
+	size_t link_count, link_capacity;
+	size_t *first;            /* level -> its first link; count + 1 */
+	int *value;               /* level -> end (pick), -1 */
+	uint64_t *conflicts;      /* level -> bitset of earlier levels */
+	size_t words;
+};
+
+/* Enough for any glass seen; past it the search gives up (a finding,
+ * not a hang). */
+#define SEARCH_TRIES 200000
+
+static int link_order(const void *a, const void *b)
+{
+	const struct clash_link *x = a, *y = b;
+	if (x->level != y->level)
+		return x->level < y->level ? -1 : 1;
+	if (x->end != y->end)
+		return x->end < y->end ? -1 : 1;
+	return (x->other > y->other) - (x->other < y->other);
+}
+
+static bool add_link(struct search *s, int level, int end, int other,
+		     int other_end)
+{
+	if (!gp_array_reserve(s->links, s->link_capacity, s->link_count + 1))
+		return false;
+	s->links[s->link_count++] =
+		(struct clash_link){ level, end, other, other_end };
+	return true;
+}
+
+/* Every pair of (net, end) that clash, both ways, grouped by level. */
+static bool search_links(struct route *r, struct gp_geos *geos,
+			 struct search *s)
+{
+	size_t cap = 1, count = 0;
+	for (int v = 0; v < s->count; v++)
+		cap += 4 * (size_t)r->nets[s->nets[v]].usable;
+	struct footprint *f = malloc(cap * sizeof(*f));
+	struct gp_box *boxes = malloc(cap * sizeof(*boxes));
+	int *level = malloc(cap * sizeof(*level));
+	int *end = malloc(cap * sizeof(*end));
+	struct gp_index_pair *pairs = NULL;
+	size_t pair_count = 0;
+	bool ok = f && boxes && level && end;
+	for (int v = 0; ok && v < s->count; v++) {
+		int net = s->nets[v];
+		struct netstate *n = &r->nets[net];
+		int pick = n->pick;
+		for (n->pick = 0; n->pick < n->usable; n->pick++) {
+			set_choice(r, net);
+			size_t got = footprints(r, net, f + count);
+			for (size_t k = count; k < count + got; k++)
+				boxes[k] = f[k].box, level[k] = v,
+				end[k] = n->pick;
+			count += got;
+		}
+		n->pick = pick;
+		set_choice(r, net);
+	}
+	int64_t gap = max64(max64(r->space, r->min_space), shift_reach(r));
+	ok = ok && gp_geos_box_pairs(geos, boxes, count, gap, &pairs,
+				     &pair_count);
+	for (size_t p = 0; ok && p < pair_count; p++) {
+		size_t a = pairs[p].a, b = pairs[p].b;
+		if (level[a] != level[b] && clash(r, &f[a], &f[b]))
+			ok = add_link(s, level[a], end[a], level[b], end[b]) &&
+			     add_link(s, level[b], end[b], level[a], end[a]);
+	}
+	if (ok && s->link_count)
+		qsort(s->links, s->link_count, sizeof(*s->links), link_order);
+	for (size_t i = 0, v = 0; ok && v <= (size_t)s->count; v++) {
+		while (i < s->link_count && s->links[i].level < (int)v)
+			i++;
+		s->first[v] = i;
+	}
+	free(pairs);
+	free(f);
+	free(boxes);
+	free(level);
+	free(end);
+	return ok;
+}
+
+/* The earliest level before `at` whose chosen end clashes with end `e`
+ * of level `at`, or -1. */
+static int clashes_with(const struct search *s, int at, int e)
+{
+	int worst = -1;
+	for (size_t i = s->first[at]; i < s->first[at + 1]; i++) {
+		const struct clash_link *k = &s->links[i];
+		if (k->end == e && k->other < at &&
+		    s->value[k->other] == k->other_end &&
+		    (worst < 0 || k->other < worst))
+			worst = k->other;
+	}
+	return worst;
+}
+
+static void set_bit(uint64_t *set, int bit)
+{
+	set[bit / 64] |= (uint64_t)1 << (bit % 64);
+}
+
+/* The latest level in a set, -1 when empty. */
+static int latest(const uint64_t *set, size_t words)
+{
+	for (size_t w = words; w-- > 0;)
+		if (set[w])
+			return (int)(w * 64) + 63 - __builtin_clzll(set[w]);
+	return -1;
+}
+
+/* Conflict-directed backjumping over s; true when every level has an
+ * end (s->value), false when none exists or the tries ran out. */
+static bool backjump(struct search *s, const struct route *r)
+{
+	long tries = SEARCH_TRIES;
+	int at = 0;
+	while (at >= 0 && at < s->count) {
+		uint64_t *mine = s->conflicts + (size_t)at * s->words;
+		int usable = r->nets[s->nets[at]].usable;
+		int e = s->value[at] + 1;
+		for (; e < usable && tries-- > 0; e++) {
+			int by = clashes_with(s, at, e);
+			if (by < 0)
+				break;
+			set_bit(mine, by);
+		}
+		if (tries <= 0)
+			return false;
+		if (e < usable) {
+			s->value[at++] = e;
+			continue;
+		}
+		/* out of ends: back to the latest level that caused a
+		 * clash, handing it the rest of this level's causes */
+		int back = latest(mine, s->words);
+		if (back >= 0) {
+			uint64_t *theirs = s->conflicts + (size_t)back * s->words;
+			for (size_t w = 0; w < s->words; w++)
+				theirs[w] |= mine[w];
+			theirs[back / 64] &= ~((uint64_t)1 << (back % 64));
+		}
+		for (int v = back < 0 ? 0 : back + 1; v <= at; v++) {
+			s->value[v] = -1;
+			memset(s->conflicts + (size_t)v * s->words, 0,
+			       s->words * sizeof(uint64_t));
+		}
+		at = back;
+	}
+	return at == s->count;
+}
+
+/* One end per net with no two clashing, by search; *found says whether
+ * there was one (the nets' picks are then set).  False on error. */
+static bool search_ends(struct route *r, struct gp_geos *geos, bool *found)
+{
+	struct search s = { 0 };
+	*found = false;
+	s.nets = malloc((r->net_count + 1) * sizeof(*s.nets));
+	for (size_t i = 0; s.nets && i < r->net_count; i++)
+		if (r->nets[i].ledge >= 0)
+			s.nets[s.count++] = (int)i;
+	s.words = (size_t)s.count / 64 + 1;
+	s.first = malloc(((size_t)s.count + 1) * sizeof(*s.first));
+	s.value = malloc(((size_t)s.count + 1) * sizeof(*s.value));
+	s.conflicts = calloc(((size_t)s.count + 1) * s.words,
+			     sizeof(*s.conflicts));
+	bool ok = s.nets && s.first && s.value && s.conflicts &&
+		  search_links(r, geos, &s);
+	for (int v = 0; ok && v < s.count; v++)
+		s.value[v] = -1;
+	if (ok && backjump(&s, r)) {
+		*found = true;
+		for (int v = 0; v < s.count; v++) {
+			r->nets[s.nets[v]].pick = s.value[v];
+			set_choice(r, s.nets[v]);
+		}
+	}
+	free(s.nets);
+	free(s.first);
+	free(s.value);
+	free(s.conflicts);
+	free(s.links);
+	return ok || gp_diag_oom(r->diag, NULL);
+}
+
 /* Every net takes its best free end; while two clash, the one with
  * another free end (the later net first) moves to it. */
 static bool choose_ends(struct route *r, struct gp_geos_index *index,
 			struct gp_geos *geos)
 {
-	bool ok = true;
+	bool ok = true, searched = false;
 	size_t rounds = 0;
 	for (size_t i = 0; i < r->net_count; i++) {
 		if (r->nets[i].ledge < 0)
@@ -1089,6 +1353,13 @@ static bool choose_ends(struct route *r, struct gp_geos_index *index,
 			return true;
 		int move = pick_mover(r, a, b);
 		if (move < 0 || rounds-- == 0) {
+			bool found;
+			if (!searched && !search_ends(r, geos, &found))
+				return false;
+			if (!searched && found) {
+				searched = true;
+				continue;
+			}
 			char x[32], y[32];
 			return gp_diag_error(
 				r->diag, gp_route_net_where(r, b),
@@ -1550,6 +1821,15 @@ static void forward(struct gp_diag *to, const struct gp_diag *from)
 		gp_diag_copy(to, &from->entries[i]);
 }
 
+static bool has_turning(const struct route *r)
+{
+	for (size_t i = 0; i < r->net_count; i++)
+		for (int k = 0; k < r->nets[i].cand_count; k++)
+			if (r->nets[i].cands[k].turn)
+				return true;
+	return false;
+}
+
 /* Ends for every net, then the leads toward each ledge round what is in
  * their way.  A lead that cannot go round (hemmed in by other leads) is
  * told to take its next way out, and everything is chosen again. */
@@ -1600,6 +1880,20 @@ static bool choose_and_bundle(struct route *r, struct gp_geos_index *index,
 		bool retry = !ok && c && !scratch.lost &&
 			     (c->bend[c->chosen] || c->usable > 1) &&
 			     attempt < r->net_count;
+		if (!ok && !retry && !scratch.lost && !r->turning &&
+		    has_turning(r)) {
+			/* once more, with the ends that turn */
+			gp_diag_finish(&scratch);
+			r->turning = true;
+			attempt = 0;
+			for (size_t i = 0; i < r->net_count; i++) {
+				struct netstate *m = &r->nets[i];
+				m->no_bend = false;
+				for (int k = 0; k < m->cand_count; k++)
+					m->banned[k] = false;
+			}
+			continue;
+		}
 		if (!retry)
 			forward(diag, &scratch);
 		gp_diag_finish(&scratch);
@@ -1687,6 +1981,11 @@ bool gp_route_layout(struct gp_build *build, struct gp_diag *diag)
 		ok = gp_artwork_add_box(&build->art, gp_plate_ito_layer(plate),
 					GP_ROLE_LEAD, (int)i, n->corridor) &&
 		     (!n->transfer || add_transfers(&r, (int)i, n));
+		if (ok && n->cands[n->chosen].turn)
+			ok = gp_artwork_add_box(&build->art,
+						gp_plate_ito_layer(plate),
+						GP_ROLE_LEAD, (int)i,
+						n->cands[n->chosen].turn_stub);
 		if (ok && n->path_count >= 2) {
 			ok = gp_polygon_copy(&copy, &n->path_poly) &&
 			     gp_artwork_add_shape(&build->art,
