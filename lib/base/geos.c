@@ -32,7 +32,8 @@ static void on_error(const char *message, void *user)
 {
 	struct gp_geos *geos = user;
 	if (geos->diag)
-		gp_diag_error(geos->diag, NULL, "GEOS: %s", message);
+		gp_diag_fail(geos->diag, GP_MSG_GEOMETRY_FAILED, NULL,
+			     "GEOS: %s", message);
 }
 
 static void on_notice(const char *message, void *user)
@@ -74,7 +75,8 @@ void gp_geos_set_diag(struct gp_geos *geos, struct gp_diag *diag)
 static bool fail(struct gp_geos *geos, const char *what)
 {
 	if (geos->diag)
-		gp_diag_error(geos->diag, NULL, "GEOS: %s failed", what);
+		gp_diag_fail(geos->diag, GP_MSG_GEOMETRY_FAILED, NULL,
+			     "GEOS: %s failed", what);
 	return false;
 }
 

@@ -68,14 +68,15 @@ struct gp_buffer *gp_output_add(struct gp_output_set *set, const char *name,
 				struct gp_diag *diag)
 {
 	if (!name_is_plain(name)) {
-		gp_diag_error(diag, NULL,
-			      "output name '%s' is not a plain file name", name);
+		gp_diag_fail(diag, GP_MSG_INTERNAL, NULL,
+			     "output name '%s' is not a plain file name", name);
 		return NULL;
 	}
 	for (size_t i = 0; i < set->count; i++)
 		if (strcmp(set->files[i].name, name) == 0) {
-			gp_diag_error(diag, NULL, "output '%s' written twice",
-				      name);
+			gp_diag_fail(diag, GP_MSG_INTERNAL, NULL,
+				     "output '%s' written twice",
+				     name);
 			return NULL;
 		}
 	if (!gp_array_reserve(set->files, set->capacity, set->count + 1))
@@ -134,8 +135,9 @@ static char *write_temporary(const char *folder,
 	sprintf(path, "%s/.%s.XXXXXX", folder, file->name);
 	int fd = mkstemp(path);
 	if (fd < 0) {
-		gp_diag_error(diag, NULL, "%s: cannot write in this folder: %s",
-			      folder, strerror(errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+			     "%s: cannot write in this folder: %s",
+			     folder, strerror(errno));
 		free(path);
 		return NULL;
 	}
@@ -146,11 +148,12 @@ static char *write_temporary(const char *folder,
 	int saved = errno;
 	ok = close(fd) == 0 && ok;
 	if (!ok) {
-		gp_diag_error(diag, NULL, "%s/%s: cannot write: %s", folder,
-			      file->name,
-			      file->content.failed ? "out of memory"
-						   : strerror(saved ? saved
-								    : errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+			     "%s/%s: cannot write: %s", folder,
+			     file->name,
+			     file->content.failed ? "out of memory"
+						  : strerror(saved ? saved
+								   : errno));
 		unlink(path);
 		free(path);
 		return NULL;
@@ -167,15 +170,16 @@ static bool make_folder(const char *folder, bool *created,
 	if (stat(folder, &st) == 0) {
 		if (S_ISDIR(st.st_mode))
 			return true;
-		return gp_diag_error(diag, NULL,
-				     "%s: exists and is not a folder", folder);
+		return gp_diag_fail(diag, GP_MSG_NOT_A_FOLDER, NULL,
+				    "%s: exists and is not a folder", folder);
 	}
 	if (mkdir(folder, 0777) == 0) {
 		*created = true;
 		return true;
 	}
-	return gp_diag_error(diag, NULL, "%s: cannot create the folder: %s",
-			     folder, strerror(errno));
+	return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+			    "%s: cannot create the folder: %s",
+			    folder, strerror(errno));
 }
 
 /* A folder where an output file should go would make its rename fail
@@ -192,10 +196,10 @@ static bool check_targets(const struct gp_output_set *set,
 		if (!path)
 			return gp_diag_oom(diag, NULL);
 		if (in_way)
-			return gp_diag_error(diag, NULL,
-					     "%s/%s: a folder is in the way of "
-					     "this output file", folder,
-					     set->files[i].name);
+			return gp_diag_fail(diag, GP_MSG_IN_THE_WAY, NULL,
+					    "%s/%s: a folder is in the way of "
+					    "this output file", folder,
+					    set->files[i].name);
 	}
 	return true;
 }
@@ -289,11 +293,12 @@ static bool put_in_place(const struct gp_output_set *set, const char *folder,
 		if (!final || do_rename(entries[i].temporary, final) != 0) {
 			free(final);
 			roll_back(set, folder, entries);
-			return gp_diag_error(diag, NULL, "%s/%s: cannot rename "
-					     "into place: %s", folder,
-					     set->files[i].name,
-					     final ? strerror(errno)
-						   : "out of memory");
+			return gp_diag_fail(diag, GP_MSG_CANNOT_RENAME, NULL,
+					    "%s/%s: cannot rename "
+					    "into place: %s", folder,
+					    set->files[i].name,
+					    final ? strerror(errno)
+						  : "out of memory");
 		}
 		free(final);
 		free(entries[i].temporary);
@@ -518,8 +523,9 @@ static bool write_at(int folder_fd, const char *folder,
 	int fd = openat(folder_fd, file->name,
 			O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0644);
 	if (fd < 0)
-		return gp_diag_error(diag, NULL, "%s/%s: cannot write: %s",
-				     folder, file->name, strerror(errno));
+		return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+				    "%s/%s: cannot write: %s",
+				    folder, file->name, strerror(errno));
 	bool ok = !file->content.failed &&
 		  write_all(fd, file->content.data ? file->content.data : "",
 			    file->content.size) &&
@@ -527,11 +533,12 @@ static bool write_at(int folder_fd, const char *folder,
 	int saved = errno;
 	ok = close(fd) == 0 && ok;
 	if (!ok)
-		return gp_diag_error(diag, NULL, "%s/%s: cannot write: %s",
-				     folder, file->name,
-				     file->content.failed ? "out of memory"
-							  : strerror(saved ? saved
-									   : errno));
+		return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+				    "%s/%s: cannot write: %s",
+				    folder, file->name,
+				    file->content.failed ? "out of memory"
+							 : strerror(saved ? saved
+									  : errno));
 	return true;
 }
 
@@ -617,15 +624,17 @@ static int swap_commit(const struct gp_output_set *set, struct place *pl,
 			goto out;
 	step();
 	if (fsync(new_fd) != 0) {
-		gp_diag_error(diag, NULL, "%s: cannot write: %s", folder,
-			      strerror(errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+			     "%s: cannot write: %s", folder,
+			     strerror(errno));
 		goto out;
 	}
 	if (!swap_in(pl, fresh, &old)) {
 		if (commit_mode == 0 && pl->exists && errno != EIO)
 			goto fallback; /* not on this file system */
-		gp_diag_error(diag, NULL, "%s: cannot rename into place: %s",
-			      folder, strerror(errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_RENAME, NULL,
+			     "%s: cannot rename into place: %s",
+			     folder, strerror(errno));
 		goto out;
 	}
 	free(fresh);
@@ -657,8 +666,8 @@ bool gp_output_commit(const struct gp_output_set *set, const char *folder,
 	struct place pl = { -1, NULL, false, { 0 } };
 	char *parent = NULL;
 	if (stat(folder, &pl.st) == 0 && !S_ISDIR(pl.st.st_mode))
-		return gp_diag_error(diag, NULL,
-				     "%s: exists and is not a folder", folder);
+		return gp_diag_fail(diag, GP_MSG_NOT_A_FOLDER, NULL,
+				    "%s: exists and is not a folder", folder);
 	if (!check_targets(set, folder, diag))
 		return false;
 	int result = -1;

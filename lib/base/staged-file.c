@@ -41,9 +41,10 @@ bool gp_staged_file_write(struct gp_staged_file *file, const char *path,
 	struct stat st;
 	file->path = file->temporary = NULL;
 	if (stat(path, &st) == 0 && !S_ISREG(st.st_mode))
-		return gp_diag_error(diag, NULL, "%s: not a plain file; "
-				     "give the name of a file to write",
-				     path);
+		return gp_diag_fail(diag, GP_MSG_NOT_A_PLAIN_FILE, NULL,
+				    "%s: not a plain file; "
+				    "give the name of a file to write",
+				    path);
 	file->path = strdup(path);
 	file->temporary = temporary_name(path);
 	if (!file->path || !file->temporary) {
@@ -57,8 +58,9 @@ bool gp_staged_file_write(struct gp_staged_file *file, const char *path,
 	if (fd >= 0)
 		ok = close(fd) == 0 && ok;
 	if (!ok) {
-		gp_diag_error(diag, NULL, "%s: cannot write it: %s", path,
-			      strerror(saved ? saved : errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+			     "%s: cannot write it: %s", path,
+			     strerror(saved ? saved : errno));
 		if (fd < 0) {
 			free(file->temporary);
 			file->temporary = NULL;
@@ -72,8 +74,9 @@ bool gp_staged_file_commit(struct gp_staged_file *file, struct gp_diag *diag)
 {
 	bool ok = rename(file->temporary, file->path) == 0;
 	if (!ok)
-		gp_diag_error(diag, NULL, "%s: cannot put it in place: %s",
-			      file->path, strerror(errno));
+		gp_diag_fail(diag, GP_MSG_CANNOT_RENAME, NULL,
+			     "%s: cannot put it in place: %s",
+			     file->path, strerror(errno));
 	else {
 		free(file->temporary);
 		file->temporary = NULL;

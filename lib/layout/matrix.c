@@ -173,11 +173,11 @@ bool gp_blocks_layout(struct gp_build *build, struct gp_diag *diag)
 {
 	const struct gp_design *design = build->design;
 	if (pixel_total(design) > GP_MAX_PIXELS)
-		return gp_diag_error(diag, NULL,
-				     "%s: the blocks have %zu dots; the limit "
-				     "is %d",
-				     design->spec->file, pixel_total(design),
-				     GP_MAX_PIXELS);
+		return gp_diag_fail(diag, GP_MSG_OVER_LIMIT, NULL,
+				    "%s: the blocks have %zu dots; the limit "
+				    "is %d",
+				    design->spec->file, pixel_total(design),
+				    GP_MAX_PIXELS);
 	build->blocks = calloc(design->block_count ? design->block_count : 1,
 			       sizeof(*build->blocks));
 	if (!build->blocks)

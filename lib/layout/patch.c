@@ -220,12 +220,12 @@ static void warn_close(struct work *w, const struct gp_patch_group *groups,
 	gp_format_mm_short(y, sizeof(y), (pa.y + pb.y) / 2);
 	gp_format_mm_short(dd, sizeof(dd), (int64_t)d);
 	gp_format_mm_short(ll, sizeof(ll), limit);
-	gp_diag_warning(diag, NULL,
-			"back patches of %s and %s are %s mm apart at "
-			"(%s, %s) mm, less than the %s mm minimum space: their "
-			"front shapes are too close",
-			groups[g].name ? groups[g].name : "?",
-			groups[h].name ? groups[h].name : "?", dd, x, y, ll);
+	gp_diag_warn(diag, GP_MSG_TOO_CLOSE, NULL,
+		     "back patches of %s and %s are %s mm apart at "
+		     "(%s, %s) mm, less than the %s mm minimum space: their "
+		     "front shapes are too close",
+		     groups[g].name ? groups[g].name : "?",
+		     groups[h].name ? groups[h].name : "?", dd, x, y, ll);
 }
 
 /* Whatever the split left too close (ends of gaps, odd angles) goes from

@@ -274,28 +274,28 @@ bool gp_route_write(const struct gp_build *build, struct gp_output_set *set,
 		      gp_build_wants(build, GP_OUTPUT_FIRMWARE);
 	/* asked for by name, they must not vanish into an empty set */
 	if (build->pin_count == 0 && wanted && build->outputs_chosen)
-		return gp_diag_error(diag, NULL,
-				     "pins.csv and glass-map.h need pads, and "
-				     "this glass has no 'ledges'; leave pins "
-				     "and firmware out of --only");
+		return gp_diag_fail(diag, GP_MSG_NEEDS_LEDGES, NULL,
+				    "pins.csv and glass-map.h need pads, and "
+				    "this glass has no 'ledges'; leave pins "
+				    "and firmware out of --only");
 	if (build->pin_count == 0)
 		return true;
 	if (gp_build_wants(build, GP_OUTPUT_PINS)) {
 		struct gp_buffer *csv = gp_output_add(set, "pins.csv", diag);
 		if (!csv || !gp_pins_csv(build, csv))
-			return gp_diag_error(diag, NULL,
-					     "pins.csv: cannot write it");
+			return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+					    "pins.csv: cannot write it");
 		struct gp_buffer *matrix =
 			gp_output_add(set, "pin-matrix.csv", diag);
 		if (!matrix || !gp_pin_matrix_csv(build, matrix))
-			return gp_diag_error(diag, NULL,
-					     "pin-matrix.csv: cannot write it");
+			return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+					    "pin-matrix.csv: cannot write it");
 	}
 	if (!gp_build_wants(build, GP_OUTPUT_FIRMWARE))
 		return true;
 	struct gp_buffer *h = gp_output_add(set, "glass-map.h", diag);
 	if (!h || !gp_firmware_header(build, h))
-		return gp_diag_error(diag, NULL,
-				     "glass-map.h: cannot write it");
+		return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+				    "glass-map.h: cannot write it");
 	return true;
 }

@@ -140,9 +140,10 @@ static bool show_digits(const struct gp_build *build, size_t row,
 			continue;
 		}
 		if (n == GP_DIGITS_MAX_COUNT + 2)
-			return gp_diag_error(diag, NULL, "--show: '%s' is longer "
-					     "than digit row '%s'", text,
-					     d->name);
+			return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					    "--show: '%s' is longer "
+					    "than digit row '%s'", text,
+					    d->name);
 		shown[n++] = (struct shown_digit){ *s, false, false };
 	}
 	/* a sign unit takes the leading '-', '1' or "-1" the digits leave */
@@ -155,27 +156,29 @@ static bool show_digits(const struct gp_build *build, size_t row,
 								   : NULL;
 			if (!part || !drive_part(build, p, row, (size_t)sign,
 						 part, false))
-				return gp_diag_error(
-					diag, NULL, "--show: the sign of digit "
+				return gp_diag_fail(
+					diag, GP_MSG_BAD_SHOW, NULL, "--show: the sign of digit "
 					"row '%s' cannot show '%c'", d->name,
 					shown[first].c);
 			first++;
 		}
 	}
 	if (n - first > d->count)
-		return gp_diag_error(diag, NULL, "--show: '%s' has more digits "
-				     "than digit row '%s' (%ld)", text, d->name,
-				     d->count);
+		return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+				    "--show: '%s' has more digits "
+				    "than digit row '%s' (%ld)", text, d->name,
+				    d->count);
 	/* right-aligned */
 	int number = (int)d->count - (n - first) + 1;
 	for (int i = first; i < n; i++, number++) {
 		int unit = unit_of(r, number);
 		const char *segments = seven_segments(shown[i].c);
 		if (!segments)
-			return gp_diag_error(diag, NULL, "--show: digit row '%s' "
-					     "cannot show '%c' (digits, A-F, "
-					     "-, _ and a few letters)",
-					     d->name, shown[i].c);
+			return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					    "--show: digit row '%s' "
+					    "cannot show '%c' (digits, A-F, "
+					    "-, _ and a few letters)",
+					    d->name, shown[i].c);
 		if (unit < 0)
 			continue;
 		for (const char *s = segments; *s; s++) {
@@ -184,14 +187,16 @@ static bool show_digits(const struct gp_build *build, size_t row,
 		}
 		if (shown[i].point &&
 		    !drive_part(build, p, row, (size_t)unit, "dp", false))
-			return gp_diag_error(diag, NULL, "--show: digit %d of "
-					     "row '%s' has no point", number,
-					     d->name);
+			return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					    "--show: digit %d of "
+					    "row '%s' has no point", number,
+					    d->name);
 		if (shown[i].colon &&
 		    !drive_part(build, p, row, (size_t)unit, "colon", false))
-			return gp_diag_error(diag, NULL, "--show: digit %d of "
-					     "row '%s' has no colon after it",
-					     number, d->name);
+			return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					    "--show: digit %d of "
+					    "row '%s' has no colon after it",
+					    number, d->name);
 	}
 	return true;
 }
@@ -208,8 +213,9 @@ static FT_Face open_mono(FT_Library library, struct gp_diag *diag)
 		face = NULL;
 	gp_font_destroy(font);
 	if (!face)
-		gp_diag_error(diag, NULL, "--show: cannot open the font "
-			      "'Liberation Mono' for text in a dot matrix");
+		gp_diag_fail(diag, GP_MSG_FONT_NOT_FOUND, NULL,
+			     "--show: cannot open the font "
+			     "'Liberation Mono' for text in a dot matrix");
 	return face;
 }
 
@@ -281,8 +287,9 @@ static bool show_text(const struct gp_build *build, size_t index,
 	const struct gp_block *b = &build->design->blocks[index];
 	FT_Library library;
 	if (FT_Init_FreeType(&library))
-		return gp_diag_error(diag, NULL, "--show: cannot start "
-				     "FreeType");
+		return gp_diag_fail(diag, GP_MSG_INTERNAL, NULL,
+				    "--show: cannot start "
+				    "FreeType");
 	FT_Face face = open_mono(library, diag);
 	bool ok = face != NULL;
 	long line = 0, cell = 0;
@@ -292,24 +299,27 @@ static bool show_text(const struct gp_build *build, size_t index,
 			line++;
 			cell = 0;
 			if (line >= b->lines)
-				ok = gp_diag_error(diag, NULL, "--show: '%s' has "
-						   "more lines than block "
-						   "'%s' (%ld)", text, b->name,
-						   b->lines);
+				ok = gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+						  "--show: '%s' has "
+						  "more lines than block "
+						  "'%s' (%ld)", text, b->name,
+						  b->lines);
 			continue;
 		}
 		unsigned long code = next_code(&s);
 		if (cell >= b->cells) {
-			ok = gp_diag_error(diag, NULL, "--show: line %ld of "
-					   "'%s' is longer than block '%s' "
-					   "(%ld cells)", line + 1, text,
-					   b->name, b->cells);
+			ok = gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					  "--show: line %ld of "
+					  "'%s' is longer than block '%s' "
+					  "(%ld cells)", line + 1, text,
+					  b->name, b->cells);
 			break;
 		}
 		if (code != ' ' &&
 		    !show_char(build, index, face, line, cell, code, p))
-			ok = gp_diag_error(diag, NULL, "--show: cannot render "
-					   "character %lu of '%s'", code, text);
+			ok = gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+					  "--show: cannot render "
+					  "character %lu of '%s'", code, text);
 		cell++;
 	}
 	if (face)
@@ -348,16 +358,18 @@ static bool show_item(const struct gp_build *build, const char *item,
 			if (strlen(d->blocks[i].name) == len &&
 			    strncmp(d->blocks[i].name, item, len) == 0)
 				return show_text(build, i, eq + 1, p, diag);
-		return gp_diag_error(diag, NULL, "--show: '%.*s' is no digit "
-				     "row or block of this glass", (int)len,
-				     item);
+		return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+				    "--show: '%.*s' is no digit "
+				    "row or block of this glass", (int)len,
+				    item);
 	}
 	for (size_t i = 0; i < d->icon_count; i++)
 		if (strcmp(d->icons[i].name, item) == 0)
 			return show_icon(build, i, p);
-	return gp_diag_error(diag, NULL, "--show: '%s' is no icon of this "
-			     "glass (ROW=DIGITS, BLOCK=TEXT or an icon's "
-			     "name)", item);
+	return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+			    "--show: '%s' is no icon of this "
+			    "glass (ROW=DIGITS, BLOCK=TEXT or an icon's "
+			    "name)", item);
 }
 
 static bool driven(const struct gp_show *show, int common, int segment)
@@ -380,7 +392,7 @@ struct gp_show *gp_show_create(const struct gp_build *build, const char *spec,
 		ok = show_item(build, item, &p, diag);
 	free(copy);
 	if (ok && p.failed)
-		ok = gp_diag_error(diag, NULL, "--show: out of memory");
+		ok = gp_diag_oom(diag, NULL);
 	if (!ok) {
 		free(p.items);
 		gp_show_destroy(show);
@@ -399,7 +411,7 @@ struct gp_show *gp_show_create(const struct gp_build *build, const char *spec,
 			   sizeof(*show->lit));
 	if (!show->spec || !show->lit) {
 		gp_show_destroy(show);
-		gp_diag_error(diag, NULL, "--show: out of memory");
+		gp_diag_oom(diag, NULL);
 		return NULL;
 	}
 	for (size_t i = 0; i < show->pixel_count; i++) {
@@ -467,8 +479,9 @@ bool gp_show_png(const struct gp_build *build, const struct gp_show *show,
 	int w = (int)(s * gp_mm(gp_box_width(g)) + 0.5);
 	int h = (int)(s * gp_mm(gp_box_height(g)) + 0.5);
 	if (w < 1 || h < 1 || w > 20000 || h > 20000)
-		return gp_diag_error(diag, NULL, "preview: %d x %d pixels at "
-				     "%g dpi is out of range", w, h, dpi);
+		return gp_diag_fail(diag, GP_MSG_OUT_OF_RANGE, NULL,
+				    "preview: %d x %d pixels at "
+				    "%g dpi is out of range", w, h, dpi);
 	cairo_surface_t *surface =
 		cairo_image_surface_create(CAIRO_FORMAT_RGB24, w, h);
 	cairo_t *cr = cairo_create(surface);
@@ -506,8 +519,9 @@ bool gp_show_png(const struct gp_build *build, const struct gp_show *show,
 		cairo_surface_write_to_png_stream(surface, append_png, out);
 	cairo_surface_destroy(surface);
 	if (status != CAIRO_STATUS_SUCCESS || out->failed)
-		return gp_diag_error(diag, NULL, "preview: cannot write the "
-				     "PNG: %s", cairo_status_to_string(status));
+		return gp_diag_fail(diag, GP_MSG_CANNOT_WRITE, NULL,
+				    "preview: cannot write the "
+				    "PNG: %s", cairo_status_to_string(status));
 	return true;
 }
 
@@ -529,8 +543,9 @@ GP_EXPORT bool gp_build_write_preview(const struct gp_build *build,
 				      struct gp_diag *diag)
 {
 	if (!build->show)
-		return gp_diag_error(diag, NULL, "preview: no content to show "
-				     "(give --show)");
+		return gp_diag_fail(diag, GP_MSG_BAD_SHOW, NULL,
+				    "preview: no content to show "
+				    "(give --show)");
 	struct gp_output_set set;
 	gp_output_set_init(&set);
 	const char *slash = strrchr(path, '/');

@@ -778,15 +778,16 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	struct proof p;
 	proof_start(&p, build);
 	if (!have_fonts())
-		return gp_diag_error(diag, NULL, "proof.pdf: cannot open the "
-				     "fonts '%s', '%s' and '%s' (install the "
-				     "Liberation fonts, version 2)",
-				     font_names[0], font_names[1],
-				     font_names[2]);
+		return gp_diag_fail(diag, GP_MSG_FONT_NOT_FOUND, NULL,
+				    "proof.pdf: cannot open the "
+				    "fonts '%s', '%s' and '%s' (install the "
+				    "Liberation fonts, version 2)",
+				    font_names[0], font_names[1],
+				    font_names[2]);
 	/* the pin matrix once, for the plan and the sheets */
 	if (!proof_pins_create(&p)) {
 		proof_finish(&p);
-		return gp_diag_error(diag, NULL, "proof.pdf: out of memory");
+		return gp_diag_oom(diag, NULL);
 	}
 	plan_measured(&p, &p.plan);
 	p.view = (struct proof_view){ .ox = p.plan.ox, .oy = p.plan.oy,
@@ -799,7 +800,7 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	set_metadata(surface, build);
 	p.cr = cairo_create(surface);
 	if (!proof_net_use_create(&p) || !proof_cells_create(&p)) {
-		gp_diag_error(diag, NULL, "proof.pdf: out of memory");
+		gp_diag_oom(diag, NULL);
 		goto cleanup;
 	}
 	draw_sheets(&p);
@@ -810,13 +811,15 @@ bool gp_proof_write(struct gp_buffer *out, const struct gp_build *build,
 	if (status == CAIRO_STATUS_SUCCESS)
 		status = cairo_surface_status(surface);
 	if (status != CAIRO_STATUS_SUCCESS || out->failed) {
-		gp_diag_error(diag, NULL, "proof.pdf: cairo failed: %s",
-			      cairo_status_to_string(status));
+		gp_diag_fail(diag, GP_MSG_INTERNAL, NULL,
+			     "proof.pdf: cairo failed: %s",
+			     cairo_status_to_string(status));
 		goto cleanup;
 	}
 	ok = p.sheet - 1 == p.plan.sheet_count ||
-	     gp_diag_error(diag, NULL, "proof.pdf: drew %d sheets, planned "
-			   "%d (a bug)", p.sheet - 1, p.plan.sheet_count);
+	     gp_diag_fail(diag, GP_MSG_INTERNAL, NULL,
+			  "proof.pdf: drew %d sheets, planned "
+			  "%d (a bug)", p.sheet - 1, p.plan.sheet_count);
 cleanup:
 	if (p.cr)
 		cairo_destroy(p.cr);
